@@ -1,0 +1,61 @@
+"""Run every check on a design and gather the findings in one list.
+
+Each check is a function ``(design, analysis) -> list[Finding]`` registered in
+:data:`DESIGN_CHECKS`; :func:`analyse` runs them all, after the exact kinematics.
+Adding a check: write the function in its own module under ``wheelgen/checks`` and add it
+to the tuple below. Nothing here imports the CAD kernel.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from typing import Callable
+
+from ..design.model import Design
+from ..kinematics.rates import TrainSolution, solve_rates
+from ..kinematics.targets import TargetResult, evaluate_targets
+from .findings import Finding, sort_findings
+from .train import train_findings
+
+__all__ = ["Analysis", "analyse", "run_checks", "DESIGN_CHECKS", "DesignCheck"]
+
+
+@dataclass(frozen=True)
+class Analysis:
+    """Everything the checks found: exact rates, target verdicts and findings."""
+
+    design: Design
+    solution: TrainSolution
+    targets: list[TargetResult]
+    findings: list[Finding] = field(default_factory=list)
+
+
+DesignCheck = Callable[[Design, Analysis], list[Finding]]
+
+
+def _train(design: Design, analysis: Analysis) -> list[Finding]:
+    return train_findings(design, analysis.solution, analysis.targets)
+
+
+def _registered() -> tuple[DesignCheck, ...]:
+    # Imported here so that each check module may import the engine's types.
+    return (_train,)
+
+
+DESIGN_CHECKS: tuple[DesignCheck, ...] = ()
+
+
+def analyse(design: Design) -> Analysis:
+    """Solve the train and run every registered check, worst findings first."""
+    solution = solve_rates(design)
+    targets = evaluate_targets(design, solution)
+    base = Analysis(design, solution, targets)
+    findings: list[Finding] = []
+    for check in _registered() + DESIGN_CHECKS:
+        findings.extend(check(design, base))
+    return Analysis(design, solution, targets, sort_findings(findings))
+
+
+def run_checks(design: Design) -> list[Finding]:
+    """Every finding for the design (errors first)."""
+    return analyse(design).findings

@@ -1,0 +1,33 @@
+"""Command line: ``wheelgen <command>``. Only this package catches our errors.
+
+Exit codes: 0 all well; 1 the design loads but a check found an error (or a search
+found nothing within tolerance); 2 the input cannot be used (bad file, bad option).
+Each command lives in its own module and is imported here; commands that need the CAD
+kernel import it inside the command body, so ``wheelgen check`` starts fast.
+"""
+
+from __future__ import annotations
+
+import click
+
+from .. import __version__
+
+__all__ = ["main"]
+
+
+@click.group(context_settings={"help_option_names": ["-h", "--help"], "max_content_width": 100})
+@click.version_option(__version__, prog_name="wheelgen")
+def main() -> None:
+    """wheelgen: from a gear-train definition to checked parts and workshop sheets.
+
+    Write the train as a TOML file (see docs/format.md), then:
+
+    \b
+      wheelgen check DESIGN     exact rates, targets and every check
+      wheelgen build DESIGN     parts as STEP, STL, 3MF, DXF and 1:1 SVG
+    """
+
+
+from .check import check_command  # noqa: E402  (commands register after the group exists)
+
+main.add_command(check_command)

@@ -1,0 +1,778 @@
+"""Read a train file (TOML, version 1) into a checked, immutable :class:`Design`.
+
+The file is data: parsed with :mod:`tomllib`, never executed. Every problem found is
+collected and raised together as one :class:`DesignError`, each naming the file, the
+line where it can be found, the item (``wheel "w3"``, ``the 2nd [[mesh]]``) and the key.
+"""
+
+from __future__ import annotations
+
+import difflib
+import hashlib
+import math
+import re
+import tomllib
+from fractions import Fraction
+from pathlib import Path
+from typing import Any, Callable
+
+from .errors import DesignError, Problem
+from .model import (
+    Arbor,
+    Design,
+    Drive,
+    Frame,
+    Mesh,
+    PinSlot,
+    Process,
+    Stock,
+    Target,
+    Wheel,
+    Where,
+)
+from .periods import PeriodError, parse_period
+
+__all__ = ["load_design", "loads_design", "MIN_TEETH", "MAX_TEETH", "SAFE_NAME"]
+
+MIN_TEETH = 3
+MAX_TEETH = 2000
+#: Names become file names of exported parts: letters, digits, '-' and '_' only.
+SAFE_NAME = re.compile(r"^[A-Za-z0-9_-]{1,64}$")
+#: Names the build uses for files of its own.
+RESERVED_NAMES = frozenset({"assembly", "manifest", "report", "parts", "cutting"})
+
+TOP_KEYS = ("design", "defaults", "process", "frame", "drive", "arbor", "wheel", "mesh",
+            "pinslot", "target", "stock")
+
+# Per-wheel keys that [defaults] may also set: key -> (default, kind, check)
+_Check = Callable[[Any], str | None]
+
+
+def _positive(v: Any) -> str | None:
+    return None if v > 0 else "a number > 0"
+
+
+def _non_negative(v: Any) -> str | None:
+    return None if v >= 0 else "a number >= 0"
+
+
+def _between(lo: float, hi: float, unit: str = "") -> _Check:
+    def check(v: Any) -> str | None:
+        return None if lo <= v <= hi else f"a number from {lo:g} to {hi:g}{unit}"
+
+    return check
+
+
+def _choice(*options: str) -> _Check:
+    def check(v: Any) -> str | None:
+        return None if v in options else "one of " + ", ".join(f"'{o}'" for o in options)
+
+    return check
+
+
+def _spokes(v: Any) -> str | None:
+    return None if v == 0 or 3 <= v <= 8 else "0 (solid web) or a whole number from 3 to 8"
+
+
+WHEEL_KEYS: dict[str, tuple[Any, str, _Check | None]] = {
+    "module": (1.0, "number", _positive),
+    "form": ("involute", "string", _choice("involute", "triangular")),
+    "pressure_angle": (20.0, "number", _between(10, 35, " degrees")),
+    "tooth_angle": (60.0, "number", _between(20, 120, " degrees")),
+    "face_width": (3.0, "number", _positive),
+    "shift": (0.0, "number", _between(-1, 2)),
+    "backlash": (0.05, "number", _non_negative),
+    "addendum": (1.0, "number", _between(0.1, 2, " modules")),
+    "dedendum": (1.25, "number", _between(0.1, 3, " modules")),
+    "root_radius": (0.38, "number", _between(0, 1, " modules")),
+    "tip_radius": (0.0, "number", _between(0, 1, " modules")),
+    "bore": (None, "number", _positive),
+    "seat": ("round", "string", _choice("round", "square", "hex", "pinned")),
+    "spokes": (0, "integer", _spokes),
+    "rim": (None, "number", _positive),
+    "hub_diameter": (0.0, "number", _non_negative),
+    "hub_length": (0.0, "number", _non_negative),
+}
+# Wheel field names that differ from the file's keys.
+_WHEEL_FIELD = {"pressure_angle": "pressure_angle_deg", "tooth_angle": "tooth_angle_deg"}
+
+PROCESS_KEYS: dict[str, tuple[str, _Check | None]] = {
+    "nozzle": ("number", _positive),
+    "layer": ("number", _positive),
+    "clearance": ("number", _non_negative),
+    "cutter": ("number", _positive),
+    "fit": ("string", None),
+    "min_wall": ("number", _positive),
+    "min_module_hand": ("number", _positive),
+    "min_layers": ("integer", _between(1, 100)),
+}
+
+_ORDINAL = {1: "st", 2: "nd", 3: "rd"}
+
+
+def _ordinal(n: int) -> str:
+    suffix = "th" if 10 <= n % 100 <= 20 else _ORDINAL.get(n % 10, "th")
+    return f"{n}{suffix}"
+
+
+def _type_name(v: Any) -> str:
+    if isinstance(v, bool):
+        return "true/false"
+    if isinstance(v, int):
+        return "a whole number"
+    if isinstance(v, float):
+        return "a number"
+    if isinstance(v, str):
+        return "text"
+    if isinstance(v, list):
+        return "a list"
+    if isinstance(v, dict):
+        return "a table"
+    return type(v).__name__
+
+
+def _show(v: Any) -> str:
+    if isinstance(v, str):
+        return f'"{v}"'
+    if isinstance(v, bool):
+        return "true" if v else "false"
+    text = repr(v)
+    return text if len(text) <= 40 else text[:37] + "..."
+
+
+class _Lines:
+    """Finds the line of a table or key in the source text (tomllib gives none)."""
+
+    _HEADER = re.compile(r"^\s*(\[\[?)\s*([A-Za-z0-9_.-]+)\s*\]\]?")
+    _KEY = re.compile(r"^\s*([A-Za-z0-9_-]+)\s*=")
+
+    def __init__(self, text: str) -> None:
+        self.blocks: dict[tuple[str, int], tuple[int, int]] = {}
+        self.keys: dict[tuple[str, int], dict[str, int]] = {}
+        lines = text.splitlines()
+        counts: dict[str, int] = {}
+        current: tuple[str, int] = ("", 0)
+        self.keys[current] = {}
+        start = 1
+        for number, line in enumerate(lines, start=1):
+            head = self._HEADER.match(line)
+            if head:
+                self.blocks[current] = (start, number - 1)
+                table = head.group(2)
+                counts[table] = counts.get(table, 0) + 1
+                current = (table, counts[table] - 1 if head.group(1) == "[[" else 0)
+                self.keys.setdefault(current, {})
+                start = number
+                continue
+            key = self._KEY.match(line)
+            if key:
+                self.keys.setdefault(current, {}).setdefault(key.group(1), number)
+        self.blocks[current] = (start, len(lines))
+
+    def line(self, table: str, index: int = 0, key: str = "") -> int | None:
+        if key and key in self.keys.get((table, index), {}):
+            return self.keys[(table, index)][key]
+        block = self.blocks.get((table, index))
+        return block[0] if block else None
+
+
+class _Loader:
+    def __init__(self, text: str, filename: str) -> None:
+        self.text = text
+        self.file = filename
+        self.problems: list[Problem] = []
+        self.lines = _Lines(text)
+
+    # -- reporting -------------------------------------------------------------------
+    def where(self, table: str, index: int, item: str, key: str = "") -> Where:
+        return Where(self.file, item, key, self.lines.line(table, index, key))
+
+    def at_key(self, where: Where | None, key: str) -> Where:
+        """The same item, pointing at one of its keys (and that key's line)."""
+        if where is None:
+            return Where(self.file, key=key)
+        line = where.line
+        for block, (start, _) in self.lines.blocks.items():
+            if start == where.line:
+                line = self.lines.keys.get(block, {}).get(key, line)
+        return Where(self.file, where.item, key, line)
+
+    def problem(self, where: Where, found: str, allowed: str, hint: str = "") -> None:
+        self.problems.append(Problem(where, found, allowed, hint))
+
+    # -- typed access ----------------------------------------------------------------
+    def value(
+        self,
+        data: dict[str, Any],
+        key: str,
+        kind: str,
+        ctx: tuple[str, int, str],
+        *,
+        required: bool = False,
+        default: Any = None,
+        check: _Check | None = None,
+    ) -> Any:
+        table, index, item = ctx
+        if key not in data:
+            if required:
+                self.problem(
+                    self.where(table, index, item, key),
+                    f"'{key}' is missing",
+                    f"a {kind} value for '{key}' (required)",
+                )
+            return default
+        v = data[key]
+        w = self.where(table, index, item, key)
+        ok = {
+            "number": isinstance(v, (int, float)) and not isinstance(v, bool),
+            "integer": isinstance(v, int) and not isinstance(v, bool),
+            "string": isinstance(v, str),
+            "bool": isinstance(v, bool),
+        }[kind]
+        if kind == "integer" and isinstance(v, float) and v.is_integer():
+            ok, v = True, int(v)
+        if not ok:
+            self.problem(w, f"{key} = {_show(v)} ({_type_name(v)})", f"a {kind.replace('bool', 'true/false')}")
+            return default
+        if kind == "number":
+            v = float(v)
+            if not math.isfinite(v):
+                self.problem(w, f"{key} = {v}", "a finite number")
+                return default
+        if check is not None:
+            allowed = check(v)
+            if allowed:
+                self.problem(w, f"{key} = {_show(v)}", allowed)
+                return default
+        return v
+
+    def unknown_keys(self, data: dict[str, Any], known: tuple[str, ...] | list[str], ctx: tuple[str, int, str]) -> None:
+        table, index, item = ctx
+        for key in data:
+            if key in known:
+                continue
+            close = difflib.get_close_matches(key, list(known), n=1, cutoff=0.6)
+            hint = f"Did you mean '{close[0]}'?" if close else ""
+            self.problem(
+                self.where(table, index, item, key),
+                f"unknown key '{key}'",
+                "the keys " + ", ".join(f"'{k}'" for k in known),
+                hint,
+            )
+
+    def table(self, doc: dict[str, Any], name: str, required: bool = False) -> dict[str, Any] | None:
+        if name not in doc:
+            if required:
+                self.problem(Where(self.file, f"[{name}]"), f"the table [{name}] is missing", f"a [{name}] table (required)")
+            return None
+        v = doc[name]
+        if not isinstance(v, dict):
+            self.problem(
+                Where(self.file, f"[{name}]", line=self.lines.line(name)),
+                f"'{name}' is {_type_name(v)}",
+                f"a single table written [{name}]",
+            )
+            return None
+        return v
+
+    def tables(self, doc: dict[str, Any], name: str) -> list[dict[str, Any]]:
+        if name not in doc:
+            return []
+        v = doc[name]
+        if not isinstance(v, list) or not all(isinstance(t, dict) for t in v):
+            self.problem(
+                Where(self.file, f"[[{name}]]", line=self.lines.line(name)),
+                f"'{name}' is {_type_name(v)}",
+                f"tables written [[{name}]], one per {name}",
+            )
+            return []
+        return v
+
+    def name_of(self, data: dict[str, Any], table: str, index: int) -> tuple[str | None, str]:
+        """The item's name (or None) and how to call it in messages."""
+        anon = f"the {_ordinal(index + 1)} [[{table}]]"
+        raw = data.get("name")
+        if raw is None:
+            self.problem(self.where(table, index, anon, "name"), "'name' is missing", "a name made of letters, digits, '-' and '_'")
+            return None, anon
+        if not isinstance(raw, str):
+            self.problem(self.where(table, index, anon, "name"), f"name = {_show(raw)} ({_type_name(raw)})", "text: letters, digits, '-' and '_'")
+            return None, anon
+        item = f'{table} "{raw}"'
+        if not SAFE_NAME.match(raw):
+            self.problem(
+                self.where(table, index, item, "name"),
+                f"name = {_show(raw)} is not a safe file name",
+                "1 to 64 letters, digits, '-' and '_' (names become file names of parts)",
+            )
+            return None, anon
+        if raw in RESERVED_NAMES:
+            self.problem(
+                self.where(table, index, item, "name"),
+                f"name = {_show(raw)} is kept for the build's own files",
+                "any other name (not " + ", ".join(sorted(RESERVED_NAMES)) + ")",
+            )
+            return None, item
+        return raw, item
+
+    # -- the whole file --------------------------------------------------------------
+    def load(self) -> Design:
+        try:
+            doc = tomllib.loads(self.text)
+        except tomllib.TOMLDecodeError as exc:
+            msg = str(exc)
+            m = re.search(r"line (\d+)", msg)
+            self.problem(
+                Where(self.file, line=int(m.group(1)) if m else None),
+                f"the file is not valid TOML ({msg})",
+                "TOML syntax, see docs/format.md",
+            )
+            raise DesignError(self.problems) from None
+
+        self.unknown_keys(doc, TOP_KEYS, ("", 0, ""))
+        title, process = self.design_table(doc)
+        defaults = self.defaults_table(doc)
+        proc = self.process_table(doc, process)
+        frame = self.frame_table(doc)
+        arbors = self.arbors(doc)
+        wheels = self.wheels(doc, defaults)
+        meshes = self.meshes(doc)
+        pinslots = self.pinslots(doc)
+        drive = self.drive_table(doc)
+        targets = self.targets(doc)
+        stock = self.stock(doc)
+        if self.problems:
+            raise DesignError(self.problems)
+        self.cross_check(arbors, wheels, meshes, pinslots, drive, targets)
+        if self.problems:
+            raise DesignError(self.problems)
+        assert drive is not None  # the cross check reported a missing drive
+        stem = Path(self.file).stem
+        name = re.sub(r"[^A-Za-z0-9_-]", "_", stem) or "design"
+        return Design(
+            title=title,
+            name=name,
+            drive=drive,
+            arbors=tuple(arbors),
+            wheels=tuple(wheels),
+            meshes=tuple(meshes),
+            pinslots=tuple(pinslots),
+            targets=tuple(targets),
+            stock=tuple(stock),
+            process=proc,
+            frame=frame,
+            source=self.file,
+            sha256=hashlib.sha256(self.text.encode("utf-8")).hexdigest(),
+        )
+
+    def design_table(self, doc: dict[str, Any]) -> tuple[str, str]:
+        t = self.table(doc, "design", required=True)
+        if t is None:
+            return "", "mill"
+        ctx = ("design", 0, "[design]")
+        self.unknown_keys(t, ("title", "process"), ctx)
+        title = self.value(t, "title", "string", ctx, required=True, default="")
+        process = self.value(t, "process", "string", ctx, default="mill", check=_choice("print", "mill", "hand"))
+        return title, process
+
+    def defaults_table(self, doc: dict[str, Any]) -> dict[str, Any]:
+        t = self.table(doc, "defaults")
+        out = {k: spec[0] for k, spec in WHEEL_KEYS.items()}
+        if t is None:
+            return out
+        ctx = ("defaults", 0, "[defaults]")
+        self.unknown_keys(t, tuple(WHEEL_KEYS), ctx)
+        for key, (default, kind, check) in WHEEL_KEYS.items():
+            out[key] = self.value(t, key, kind, ctx, default=default, check=check)
+        return out
+
+    def process_table(self, doc: dict[str, Any], kind: str) -> Process:
+        t = self.table(doc, "process")
+        if t is None:
+            return Process(kind=kind)  # type: ignore[arg-type]  # checked by _choice above
+        ctx = ("process", 0, "[process]")
+        self.unknown_keys(t, tuple(PROCESS_KEYS), ctx)
+        values: dict[str, Any] = {}
+        for key, (vkind, check) in PROCESS_KEYS.items():
+            v = self.value(t, key, vkind, ctx, check=check)
+            if v is not None:
+                values[key] = v
+        fit = values.get("fit")
+        if fit is not None and not re.match(r"^[A-Z]{1,2}\d{1,2}/[a-z]{1,2}\d{1,2}$", fit):
+            self.problem(self.where("process", 0, "[process]", "fit"), f'fit = "{fit}"', 'an ISO 286 fit such as "H7/g6", "H7/h6" or "H8/f7"')
+            values.pop("fit")
+        return Process(kind=kind, **values)  # type: ignore[arg-type]
+
+    def frame_table(self, doc: dict[str, Any]) -> Frame | None:
+        t = self.table(doc, "frame")
+        if t is None:
+            return None
+        ctx = ("frame", 0, "[frame]")
+        self.unknown_keys(t, ("plates", "thickness"), ctx)
+        plates = self.pair_of_numbers(t, "plates", ctx, default=(0.0, 40.0))
+        if plates[1] <= plates[0]:
+            self.problem(self.where("frame", 0, "[frame]", "plates"), f"plates = {list(plates)}", "[back, front] with front > back (mm)")
+        thickness = self.value(t, "thickness", "number", ctx, default=2.0, check=_positive)
+        return Frame(plates=plates, thickness=thickness)
+
+    def pair_of_numbers(self, t: dict[str, Any], key: str, ctx: tuple[str, int, str], default: Any = None) -> Any:
+        if key not in t:
+            return default
+        v = t[key]
+        if (
+            not isinstance(v, list)
+            or len(v) != 2
+            or not all(isinstance(x, (int, float)) and not isinstance(x, bool) and math.isfinite(x) for x in v)
+        ):
+            self.problem(self.where(ctx[0], ctx[1], ctx[2], key), f"{key} = {_show(v)}", "two numbers in brackets, such as [0.0, 40.0] (mm)")
+            return default
+        return (float(v[0]), float(v[1]))
+
+    def drive_table(self, doc: dict[str, Any]) -> Drive | None:
+        t = self.table(doc, "drive", required=True)
+        if t is None:
+            return None
+        ctx = ("drive", 0, "[drive]")
+        self.unknown_keys(t, ("arbor", "period", "sense"), ctx)
+        arbor = self.value(t, "arbor", "string", ctx, required=True)
+        period = self.period(t, "period", ctx, required=True)
+        sense = self.value(t, "sense", "string", ctx, default="ccw", check=_choice("ccw", "cw"))
+        if arbor is None or period is None:
+            return None
+        return Drive(arbor=arbor, period_s=period, sense=sense, where=self.where("drive", 0, "[drive]", "arbor"))
+
+    def period(self, t: dict[str, Any], key: str, ctx: tuple[str, int, str], required: bool = False) -> Fraction | None:
+        raw = self.value(t, key, "string", ctx, required=required)
+        if raw is None:
+            return None
+        try:
+            return parse_period(raw)
+        except PeriodError as exc:
+            self.problem(self.where(*ctx, key), f'{key} = "{raw}": {exc}', 'a positive number and a unit (s, min, h, d, yr), such as "27.321661 d"')
+            return None
+
+    def arbors(self, doc: dict[str, Any]) -> list[Arbor]:
+        out = []
+        known = ("name", "at", "diameter", "around", "fixed", "carrier")
+        for i, t in enumerate(self.tables(doc, "arbor")):
+            name, item = self.name_of(t, "arbor", i)
+            ctx = ("arbor", i, item)
+            self.unknown_keys(t, known, ctx)
+            at = self.pair_of_numbers(t, "at", ctx)
+            diameter = self.value(t, "diameter", "number", ctx, default=3.0, check=_positive)
+            around = self.value(t, "around", "string", ctx)
+            fixed = self.value(t, "fixed", "bool", ctx, default=False)
+            carrier = self.value(t, "carrier", "string", ctx)
+            w = self.where("arbor", i, item)
+            if around is not None and carrier is not None:
+                self.problem(self.where("arbor", i, item, "carrier"), "both 'around' and 'carrier'", "one of them: a sleeve follows the axis of the member it surrounds")
+            if around is not None and at is not None:
+                self.problem(self.where("arbor", i, item, "at"), "both 'around' and 'at'", "no 'at' on a sleeve: it sits on the axis of the member it surrounds")
+            if carrier is not None and at is None:
+                self.problem(self.where("arbor", i, item, "carrier"), "a carried arbor without 'at'", "'at = [x, y]', its position in the carrier wheel's frame (mm)")
+            if carrier is not None and fixed:
+                self.problem(self.where("arbor", i, item, "fixed"), "a carried arbor that is also fixed", "'fixed' only on arbors held by the frame")
+            if name is not None:
+                out.append(Arbor(name, at, diameter, around, fixed, carrier, w))
+        return out
+
+    def wheels(self, doc: dict[str, Any], defaults: dict[str, Any]) -> list[Wheel]:
+        out = []
+        known = ("name", "arbor", "teeth", "height") + tuple(WHEEL_KEYS)
+        for i, t in enumerate(self.tables(doc, "wheel")):
+            name, item = self.name_of(t, "wheel", i)
+            ctx = ("wheel", i, item)
+            self.unknown_keys(t, known, ctx)
+            arbor = self.value(t, "arbor", "string", ctx, required=True)
+            teeth = self.value(
+                t, "teeth", "integer", ctx, required=True,
+                check=lambda v: None if MIN_TEETH <= v <= MAX_TEETH else f"a whole number from {MIN_TEETH} to {MAX_TEETH}",
+            )
+            height = self.value(t, "height", "number", ctx, default=0.0)
+            fields: dict[str, Any] = {}
+            for key, (_, kind, check) in WHEEL_KEYS.items():
+                fields[_WHEEL_FIELD.get(key, key)] = self.value(t, key, kind, ctx, default=defaults[key], check=check)
+            if name is None or arbor is None or teeth is None:
+                continue
+            for key, (default, _, _) in WHEEL_KEYS.items():
+                field_name = _WHEEL_FIELD.get(key, key)
+                if fields[field_name] is None and default is not None:
+                    fields[field_name] = default
+            out.append(Wheel(name=name, arbor=arbor, teeth=teeth, height=height, where=self.where("wheel", i, item), **fields))
+        return out
+
+    def meshes(self, doc: dict[str, Any]) -> list[Mesh]:
+        out = []
+        for i, t in enumerate(self.tables(doc, "mesh")):
+            item = f"the {_ordinal(i + 1)} [[mesh]]"
+            ctx = ("mesh", i, item)
+            self.unknown_keys(t, ("pair", "bearing"), ctx)
+            pair = t.get("pair")
+            if pair is None:
+                self.problem(self.where("mesh", i, item, "pair"), "'pair' is missing", 'two wheel names, such as pair = ["w1", "w2"]')
+                continue
+            if not isinstance(pair, list) or len(pair) != 2 or not all(isinstance(p, str) for p in pair):
+                self.problem(self.where("mesh", i, item, "pair"), f"pair = {_show(pair)}", 'two wheel names, such as pair = ["w1", "w2"]')
+                continue
+            item = f'the {_ordinal(i + 1)} [[mesh]] ("{pair[0]}"-"{pair[1]}")'
+            ctx = ("mesh", i, item)
+            if pair[0] == pair[1]:
+                self.problem(self.where("mesh", i, item, "pair"), f'wheel "{pair[0]}" meshes with itself', "two different wheels")
+                continue
+            bearing = self.value(t, "bearing", "number", ctx)
+            out.append(Mesh((pair[0], pair[1]), bearing, i + 1, self.where("mesh", i, item)))
+        return out
+
+    def pinslots(self, doc: dict[str, Any]) -> list[PinSlot]:
+        out = []
+        known = ("name", "pin", "slot", "radius", "offset", "bearing", "pin_diameter", "pin_part")
+        for i, t in enumerate(self.tables(doc, "pinslot")):
+            name, item = self.name_of(t, "pinslot", i)
+            ctx = ("pinslot", i, item)
+            self.unknown_keys(t, known, ctx)
+            pin = self.value(t, "pin", "string", ctx, required=True)
+            slot = self.value(t, "slot", "string", ctx, required=True)
+            radius = self.value(t, "radius", "number", ctx, required=True, check=_positive)
+            offset = self.value(t, "offset", "number", ctx, required=True, check=_non_negative)
+            bearing = self.value(t, "bearing", "number", ctx, default=0.0)
+            pin_d = self.value(t, "pin_diameter", "number", ctx, default=1.0, check=_positive)
+            part = self.value(t, "pin_part", "string", ctx, default="boss", check=_choice("boss", "separate"))
+            if pin is not None and pin == slot:
+                self.problem(self.where("pinslot", i, item, "slot"), f'wheel "{pin}" is both pin and slot', "two different wheels")
+                continue
+            if None in (name, pin, slot, radius, offset):
+                continue
+            out.append(PinSlot(name, pin, slot, radius, offset, bearing, pin_d, part, self.where("pinslot", i, item)))
+        return out
+
+    def targets(self, doc: dict[str, Any]) -> list[Target]:
+        out = []
+        for i, t in enumerate(self.tables(doc, "target")):
+            item = f"the {_ordinal(i + 1)} [[target]]"
+            ctx = ("target", i, item)
+            self.unknown_keys(t, ("arbor", "period", "turns", "tolerance", "sense"), ctx)
+            arbor = self.value(t, "arbor", "string", ctx, required=True)
+            if arbor is not None:
+                item = f'the {_ordinal(i + 1)} [[target]] (arbor "{arbor}")'
+                ctx = ("target", i, item)
+            period = self.period(t, "period", ctx)
+            turns = self.turns(t, ctx)
+            if ("period" in t) == ("turns" in t):
+                self.problem(self.where("target", i, item), "both 'period' and 'turns'" if "period" in t else "neither 'period' nor 'turns'", "exactly one of them")
+            tol_ppm, tol_s = self.tolerance(t, ctx)
+            sense = self.value(t, "sense", "string", ctx, default="either", check=_choice("cw", "ccw", "either"))
+            if arbor is None or (period is None and turns is None):
+                continue
+            out.append(Target(arbor, period, turns, tol_ppm, tol_s, sense, i + 1, self.where("target", i, item)))
+        return out
+
+    def turns(self, t: dict[str, Any], ctx: tuple[str, int, str]) -> Fraction | None:
+        if "turns" not in t:
+            return None
+        raw = t["turns"]
+        allowed = 'a positive exact fraction such as "254/19", or a number'
+        try:
+            if isinstance(raw, bool) or not isinstance(raw, (str, int, float)):
+                raise ValueError
+            value = Fraction(str(raw).replace(" ", ""))
+        except (ValueError, ZeroDivisionError):
+            self.problem(self.where(*ctx, "turns"), f"turns = {_show(raw)}", allowed)
+            return None
+        if value <= 0:
+            self.problem(self.where(*ctx, "turns"), f"turns = {_show(raw)}", allowed + " (use 'sense' for the direction)")
+            return None
+        return value
+
+    def tolerance(self, t: dict[str, Any], ctx: tuple[str, int, str]) -> tuple[float | None, Fraction | None]:
+        if "tolerance" not in t:
+            return 1.0, None  # default: 1 ppm
+        raw = t["tolerance"]
+        allowed = 'a relative tolerance such as "20 ppm" or an absolute time such as "30 s"'
+        if isinstance(raw, str):
+            m = re.match(r"^\s*([0-9]*\.?[0-9]+(?:[eE][+-]?\d+)?)\s*ppm\s*$", raw)
+            if m:
+                return float(m.group(1)), None
+            try:
+                return None, parse_period(raw)
+            except PeriodError:
+                pass
+            if re.match(r"^\s*0+(\.0*)?\s*[a-z]+\s*$", raw):
+                return None, Fraction(0)
+        self.problem(self.where(*ctx, "tolerance"), f"tolerance = {_show(raw)}", allowed)
+        return None, None
+
+    def stock(self, doc: dict[str, Any]) -> list[Stock]:
+        out = []
+        for i, t in enumerate(self.tables(doc, "stock")):
+            item = f"the {_ordinal(i + 1)} [[stock]]"
+            ctx = ("stock", i, item)
+            self.unknown_keys(t, ("outside", "inside"), ctx)
+            outside = self.value(t, "outside", "number", ctx, required=True, check=_positive)
+            inside = self.value(t, "inside", "number", ctx, required=True, check=_positive)
+            if outside is not None and inside is not None:
+                if inside >= outside:
+                    self.problem(self.where("stock", i, item, "inside"), f"inside = {inside:g} >= outside = {outside:g}", "an inside diameter smaller than the outside (mm)")
+                    continue
+                out.append(Stock(outside, inside, self.where("stock", i, item)))
+        return out
+
+    # -- relations between items ------------------------------------------------------
+    def cross_check(
+        self,
+        arbors: list[Arbor],
+        wheels: list[Wheel],
+        meshes: list[Mesh],
+        pinslots: list[PinSlot],
+        drive: Drive | None,
+        targets: list[Target],
+    ) -> None:
+        by_arbor = {a.name: a for a in arbors}
+        by_wheel = {w.name: w for w in wheels}
+        seen: dict[str, Where | None] = {}
+        for kind, items in (("arbor", arbors), ("wheel", wheels), ("pinslot", pinslots)):
+            for it in items:
+                if it.name in seen:
+                    self.problem(
+                        it.where or Where(self.file),
+                        f'the name "{it.name}" is used twice',
+                        "names unique across arbors, wheels and pin-and-slot couplings",
+                        f"It is first used at {seen[it.name]}." if seen[it.name] else "",
+                    )
+                else:
+                    seen[it.name] = it.where
+
+        def ref(where: Where | None, key: str, name: str, pool: dict[str, Any], what: str) -> bool:
+            if name in pool:
+                return True
+            close = difflib.get_close_matches(name, list(pool), n=1, cutoff=0.5)
+            w = self.at_key(where, key)
+            self.problem(
+                w,
+                f'{what} "{name}" does not exist',
+                f"the name of one of the {what}s: " + (", ".join(f'"{n}"' for n in pool) or "(none defined)"),
+                f"Did you mean \"{close[0]}\"?" if close else "",
+            )
+            return False
+
+        if not arbors:
+            self.problem(Where(self.file, "[[arbor]]"), "no [[arbor]] tables", "at least one arbor")
+        for a in arbors:
+            if a.around is not None:
+                ref(a.where, "around", a.around, by_arbor, "arbor")
+            if a.carrier is not None:
+                ref(a.where, "carrier", a.carrier, by_wheel, "wheel")
+        for w in wheels:
+            ref(w.where, "arbor", w.arbor, by_arbor, "arbor")
+        for m in meshes:
+            for name in m.pair:
+                ref(m.where, "pair", name, by_wheel, "wheel")
+        for p in pinslots:
+            ref(p.where, "pin", p.pin, by_wheel, "wheel")
+            ref(p.where, "slot", p.slot, by_wheel, "wheel")
+        if drive is not None and ref(drive.where, "arbor", drive.arbor, by_arbor, "arbor"):
+            if by_arbor[drive.arbor].fixed:
+                self.problem(self.at_key(drive.where, "arbor"), f'the drive arbor "{drive.arbor}" is fixed', "an arbor that can turn")
+        for t in targets:
+            ref(t.where, "arbor", t.arbor, by_arbor, "arbor")
+        if self.problems:
+            return
+        self.check_structure(by_arbor, by_wheel, meshes, pinslots)
+
+    def check_structure(
+        self,
+        by_arbor: dict[str, Arbor],
+        by_wheel: dict[str, Wheel],
+        meshes: list[Mesh],
+        pinslots: list[PinSlot],
+    ) -> None:
+        # 'around' chains must end; carriers must not carry themselves (directly or not).
+        def parent(a: Arbor) -> str | None:
+            if a.around is not None:
+                return a.around
+            if a.carrier is not None:
+                return by_wheel[a.carrier].arbor
+            return None
+
+        bad: set[str] = set()
+        for a in by_arbor.values():
+            chain = [a.name]
+            cur = parent(a)
+            while cur is not None:
+                if cur in chain:
+                    loop = chain[chain.index(cur):] + [cur]
+                    if not bad.intersection(loop):
+                        self.problem(
+                            a.where or Where(self.file),
+                            "a cycle of 'around'/'carrier': " + " -> ".join(f'"{n}"' for n in loop),
+                            "each arbor surrounds or rides on a member that does not, in turn, lead back to it",
+                        )
+                    bad.update(loop)
+                    break
+                chain.append(cur)
+                cur = parent(by_arbor[cur])
+        if bad:
+            return
+        for m in meshes:
+            a, b = (by_wheel[n].arbor for n in m.pair)
+            if a == b:
+                self.problem(m.where or Where(self.file), f'both wheels sit on arbor "{a}"', "wheels on two different arbors")
+        for p in pinslots:
+            if by_wheel[p.pin].arbor == by_wheel[p.slot].arbor:
+                self.problem(p.where or Where(self.file), f'pin wheel and slot wheel both sit on arbor "{by_wheel[p.pin].arbor}"', "wheels on two different arbors")
+        self.check_placement(by_arbor, by_wheel, meshes, pinslots)
+
+    def check_placement(
+        self,
+        by_arbor: dict[str, Arbor],
+        by_wheel: dict[str, Wheel],
+        meshes: list[Mesh],
+        pinslots: list[PinSlot],
+    ) -> None:
+        """Every arbor must be placeable: by 'at', by 'around', or by a bearing from a placed one."""
+        def axis(name: str) -> str:
+            a = by_arbor[name]
+            while a.around is not None:
+                a = by_arbor[a.around]
+            return a.name
+
+        placed = {axis(a.name) for a in by_arbor.values() if a.at is not None}
+        links: list[tuple[str, str]] = []
+        for m in meshes:
+            if m.bearing_deg is not None:
+                a, b = (axis(by_wheel[n].arbor) for n in m.pair)
+                links.append((a, b))
+        for p in pinslots:
+            links.append((axis(by_wheel[p.pin].arbor), axis(by_wheel[p.slot].arbor)))
+        changed = True
+        while changed:
+            changed = False
+            for a, b in links:
+                if (a in placed) != (b in placed):
+                    placed.update((a, b))
+                    changed = True
+        for name, arbor in by_arbor.items():
+            if axis(name) not in placed and arbor.around is None:
+                self.problem(
+                    arbor.where or Where(self.file),
+                    "the arbor cannot be placed: it has no 'at' and no [[mesh]] with a 'bearing' links it to a placed arbor",
+                    "'at = [x, y]' on the arbor, or a 'bearing' on one of its meshes",
+                )
+
+
+def loads_design(text: str, filename: str = "<design>") -> Design:
+    """Parse train-file text; raise :class:`DesignError` listing every problem."""
+    return _Loader(text, filename).load()
+
+
+def load_design(path: str | Path) -> Design:
+    """Read and check a train file; raise :class:`DesignError` listing every problem."""
+    p = Path(path)
+    try:
+        raw = p.read_bytes()
+    except OSError as exc:
+        raise DesignError([Problem(Where(str(p)), f"the file cannot be read ({exc.strerror or exc})", "a readable TOML file")]) from None
+    try:
+        text = raw.decode("utf-8")
+    except UnicodeDecodeError as exc:
+        raise DesignError([Problem(Where(str(p)), f"the file is not UTF-8 text (byte {exc.start})", "a UTF-8 TOML file")]) from None
+    return loads_design(text, str(p))

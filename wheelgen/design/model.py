@@ -1,0 +1,224 @@
+"""The parsed train definition: frozen dataclasses, checked once while loading.
+
+Lengths are millimetres, angles degrees (``_deg``), periods exact ``Fraction`` seconds.
+Tooth-shape coefficients (``addendum``, ``dedendum``, ``root_radius``, ``tip_radius``) are
+multiples of the module, as in the basic-rack standards.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from fractions import Fraction
+from typing import Literal
+
+__all__ = [
+    "Where",
+    "Process",
+    "Frame",
+    "Drive",
+    "Arbor",
+    "Wheel",
+    "Mesh",
+    "PinSlot",
+    "Target",
+    "Stock",
+    "Design",
+    "ProcessKind",
+    "Form",
+    "Seat",
+    "Sense",
+]
+
+ProcessKind = Literal["print", "mill", "hand"]
+Form = Literal["involute", "triangular"]
+Seat = Literal["round", "square", "hex", "pinned"]
+Sense = Literal["cw", "ccw"]
+
+
+@dataclass(frozen=True, slots=True)
+class Where:
+    """Where something was written: file, item (``wheel "w3"``, ``the 2nd [[mesh]]``), key."""
+
+    file: str
+    item: str = ""
+    key: str = ""
+    line: int | None = None
+
+    def __str__(self) -> str:
+        parts = [self.file]
+        if self.line is not None:
+            parts.append(f"line {self.line}")
+        if self.item:
+            parts.append(self.item)
+        if self.key:
+            parts.append(f"key '{self.key}'")
+        return ", ".join(parts)
+
+
+@dataclass(frozen=True, slots=True)
+class Process:
+    """How the parts are made and the limits that follow from it (mm)."""
+
+    kind: ProcessKind = "mill"
+    nozzle: float = 0.4  # print: nozzle diameter
+    layer: float = 0.2  # print: layer height
+    clearance: float = 0.2  # print: radial running clearance of bores and sleeves
+    cutter: float = 1.0  # mill: end-mill diameter
+    fit: str = "H7/g6"  # mill: ISO 286 running fit for bores
+    min_wall: float | None = None  # thinnest sleeve wall; None = the process default
+    min_module_hand: float = 0.5  # hand: smallest module still filed by hand
+    min_layers: int = 4  # print: face width at least this many layers
+
+    @property
+    def wall_minimum(self) -> float:
+        """Thinnest sleeve wall in mm: two nozzle widths for print, else 0.3 mm unless set."""
+        if self.min_wall is not None:
+            return self.min_wall
+        return 2 * self.nozzle if self.kind == "print" else 0.3
+
+
+@dataclass(frozen=True, slots=True)
+class Frame:
+    """Back and front plates: heights of their inner faces and their thickness (mm)."""
+
+    plates: tuple[float, float] = (0.0, 40.0)
+    thickness: float = 2.0
+
+
+@dataclass(frozen=True, slots=True)
+class Drive:
+    arbor: str
+    period_s: Fraction
+    sense: Sense = "ccw"
+    where: Where | None = field(default=None, compare=False, repr=False)
+
+
+@dataclass(frozen=True, slots=True)
+class Arbor:
+    """A shaft, a sleeve around another arbor (``around``), or an axis on a carrier wheel."""
+
+    name: str
+    at: tuple[float, float] | None = None
+    diameter: float = 3.0
+    around: str | None = None
+    fixed: bool = False
+    carrier: str | None = None  # name of the wheel that carries this arbor's axis
+    where: Where | None = field(default=None, compare=False, repr=False)
+
+
+@dataclass(frozen=True, slots=True)
+class Wheel:
+    """One wheel on one arbor; module and face width in mm, angles in degrees."""
+
+    name: str
+    arbor: str
+    teeth: int
+    height: float = 0.0
+    module: float = 1.0
+    form: Form = "involute"
+    pressure_angle_deg: float = 20.0
+    tooth_angle_deg: float = 60.0
+    face_width: float = 3.0
+    shift: float = 0.0
+    backlash: float = 0.05
+    addendum: float = 1.0  # x module
+    dedendum: float = 1.25  # x module
+    root_radius: float = 0.38  # x module (rack tip radius for involute, root rounding for triangular)
+    tip_radius: float = 0.0  # x module (triangular tip rounding)
+    bore: float | None = None  # None: the arbor's (or sleeve's) outside diameter plus the fit
+    seat: Seat = "round"
+    spokes: int = 0
+    rim: float | None = None  # rim width below the root circle when spoked (mm)
+    hub_diameter: float = 0.0  # 0 = no hub boss
+    hub_length: float = 0.0
+    where: Where | None = field(default=None, compare=False, repr=False)
+
+    @property
+    def pitch_diameter(self) -> float:
+        return self.module * self.teeth
+
+
+@dataclass(frozen=True, slots=True)
+class Mesh:
+    """Two wheels in external mesh; ``bearing_deg`` from the first axis to the second."""
+
+    pair: tuple[str, str]
+    bearing_deg: float | None = None
+    index: int = 0  # 1-based position among the [[mesh]] tables
+    where: Where | None = field(default=None, compare=False, repr=False)
+
+    @property
+    def label(self) -> str:
+        return f"mesh {self.pair[0]}-{self.pair[1]}"
+
+
+@dataclass(frozen=True, slots=True)
+class PinSlot:
+    """A pin at ``radius`` on wheel ``pin`` driving a radial slot in wheel ``slot``."""
+
+    name: str
+    pin: str
+    slot: str
+    radius: float
+    offset: float
+    bearing_deg: float = 0.0
+    pin_diameter: float = 1.0
+    pin_part: Literal["boss", "separate"] = "boss"
+    where: Where | None = field(default=None, compare=False, repr=False)
+
+
+@dataclass(frozen=True, slots=True)
+class Target:
+    """A wanted period (``period_s``) or an exact rate (``turns`` per drive turn)."""
+
+    arbor: str
+    period_s: Fraction | None = None
+    turns: Fraction | None = None
+    tolerance_ppm: float | None = None
+    tolerance_s: Fraction | None = None
+    sense: Literal["cw", "ccw", "either"] = "either"
+    index: int = 0
+    where: Where | None = field(default=None, compare=False, repr=False)
+
+
+@dataclass(frozen=True, slots=True)
+class Stock:
+    """A tube on hand: outside and inside diameter in mm."""
+
+    outside: float
+    inside: float
+    where: Where | None = field(default=None, compare=False, repr=False)
+
+
+@dataclass(frozen=True, slots=True)
+class Design:
+    """A whole train definition, checked while loading."""
+
+    title: str
+    name: str  # safe file name of the design (from the file name)
+    drive: Drive
+    arbors: tuple[Arbor, ...]
+    wheels: tuple[Wheel, ...] = ()
+    meshes: tuple[Mesh, ...] = ()
+    pinslots: tuple[PinSlot, ...] = ()
+    targets: tuple[Target, ...] = ()
+    stock: tuple[Stock, ...] = ()
+    process: Process = Process()
+    frame: Frame | None = None
+    source: str = ""  # path of the file it came from
+    sha256: str = ""  # of the file's bytes
+
+    def arbor(self, name: str) -> Arbor:
+        for a in self.arbors:
+            if a.name == name:
+                return a
+        raise KeyError(name)
+
+    def wheel(self, name: str) -> Wheel:
+        for w in self.wheels:
+            if w.name == name:
+                return w
+        raise KeyError(name)
+
+    def wheels_on(self, arbor: str) -> tuple[Wheel, ...]:
+        return tuple(w for w in self.wheels if w.arbor == arbor)

@@ -1,0 +1,61 @@
+"""Periods with units, kept exact: ``"27.321661 d"`` -> ``Fraction`` of seconds."""
+
+from __future__ import annotations
+
+import re
+from fractions import Fraction
+
+__all__ = ["UNIT_SECONDS", "parse_period", "format_period", "PeriodError"]
+
+#: Seconds in one of each unit. ``yr`` is the Julian year of 365.25 days, as the
+#: train format says (derived: 365.25 * 86400).
+UNIT_SECONDS: dict[str, Fraction] = {
+    "s": Fraction(1),
+    "min": Fraction(60),
+    "h": Fraction(3600),
+    "d": Fraction(86400),
+    "yr": Fraction(36525 * 864),
+}
+
+_NUMBER = r"[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?"
+_PERIOD = re.compile(rf"^\s*({_NUMBER}(?:\s*/\s*\d+)?)\s*([a-z]+)\s*$")
+
+
+class PeriodError(ValueError):
+    """A period string that cannot be read; the message says what is allowed."""
+
+
+def parse_period(text: str) -> Fraction:
+    """Read ``"<number> <unit>"`` exactly and return the period in seconds.
+
+    The number may be a decimal (read exactly, ``"27.321661"`` is
+    ``27321661/1000000``) or a fraction (``"254/19"``). Units: s, min, h, d, yr.
+    The period must be positive.
+    """
+    if not isinstance(text, str):
+        raise PeriodError(f"expected a string such as \"27.3 d\", got {text!r}")
+    match = _PERIOD.match(text)
+    if match is None:
+        raise PeriodError(
+            f"{text!r} is not '<number> <unit>' (for example \"1 d\" or \"27.321661 d\")"
+        )
+    number, unit = match.groups()
+    if unit not in UNIT_SECONDS:
+        units = ", ".join(UNIT_SECONDS)
+        raise PeriodError(f"unknown unit {unit!r} in {text!r}; units are {units}")
+    value = Fraction(number.replace(" ", ""))
+    if value <= 0:
+        raise PeriodError(f"{text!r} is not a positive period")
+    return value * UNIT_SECONDS[unit]
+
+
+def format_period(seconds: Fraction | float, digits: int = 6) -> str:
+    """A period in the largest unit that keeps the number at least 1, e.g. ``"27.3217 d"``."""
+    value = float(seconds)
+    if value == float("inf"):
+        return "never"
+    for unit in ("yr", "d", "h", "min"):
+        size = float(UNIT_SECONDS[unit])
+        if abs(value) >= size:
+            return f"{value / size:.{digits}g} {unit}"
+    return f"{value:.{digits}g} s"

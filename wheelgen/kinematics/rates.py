@@ -1,0 +1,212 @@
+"""Exact rates of every arbor, as fractions of the drive arbor's rate.
+
+The train is solved as one linear system over the rationals, so simple, compound and
+epicyclic trains, and trains with several paths, are all handled the same way.
+
+Unknowns: the absolute rate (turns per drive turn, counter-clockwise seen from the front
+positive when the drive turns counter-clockwise) of every arbor. Equations:
+
+- the drive arbor turns at 1; a ``fixed`` arbor at 0;
+- an external mesh of wheels a (on arbor A) and b (on arbor B), whose axes are both
+  still in a frame F turning at rate f, obeys the relation of Willis
+  ``z_a (w_A - f) = -z_b (w_B - f)``. F is the fixed frame for two plate-mounted axes, or
+  the frame of the carrier's arbor when a carried arbor meshes with an arbor on the
+  carrier's own axis or with another arbor on the same carrier;
+- a pin-and-slot coupling passes the mean rate on: ``w_pin = w_slot``.
+
+Elimination keeps, for every reduced row, the set of equations it came from, so a
+contradiction (a locked train) names the paths that disagree.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from fractions import Fraction
+
+from ..design.model import Design
+
+__all__ = ["Equation", "Conflict", "TrainSolution", "solve_rates", "axis_root", "mesh_frame"]
+
+
+@dataclass(frozen=True, slots=True)
+class Equation:
+    """``sum(coeffs[arbor] * w_arbor) == rhs``; ``label`` says where it comes from."""
+
+    coeffs: tuple[tuple[str, Fraction], ...]
+    rhs: Fraction
+    label: str
+
+
+@dataclass(frozen=True, slots=True)
+class Conflict:
+    """Two ways of driving one arbor that disagree: the train would lock."""
+
+    arbor: str
+    rate_one: Fraction | None
+    path_one: tuple[str, ...]
+    rate_two: Fraction | None
+    path_two: tuple[str, ...]
+
+    def message(self) -> str:
+        one = " + ".join(self.path_one) or "the drive"
+        two = " + ".join(self.path_two)
+        r1 = "?" if self.rate_one is None else str(self.rate_one)
+        r2 = "?" if self.rate_two is None else str(self.rate_two)
+        return (
+            f'arbor "{self.arbor}" is driven two ways that disagree: through {one} it turns '
+            f"{r1} times per drive turn, through {two} it would turn {r2} times; the train locks"
+        )
+
+
+@dataclass(frozen=True, slots=True)
+class TrainSolution:
+    """Rates in turns per drive turn; ``None`` where nothing determines the rate."""
+
+    rates: dict[str, Fraction | None]
+    conflicts: tuple[Conflict, ...]
+    undriven: tuple[str, ...]
+    bad_meshes: tuple[str, ...]  # meshes whose axes move against each other
+
+    def rate(self, arbor: str) -> Fraction | None:
+        return self.rates.get(arbor)
+
+
+def axis_root(design: Design, arbor: str) -> str:
+    """The innermost member of the coaxial group that ``arbor`` belongs to."""
+    a = design.arbor(arbor)
+    while a.around is not None:
+        a = design.arbor(a.around)
+    return a.name
+
+
+def _home_frame(design: Design, root: str) -> str | None:
+    """Arbor whose rotation carries this axis (``None``: the fixed frame)."""
+    carrier = design.arbor(root).carrier
+    return None if carrier is None else design.wheel(carrier).arbor
+
+
+def _frames(design: Design, arbor: str) -> list[str | None]:
+    """Frames in which this arbor's axis stands still: its home frame, then the
+    rotating frames of every member of its coaxial group (those turn about it)."""
+    root = axis_root(design, arbor)
+    group = [a.name for a in design.arbors if axis_root(design, a.name) == root]
+    return [_home_frame(design, root)] + sorted(group)
+
+
+def mesh_frame(design: Design, arbor_a: str, arbor_b: str) -> tuple[bool, str | None]:
+    """The frame in which both axes stand still: ``(found, frame arbor or None)``."""
+    fa, fb = _frames(design, arbor_a), _frames(design, arbor_b)
+    for f in fa:
+        if f in fb:
+            return True, f
+    return False, None
+
+
+def _equations(design: Design) -> tuple[list[Equation], list[str]]:
+    eqs: list[Equation] = [Equation(((design.drive.arbor, Fraction(1)),), Fraction(1), "the drive")]
+    bad: list[str] = []
+    for a in design.arbors:
+        if a.fixed:
+            eqs.append(Equation(((a.name, Fraction(1)),), Fraction(0), f'fixed arbor "{a.name}"'))
+    for m in design.meshes:
+        wa, wb = design.wheel(m.pair[0]), design.wheel(m.pair[1])
+        ok, frame = mesh_frame(design, wa.arbor, wb.arbor)
+        label = f"mesh {wa.name}-{wb.name}"
+        if not ok:
+            bad.append(label)
+            continue
+        coeffs: dict[str, Fraction] = {}
+        coeffs[wa.arbor] = coeffs.get(wa.arbor, Fraction(0)) + wa.teeth
+        coeffs[wb.arbor] = coeffs.get(wb.arbor, Fraction(0)) + wb.teeth
+        if frame is not None:
+            coeffs[frame] = coeffs.get(frame, Fraction(0)) - (wa.teeth + wb.teeth)
+        eqs.append(Equation(tuple((k, v) for k, v in coeffs.items() if v != 0), Fraction(0), label))
+    for p in design.pinslots:
+        a, b = design.wheel(p.pin).arbor, design.wheel(p.slot).arbor
+        eqs.append(Equation(((a, Fraction(1)), (b, Fraction(-1))), Fraction(0), f'pin-and-slot "{p.name}"'))
+    return eqs, bad
+
+
+@dataclass
+class _Row:
+    coeffs: dict[str, Fraction]
+    rhs: Fraction
+    sources: frozenset[int]
+
+
+def _reduce(rows: dict[str, _Row], coeffs: dict[str, Fraction], rhs: Fraction, sources: frozenset[int]) -> _Row:
+    coeffs = dict(coeffs)
+    for pivot, row in rows.items():
+        c = coeffs.get(pivot)
+        if c:
+            for k, v in row.coeffs.items():
+                coeffs[k] = coeffs.get(k, Fraction(0)) - c * v
+            rhs -= c * row.rhs
+            sources = sources | row.sources
+    return _Row({k: v for k, v in coeffs.items() if v != 0}, rhs, sources)
+
+
+def _solve_subset(eqs: list[Equation], use: set[int]) -> dict[str, Fraction]:
+    rows: dict[str, _Row] = {}
+    for i in sorted(use):
+        _add(rows, eqs[i], i)
+    return {p: r.rhs for p, r in rows.items() if len(r.coeffs) == 1}
+
+
+def _add(rows: dict[str, _Row], eq: Equation, index: int) -> _Row | None:
+    """Add one equation in reduced form; return the contradicting row, if any."""
+    row = _reduce(rows, dict(eq.coeffs), eq.rhs, frozenset({index}))
+    if not row.coeffs:
+        return row if row.rhs != 0 else None
+    pivot = min(row.coeffs)  # deterministic choice
+    scale = row.coeffs[pivot]
+    row = _Row({k: v / scale for k, v in row.coeffs.items()}, row.rhs / scale, row.sources)
+    for other in rows.values():
+        c = other.coeffs.get(pivot)
+        if c:
+            for k, v in row.coeffs.items():
+                other.coeffs[k] = other.coeffs.get(k, Fraction(0)) - c * v
+            other.coeffs = {k: v for k, v in other.coeffs.items() if v != 0}
+            other.rhs -= c * row.rhs
+            other.sources = other.sources | row.sources
+    rows[pivot] = row
+    return None
+
+
+def solve_rates(design: Design) -> TrainSolution:
+    """Solve the whole train exactly; report locked paths and undriven arbors."""
+    eqs, bad = _equations(design)
+    rows: dict[str, _Row] = {}
+    conflicts: list[Conflict] = []
+    for i, eq in enumerate(eqs):
+        bad_row = _add(rows, eq, i)
+        if bad_row is not None:
+            conflicts.append(_explain(design, eqs, i, bad_row.sources - {i}))
+    rates: dict[str, Fraction | None] = {a.name: None for a in design.arbors}
+    for pivot, row in rows.items():
+        if len(row.coeffs) == 1:
+            rates[pivot] = row.rhs
+    undriven = tuple(a.name for a in design.arbors if rates[a.name] is None)
+    return TrainSolution(rates, tuple(conflicts), undriven, tuple(bad))
+
+
+def _explain(design: Design, eqs: list[Equation], index: int, others: frozenset[int]) -> Conflict:
+    """Describe a contradiction: the rate the earlier equations give, and the new one."""
+    eq = eqs[index]
+    earlier = _solve_subset(eqs, set(others))
+    # The arbor to talk about: one of the new equation's arbors whose rate the others fix;
+    # the new equation then implies a different rate for it.
+    names = [k for k, _ in eq.coeffs]
+    for target in reversed(names):
+        rest = [(k, c) for k, c in eq.coeffs if k != target]
+        if target in earlier and all(k in earlier for k, _ in rest):
+            coeff = dict(eq.coeffs)[target]
+            implied = (eq.rhs - sum(c * earlier[k] for k, c in rest)) / coeff
+            return Conflict(
+                target,
+                earlier[target],
+                tuple(eqs[i].label for i in sorted(others)),
+                implied,
+                (eq.label,),
+            )
+    return Conflict(names[0] if names else "?", None, tuple(eqs[i].label for i in sorted(others)), None, (eq.label,))
