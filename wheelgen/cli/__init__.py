@@ -31,3 +31,5 @@ def main() -> None:
 from .check import check_command  # noqa: E402  (commands register after the group exists)
 
 main.add_command(check_command)
+from .index import index_command  # noqa: E402
+main.add_command(index_command)

@@ -1,0 +1,123 @@
+"""Index-plate hole circles and change-gear sets for a worm dividing head.
+
+The sets are plain tuples of whole numbers (holes per circle, teeth per gear).
+``plate_set`` and ``gear_set`` turn a name or a comma-separated list, as typed on the
+command line, into such a tuple and say what is wrong when they cannot.
+"""
+
+from __future__ import annotations
+
+__all__ = [
+    "THREE_PLATE",
+    "TWO_SIDED",
+    "PLATE_SETS",
+    "DEFAULT_PLATES",
+    "CHANGE_GEARS",
+    "plate_set",
+    "gear_set",
+]
+
+# Three-plate set, the one most commonly supplied with a 40:1 head. From memory
+# (check-values.md §11 [M]); cross-checked there against the published claim in
+# "Practical Treatise on Milling and Milling Machines" (en.wikisource.org, p. 58) that
+# these plates index "all divisions up to 50, even numbers up to 100, except 96".
+THREE_PLATE: tuple[int, ...] = (
+    15, 16, 17, 18, 19, 20,  # plate 1
+    21, 23, 27, 29, 31, 33,  # plate 2
+    37, 39, 41, 43, 47, 49,  # plate 3
+)  # fmt: skip
+
+# One plate drilled on both faces. Published: US Army ordnance manual, dividing-head
+# chapter, armyordnance.tpub.com/od16448/od164480030.htm (check-values.md §11 [P]).
+TWO_SIDED: tuple[int, ...] = (
+    24, 25, 28, 30, 34, 37, 38, 39, 41, 42, 43,  # side 1
+    46, 47, 49, 51, 53, 54, 57, 58, 59, 62, 66,  # side 2
+)  # fmt: skip
+
+#: Named plate sets, as accepted by ``plate_set`` and ``wheelgen index --plates``.
+PLATE_SETS: dict[str, tuple[int, ...]] = {
+    "three-plate": THREE_PLATE,
+    "two-sided": TWO_SIDED,
+}
+
+DEFAULT_PLATES = "three-plate"
+
+# Change gears commonly supplied with a head that can index differentially. From
+# memory (check-values.md §11 [M], after Machinery's Handbook, "Differential
+# Indexing"). 24 comes twice, so a compound train may use two 24s.
+CHANGE_GEARS: tuple[int, ...] = (24, 24, 28, 32, 40, 44, 48, 56, 64, 72, 86, 100)
+
+# A hole circle or a gear below these counts is not a real part: refuse it as a typo.
+_MIN_HOLES = 2
+_MIN_TEETH = 8
+
+
+def _count_list(text: str, what: str, minimum: int) -> tuple[int, ...]:
+    items = [item.strip() for item in text.split(",")]
+    if not text.strip() or any(item == "" for item in items):
+        raise ValueError(
+            f"'{what}' must be a comma-separated list of whole numbers, got {text!r}"
+        )
+    counts = []
+    for item in items:
+        try:
+            count = int(item)
+        except ValueError:
+            raise ValueError(
+                f"'{what}' must be a comma-separated list of whole numbers, "
+                f"got {item!r} in {text!r}"
+            ) from None
+        if count < minimum:
+            raise ValueError(
+                f"each of '{what}' must be at least {minimum}, got {count}"
+            )
+        counts.append(count)
+    return tuple(counts)
+
+
+def plate_set(spec: str) -> tuple[int, ...]:
+    """Hole circles from a set name or a list such as ``"15,16,17"``.
+
+    Parameters
+    ----------
+    spec
+        One of ``'three-plate'``, ``'two-sided'``, or whole numbers >= 2 separated by
+        commas (holes per circle).
+
+    Returns
+    -------
+    tuple of int
+        The circles, sorted, each once.
+    """
+    key = spec.strip().lower()
+    if key in PLATE_SETS:
+        return PLATE_SETS[key]
+    if key and not any(ch.isdigit() for ch in key):
+        names = ", ".join(f"'{name}'" for name in PLATE_SETS)
+        raise ValueError(
+            f"'plates' must be one of {names} or a list like '15,16,17', got {spec!r}"
+        )
+    return tuple(sorted(set(_count_list(spec, "plates", _MIN_HOLES))))
+
+
+def gear_set(spec: str) -> tuple[int, ...]:
+    """Change gears from a list such as ``"24,24,28"``, ``'standard'`` or ``'none'``.
+
+    Parameters
+    ----------
+    spec
+        Teeth per gear (whole numbers >= 8), one entry per gear owned: a count written
+        twice is two gears. ``'standard'`` is ``CHANGE_GEARS``; ``'none'`` means no
+        change gears (simple indexing only).
+
+    Returns
+    -------
+    tuple of int
+        The gears, sorted, duplicates kept.
+    """
+    key = spec.strip().lower()
+    if key == "standard":
+        return CHANGE_GEARS
+    if key == "none":
+        return ()
+    return tuple(sorted(_count_list(spec, "gears", _MIN_TEETH)))
