@@ -33,3 +33,5 @@ from .check import check_command  # noqa: E402  (commands register after the gro
 main.add_command(check_command)
 from .index import index_command  # noqa: E402
 main.add_command(index_command)
+from .ratio import ratio_command  # noqa: E402
+main.add_command(ratio_command)
