@@ -30,7 +30,7 @@ from .model import (
     Wheel,
     Where,
 )
-from .periods import PeriodError, parse_period
+from .periods import UNIT_SECONDS, PeriodError, parse_period
 
 __all__ = ["load_design", "loads_design", "MIN_TEETH", "MAX_TEETH", "SAFE_NAME"]
 
@@ -104,8 +104,25 @@ PROCESS_KEYS: dict[str, tuple[str, _Check | None]] = {
     "fit": ("string", None),
     "min_wall": ("number", _positive),
     "min_module_hand": ("number", _positive),
-    "min_layers": ("integer", _between(1, 100)),
+    "min_layers": ("integer", lambda v: None if 1 <= v <= 100 else "a whole number from 1 to 100"),
 }
+
+#: Periods from a microsecond to a million years: beyond them a float cannot hold the
+#: derived rates and periods of a long train.
+MIN_PERIOD_S = Fraction(1, 10**6)
+MAX_PERIOD_S = 10**6 * UNIT_SECONDS["yr"]
+#: Turns per drive turn that a target may ask for.
+MIN_TURNS, MAX_TURNS = Fraction(1, 10**12), Fraction(10**12)
+_PERIOD_ALLOWED = (
+    'a positive number and a unit (s, min, h, d, yr), such as "27.321661 d", '
+    "from 1e-6 s to 1e6 yr"
+)
+
+
+def _period_text(v: Any) -> str | None:
+    # called on a string value; for a wrong type it describes what is wanted
+    return None if isinstance(v, str) else 'text such as "1 d" or "27.321661 d"'
+
 
 _ORDINAL = {1: "st", 2: "nd", 3: "rd"}
 
@@ -129,6 +146,25 @@ def _type_name(v: Any) -> str:
     if isinstance(v, dict):
         return "a table"
     return type(v).__name__
+
+
+_KIND_PHRASE = {
+    "number": "a number",
+    "integer": "a whole number",
+    "string": "text in quotes",
+    "bool": "true or false",
+}
+
+
+def _expected(kind: str, check: _Check | None) -> str:
+    """What a key accepts, in words: the check's own phrase when it has one."""
+    if check is not None:
+        # A check asked about a value that fails every test (NaN compares false,
+        # None is no option) answers with its full description.
+        phrase = check(None if kind == "string" else math.nan)
+        if phrase:
+            return phrase
+    return _KIND_PHRASE[kind]
 
 
 def _show(v: Any) -> str:
@@ -182,6 +218,10 @@ class _Loader:
         self.file = filename
         self.problems: list[Problem] = []
         self.lines = _Lines(text)
+        # Names of items already reported as broken: references to them are not
+        # reported again as "does not exist".
+        self.broken: dict[str, set[str]] = {"arbor": set(), "wheel": set(), "pinslot": set()}
+        self.arbor_tables = 0  # how many [[arbor]] tables the file has, broken or not
 
     # -- reporting -------------------------------------------------------------------
     def where(self, table: str, index: int, item: str, key: str = "") -> Where:
@@ -218,7 +258,7 @@ class _Loader:
                 self.problem(
                     self.where(table, index, item, key),
                     f"'{key}' is missing",
-                    f"a {kind} value for '{key}' (required)",
+                    f"{_expected(kind, check)} (required)",
                 )
             return default
         v = data[key]
@@ -232,7 +272,7 @@ class _Loader:
         if kind == "integer" and isinstance(v, float) and v.is_integer():
             ok, v = True, int(v)
         if not ok:
-            self.problem(w, f"{key} = {_show(v)} ({_type_name(v)})", f"a {kind.replace('bool', 'true/false')}")
+            self.problem(w, f"{key} = {_show(v)} ({_type_name(v)})", _expected(kind, check))
             return default
         if kind == "number":
             v = float(v)
@@ -246,12 +286,22 @@ class _Loader:
                 return default
         return v
 
-    def unknown_keys(self, data: dict[str, Any], known: tuple[str, ...] | list[str], ctx: tuple[str, int, str]) -> None:
+    def unknown_keys(
+        self,
+        data: dict[str, Any],
+        known: tuple[str, ...] | list[str],
+        ctx: tuple[str, int, str],
+        required: tuple[str, ...] = (),
+    ) -> None:
         table, index, item = ctx
+        # A key already written cannot be the one mistyped; a required key that is
+        # missing is the likeliest meant ('tooth' -> 'teeth', not 'tooth_angle').
+        unused = [k for k in known if k not in data]
         for key in data:
             if key in known:
                 continue
-            close = difflib.get_close_matches(key, list(known), n=1, cutoff=0.6)
+            close = difflib.get_close_matches(key, [k for k in required if k not in data], n=1, cutoff=0.5)
+            close = close or difflib.get_close_matches(key, unused, n=1, cutoff=0.6)
             hint = f"Did you mean '{close[0]}'?" if close else ""
             self.problem(
                 self.where(table, index, item, key),
@@ -300,6 +350,7 @@ class _Loader:
             return None, anon
         item = f'{table} "{raw}"'
         if not SAFE_NAME.match(raw):
+            self.broken.setdefault(table, set()).add(raw)
             self.problem(
                 self.where(table, index, item, "name"),
                 f"name = {_show(raw)} is not a safe file name",
@@ -307,6 +358,7 @@ class _Loader:
             )
             return None, anon
         if raw in RESERVED_NAMES:
+            self.broken.setdefault(table, set()).add(raw)
             self.problem(
                 self.where(table, index, item, "name"),
                 f"name = {_show(raw)} is kept for the build's own files",
@@ -328,6 +380,16 @@ class _Loader:
                 "TOML syntax, see docs/format.md",
             )
             raise DesignError(self.problems) from None
+        except (ValueError, RecursionError) as exc:
+            # tomllib lets these through: an integer of more than 4300 digits
+            # (ValueError from int()) and brackets nested deeper than Python's stack.
+            found = (
+                "lists or tables nested too deeply"
+                if isinstance(exc, RecursionError)
+                else "a number too long to read"
+            )
+            self.problem(Where(self.file), f"the file is not usable TOML ({found})", "TOML syntax, see docs/format.md")
+            raise DesignError(self.problems) from None
 
         self.unknown_keys(doc, TOP_KEYS, ("", 0, ""))
         title, process = self.design_table(doc)
@@ -341,8 +403,6 @@ class _Loader:
         drive = self.drive_table(doc)
         targets = self.targets(doc)
         stock = self.stock(doc)
-        if self.problems:
-            raise DesignError(self.problems)
         self.cross_check(arbors, wheels, meshes, pinslots, drive, targets)
         if self.problems:
             raise DesignError(self.problems)
@@ -370,7 +430,7 @@ class _Loader:
         if t is None:
             return "", "mill"
         ctx = ("design", 0, "[design]")
-        self.unknown_keys(t, ("title", "process"), ctx)
+        self.unknown_keys(t, ("title", "process"), ctx, required=("title",))
         title = self.value(t, "title", "string", ctx, required=True, default="")
         process = self.value(t, "process", "string", ctx, default="mill", check=_choice("print", "mill", "hand"))
         return title, process
@@ -433,7 +493,7 @@ class _Loader:
         if t is None:
             return None
         ctx = ("drive", 0, "[drive]")
-        self.unknown_keys(t, ("arbor", "period", "sense"), ctx)
+        self.unknown_keys(t, ("arbor", "period", "sense"), ctx, required=("arbor", "period"))
         arbor = self.value(t, "arbor", "string", ctx, required=True)
         period = self.period(t, "period", ctx, required=True)
         sense = self.value(t, "sense", "string", ctx, default="ccw", check=_choice("ccw", "cw"))
@@ -442,22 +502,27 @@ class _Loader:
         return Drive(arbor=arbor, period_s=period, sense=sense, where=self.where("drive", 0, "[drive]", "arbor"))
 
     def period(self, t: dict[str, Any], key: str, ctx: tuple[str, int, str], required: bool = False) -> Fraction | None:
-        raw = self.value(t, key, "string", ctx, required=required)
+        raw = self.value(t, key, "string", ctx, required=required, check=_period_text)
         if raw is None:
             return None
         try:
-            return parse_period(raw)
+            value = parse_period(raw)
         except PeriodError as exc:
-            self.problem(self.where(*ctx, key), f'{key} = "{raw}": {exc}', 'a positive number and a unit (s, min, h, d, yr), such as "27.321661 d"')
+            self.problem(self.where(*ctx, key), f'{key} = "{raw}": {exc}', _PERIOD_ALLOWED)
             return None
+        if not MIN_PERIOD_S <= value <= MAX_PERIOD_S:
+            self.problem(self.where(*ctx, key), f'{key} = "{raw}" is out of range', _PERIOD_ALLOWED)
+            return None
+        return value
 
     def arbors(self, doc: dict[str, Any]) -> list[Arbor]:
         out = []
         known = ("name", "at", "diameter", "around", "fixed", "carrier")
+        self.arbor_tables = len(self.tables(doc, "arbor"))
         for i, t in enumerate(self.tables(doc, "arbor")):
             name, item = self.name_of(t, "arbor", i)
             ctx = ("arbor", i, item)
-            self.unknown_keys(t, known, ctx)
+            self.unknown_keys(t, known, ctx, required=("name",))
             at = self.pair_of_numbers(t, "at", ctx)
             diameter = self.value(t, "diameter", "number", ctx, default=3.0, check=_positive)
             around = self.value(t, "around", "string", ctx)
@@ -482,7 +547,7 @@ class _Loader:
         for i, t in enumerate(self.tables(doc, "wheel")):
             name, item = self.name_of(t, "wheel", i)
             ctx = ("wheel", i, item)
-            self.unknown_keys(t, known, ctx)
+            self.unknown_keys(t, known, ctx, required=("name", "arbor", "teeth"))
             arbor = self.value(t, "arbor", "string", ctx, required=True)
             teeth = self.value(
                 t, "teeth", "integer", ctx, required=True,
@@ -493,6 +558,8 @@ class _Loader:
             for key, (_, kind, check) in WHEEL_KEYS.items():
                 fields[_WHEEL_FIELD.get(key, key)] = self.value(t, key, kind, ctx, default=defaults[key], check=check)
             if name is None or arbor is None or teeth is None:
+                if name is not None:
+                    self.broken["wheel"].add(name)
                 continue
             for key, (default, _, _) in WHEEL_KEYS.items():
                 field_name = _WHEEL_FIELD.get(key, key)
@@ -506,7 +573,7 @@ class _Loader:
         for i, t in enumerate(self.tables(doc, "mesh")):
             item = f"the {_ordinal(i + 1)} [[mesh]]"
             ctx = ("mesh", i, item)
-            self.unknown_keys(t, ("pair", "bearing"), ctx)
+            self.unknown_keys(t, ("pair", "bearing"), ctx, required=("pair",))
             pair = t.get("pair")
             if pair is None:
                 self.problem(self.where("mesh", i, item, "pair"), "'pair' is missing", 'two wheel names, such as pair = ["w1", "w2"]')
@@ -529,7 +596,7 @@ class _Loader:
         for i, t in enumerate(self.tables(doc, "pinslot")):
             name, item = self.name_of(t, "pinslot", i)
             ctx = ("pinslot", i, item)
-            self.unknown_keys(t, known, ctx)
+            self.unknown_keys(t, known, ctx, required=("name", "pin", "slot", "radius", "offset"))
             pin = self.value(t, "pin", "string", ctx, required=True)
             slot = self.value(t, "slot", "string", ctx, required=True)
             radius = self.value(t, "radius", "number", ctx, required=True, check=_positive)
@@ -539,8 +606,10 @@ class _Loader:
             part = self.value(t, "pin_part", "string", ctx, default="boss", check=_choice("boss", "separate"))
             if pin is not None and pin == slot:
                 self.problem(self.where("pinslot", i, item, "slot"), f'wheel "{pin}" is both pin and slot', "two different wheels")
-                continue
+                pin = None
             if None in (name, pin, slot, radius, offset):
+                if name is not None:
+                    self.broken["pinslot"].add(name)
                 continue
             out.append(PinSlot(name, pin, slot, radius, offset, bearing, pin_d, part, self.where("pinslot", i, item)))
         return out
@@ -550,7 +619,7 @@ class _Loader:
         for i, t in enumerate(self.tables(doc, "target")):
             item = f"the {_ordinal(i + 1)} [[target]]"
             ctx = ("target", i, item)
-            self.unknown_keys(t, ("arbor", "period", "turns", "tolerance", "sense"), ctx)
+            self.unknown_keys(t, ("arbor", "period", "turns", "tolerance", "sense"), ctx, required=("arbor",))
             arbor = self.value(t, "arbor", "string", ctx, required=True)
             if arbor is not None:
                 item = f'the {_ordinal(i + 1)} [[target]] (arbor "{arbor}")'
@@ -558,7 +627,11 @@ class _Loader:
             period = self.period(t, "period", ctx)
             turns = self.turns(t, ctx)
             if ("period" in t) == ("turns" in t):
-                self.problem(self.where("target", i, item), "both 'period' and 'turns'" if "period" in t else "neither 'period' nor 'turns'", "exactly one of them")
+                self.problem(
+                    self.where("target", i, item, "turns" if "turns" in t else "period"),
+                    "both 'period' and 'turns'" if "period" in t else "neither 'period' nor 'turns'",
+                    "exactly one of them",
+                )
             tol_ppm, tol_s = self.tolerance(t, ctx)
             sense = self.value(t, "sense", "string", ctx, default="either", check=_choice("cw", "ccw", "either"))
             if arbor is None or (period is None and turns is None):
@@ -574,12 +647,18 @@ class _Loader:
         try:
             if isinstance(raw, bool) or not isinstance(raw, (str, int, float)):
                 raise ValueError
-            value = Fraction(str(raw).replace(" ", ""))
+            text = str(raw).replace(" ", "")
+            if re.search(r"[eE][+-]?\d{3}", text):
+                raise ValueError  # Fraction would build a huge integer first
+            value = Fraction(text)
         except (ValueError, ZeroDivisionError):
             self.problem(self.where(*ctx, "turns"), f"turns = {_show(raw)}", allowed)
             return None
         if value <= 0:
             self.problem(self.where(*ctx, "turns"), f"turns = {_show(raw)}", allowed + " (use 'sense' for the direction)")
+            return None
+        if not MIN_TURNS <= value <= MAX_TURNS:
+            self.problem(self.where(*ctx, "turns"), f"turns = {_show(raw)} is out of range", allowed + ", from 1e-12 to 1e12")
             return None
         return value
 
@@ -587,17 +666,26 @@ class _Loader:
         if "tolerance" not in t:
             return 1.0, None  # default: 1 ppm
         raw = t["tolerance"]
-        allowed = 'a relative tolerance such as "20 ppm" or an absolute time such as "30 s"'
+        allowed = (
+            'a relative tolerance such as "20 ppm" (at most 1e6 ppm), or an absolute '
+            'time with a unit s, min, h, d or yr, such as "30 s"'
+        )
         if isinstance(raw, str):
             m = re.match(r"^\s*([0-9]*\.?[0-9]+(?:[eE][+-]?\d+)?)\s*ppm\s*$", raw)
             if m:
-                return float(m.group(1)), None
-            try:
-                return None, parse_period(raw)
-            except PeriodError:
-                pass
-            if re.match(r"^\s*0+(\.0*)?\s*[a-z]+\s*$", raw):
-                return None, Fraction(0)
+                ppm = float(m.group(1))
+                if ppm <= 1e6:
+                    return ppm, None
+            else:
+                try:
+                    tol_s = parse_period(raw)
+                    if tol_s <= MAX_PERIOD_S:
+                        return None, tol_s
+                except PeriodError:
+                    pass
+                zero = re.match(r"^\s*0+(\.0*)?\s*([a-z]+)\s*$", raw)
+                if zero and zero.group(2) in UNIT_SECONDS:
+                    return None, Fraction(0)  # "0 s": the period must be exact
         self.problem(self.where(*ctx, "tolerance"), f"tolerance = {_show(raw)}", allowed)
         return None, None
 
@@ -606,7 +694,7 @@ class _Loader:
         for i, t in enumerate(self.tables(doc, "stock")):
             item = f"the {_ordinal(i + 1)} [[stock]]"
             ctx = ("stock", i, item)
-            self.unknown_keys(t, ("outside", "inside"), ctx)
+            self.unknown_keys(t, ("outside", "inside"), ctx, required=("outside", "inside"))
             outside = self.value(t, "outside", "number", ctx, required=True, check=_positive)
             inside = self.value(t, "inside", "number", ctx, required=True, check=_positive)
             if outside is not None and inside is not None:
@@ -633,7 +721,7 @@ class _Loader:
             for it in items:
                 if it.name in seen:
                     self.problem(
-                        it.where or Where(self.file),
+                        self.at_key(it.where, "name"),
                         f'the name "{it.name}" is used twice',
                         "names unique across arbors, wheels and pin-and-slot couplings",
                         f"It is first used at {seen[it.name]}." if seen[it.name] else "",
@@ -644,6 +732,8 @@ class _Loader:
         def ref(where: Where | None, key: str, name: str, pool: dict[str, Any], what: str) -> bool:
             if name in pool:
                 return True
+            if name in self.broken.get(what, ()):
+                return False  # that item's own problem is reported already
             close = difflib.get_close_matches(name, list(pool), n=1, cutoff=0.5)
             w = self.at_key(where, key)
             self.problem(
@@ -654,7 +744,7 @@ class _Loader:
             )
             return False
 
-        if not arbors:
+        if not arbors and not self.arbor_tables:
             self.problem(Where(self.file, "[[arbor]]"), "no [[arbor]] tables", "at least one arbor")
         for a in arbors:
             if a.around is not None:
@@ -702,7 +792,7 @@ class _Loader:
                     loop = chain[chain.index(cur):] + [cur]
                     if not bad.intersection(loop):
                         self.problem(
-                            a.where or Where(self.file),
+                            self.at_key(a.where, "around" if a.around is not None else "carrier"),
                             "a cycle of 'around'/'carrier': " + " -> ".join(f'"{n}"' for n in loop),
                             "each arbor surrounds or rides on a member that does not, in turn, lead back to it",
                         )
@@ -712,13 +802,25 @@ class _Loader:
                 cur = parent(by_arbor[cur])
         if bad:
             return
+        def axis(name: str) -> str:
+            while by_arbor[name].around is not None:
+                name = by_arbor[name].around  # type: ignore[assignment]  # loop ends: no cycle
+            return name
+
         for m in meshes:
             a, b = (by_wheel[n].arbor for n in m.pair)
             if a == b:
-                self.problem(m.where or Where(self.file), f'both wheels sit on arbor "{a}"', "wheels on two different arbors")
+                self.problem(self.at_key(m.where, "pair"), f'both wheels sit on arbor "{a}"', "wheels on two different arbors")
+            elif axis(a) == axis(b):
+                # Coaxial members turn about one axis: their wheels cannot engage.
+                self.problem(
+                    self.at_key(m.where, "pair"),
+                    f'arbors "{a}" and "{b}" share one axis (one is a sleeve around the other)',
+                    "wheels on arbors with different axes",
+                )
         for p in pinslots:
             if by_wheel[p.pin].arbor == by_wheel[p.slot].arbor:
-                self.problem(p.where or Where(self.file), f'pin wheel and slot wheel both sit on arbor "{by_wheel[p.pin].arbor}"', "wheels on two different arbors")
+                self.problem(self.at_key(p.where, "slot"), f'pin wheel and slot wheel both sit on arbor "{by_wheel[p.pin].arbor}"', "wheels on two different arbors")
         self.check_placement(by_arbor, by_wheel, meshes, pinslots)
 
     def check_placement(
@@ -753,7 +855,7 @@ class _Loader:
         for name, arbor in by_arbor.items():
             if axis(name) not in placed and arbor.around is None:
                 self.problem(
-                    arbor.where or Where(self.file),
+                    self.at_key(arbor.where, "at"),
                     "the arbor cannot be placed: it has no 'at' and no [[mesh]] with a 'bearing' links it to a placed arbor",
                     "'at = [x, y]' on the arbor, or a 'bearing' on one of its meshes",
                 )

@@ -17,6 +17,8 @@ UNIT_SECONDS: dict[str, Fraction] = {
     "yr": Fraction(36525 * 864),
 }
 
+_MAX_EXPONENT = 30
+_MAX_DIGITS = 40
 _NUMBER = r"[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?"
 _PERIOD = re.compile(rf"^\s*({_NUMBER}(?:\s*/\s*\d+)?)\s*([a-z]+)\s*$")
 
@@ -40,10 +42,23 @@ def parse_period(text: str) -> Fraction:
             f"{text!r} is not '<number> <unit>' (for example \"1 d\" or \"27.321661 d\")"
         )
     number, unit = match.groups()
+    if len(number) > _MAX_DIGITS:
+        # int() refuses more than 4300 digits with a plain ValueError; no period needs 40
+        raise PeriodError(f"{text[:20]!r}... has more than {_MAX_DIGITS} characters in its number")
+    exponent = re.search(r"[eE]([+-]?\d+)", number)
+    # Fraction("1e999999999") would build a huge integer first: refuse silly exponents.
+    if exponent is not None and abs(int(exponent.group(1))) > _MAX_EXPONENT:
+        raise PeriodError(
+            f"{text!r} has a power of ten beyond {_MAX_EXPONENT} (write it in another unit)"
+        )
     if unit not in UNIT_SECONDS:
         units = ", ".join(UNIT_SECONDS)
         raise PeriodError(f"unknown unit {unit!r} in {text!r}; units are {units}")
-    value = Fraction(number.replace(" ", ""))
+    # Fraction() itself reads "254/19" but not "6939.602/19": divide the parts here.
+    top, _, bottom = number.replace(" ", "").partition("/")
+    if bottom and int(bottom) == 0:
+        raise PeriodError(f"{text!r} divides by zero")
+    value = Fraction(top) / (Fraction(bottom) if bottom else 1)
     if value <= 0:
         raise PeriodError(f"{text!r} is not a positive period")
     return value * UNIT_SECONDS[unit]

@@ -48,14 +48,19 @@ class Conflict:
     path_two: tuple[str, ...]
 
     def message(self) -> str:
-        one = " + ".join(self.path_one) or "the drive"
-        two = " + ".join(self.path_two)
         r1 = "?" if self.rate_one is None else str(self.rate_one)
         r2 = "?" if self.rate_two is None else str(self.rate_two)
         return (
-            f'arbor "{self.arbor}" is driven two ways that disagree: through {one} it turns '
-            f"{r1} times per drive turn, through {two} it would turn {r2} times; the train locks"
+            f'arbor "{self.arbor}" is driven two ways that disagree: through '
+            f"{_path_text(self.path_one)} it turns {r1} times per drive turn, through "
+            f"{_path_text(self.path_two)} it would turn {r2} times; the train locks"
         )
+
+
+def _path_text(path: tuple[str, ...]) -> str:
+    """'mesh a-b, mesh c-d' (the drive itself is implied unless it is all there is)."""
+    links = [label for label in path if label != "the drive"]
+    return ", ".join(links) if links else "the drive"
 
 
 @dataclass(frozen=True, slots=True)
@@ -146,11 +151,27 @@ def _reduce(rows: dict[str, _Row], coeffs: dict[str, Fraction], rhs: Fraction, s
     return _Row({k: v for k, v in coeffs.items() if v != 0}, rhs, sources)
 
 
-def _solve_subset(eqs: list[Equation], use: set[int]) -> dict[str, Fraction]:
+def _solve_subset(eqs: list[Equation], use: set[int]) -> dict[str, Fraction] | None:
+    """Rates fixed by the equations ``use`` alone; ``None`` if they contradict."""
     rows: dict[str, _Row] = {}
     for i in sorted(use):
-        _add(rows, eqs[i], i)
+        if _add(rows, eqs[i], i) is not None:
+            return None
     return {p: r.rhs for p, r in rows.items() if len(r.coeffs) == 1}
+
+
+def _rate_from(eqs: list[Equation], use: set[int], arbor: str) -> Fraction | None:
+    rates = _solve_subset(eqs, use)
+    return None if rates is None else rates.get(arbor)
+
+
+def _shortest(eqs: list[Equation], use: set[int], arbor: str, keep: int | None) -> set[int]:
+    """Drop equations (last first) while the rest still fix the arbor's rate: one path."""
+    path = set(use)
+    for j in sorted(use, reverse=True):
+        if j != keep and _rate_from(eqs, path - {j}, arbor) is not None:
+            path.discard(j)
+    return path
 
 
 def _add(rows: dict[str, _Row], eq: Equation, index: int) -> _Row | None:
@@ -191,22 +212,33 @@ def solve_rates(design: Design) -> TrainSolution:
 
 
 def _explain(design: Design, eqs: list[Equation], index: int, others: frozenset[int]) -> Conflict:
-    """Describe a contradiction: the rate the earlier equations give, and the new one."""
+    """Describe a contradiction as two paths that give one arbor two different rates.
+
+    ``others`` are the (consistent) equations the contradicting row came from. Path one
+    is a smallest part of them that fixes the arbor's rate; path two is a smallest set
+    that fixes it through the new equation ``index`` once one link of path one is cut.
+    """
     eq = eqs[index]
-    earlier = _solve_subset(eqs, set(others))
-    # The arbor to talk about: one of the new equation's arbors whose rate the others fix;
-    # the new equation then implies a different rate for it.
+    earlier = _solve_subset(eqs, set(others)) or {}
     names = [k for k, _ in eq.coeffs]
+
+    def labels(path: set[int]) -> tuple[str, ...]:
+        return tuple(eqs[i].label for i in sorted(path))
+
     for target in reversed(names):
         rest = [(k, c) for k, c in eq.coeffs if k != target]
-        if target in earlier and all(k in earlier for k, _ in rest):
-            coeff = dict(eq.coeffs)[target]
-            implied = (eq.rhs - sum(c * earlier[k] for k, c in rest)) / coeff
-            return Conflict(
-                target,
-                earlier[target],
-                tuple(eqs[i].label for i in sorted(others)),
-                implied,
-                (eq.label,),
-            )
-    return Conflict(names[0] if names else "?", None, tuple(eqs[i].label for i in sorted(others)), None, (eq.label,))
+        if target not in earlier or not all(k in earlier for k, _ in rest):
+            continue
+        one = _shortest(eqs, set(others), target, None)
+        everything = set(others) | {index}
+        # Cut a mesh or coupling before an anchor (the drive, a fixed arbor): without
+        # its anchor a closed loop of meshes still "fixes" every rate, at zero.
+        for cut in sorted(one, key=lambda i: (len(eqs[i].coeffs) == 1, i)):
+            rate_two = _rate_from(eqs, everything - {cut}, target)
+            if rate_two is not None and rate_two != earlier[target]:
+                two = _shortest(eqs, everything - {cut}, target, index)
+                return Conflict(target, earlier[target], labels(one), _rate_from(eqs, two, target), labels(two))
+        coeff = dict(eq.coeffs)[target]
+        implied = (eq.rhs - sum(c * earlier[k] for k, c in rest)) / coeff
+        return Conflict(target, earlier[target], labels(set(others)), implied, (eq.label,))
+    return Conflict(names[0] if names else "?", None, labels(set(others)), None, (eq.label,))

@@ -77,8 +77,9 @@ def evaluate_targets(design: Design, solution: TrainSolution) -> list[TargetResu
                 within = abs(got_s - wanted_s) <= t.tolerance_s
             else:
                 tol = t.tolerance_ppm if t.tolerance_ppm is not None else 1.0
-                # exact comparison: |got - wanted| * 1e6 <= tol * wanted
-                within = abs(got_s - wanted_s) * 1_000_000 <= Fraction(tol) * wanted_s
+                # exact comparison: |got - wanted| * 1e6 <= tol * wanted; str() so that
+                # "0.1 ppm" is 1/10, not the nearest binary float
+                within = abs(got_s - wanted_s) * 1_000_000 <= Fraction(str(tol)) * wanted_s
             met = within and sense_ok
         out.append(TargetResult(t, wanted_s, got_s, wanted_turns, rate, error_ppm, drift, sense_ok, met))
     return out
