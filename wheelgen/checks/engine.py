@@ -37,9 +37,29 @@ def _train(design: Design, analysis: Analysis) -> list[Finding]:
     return train_findings(design, analysis.solution, analysis.targets)
 
 
+def _meshes(design: Design, analysis: Analysis) -> list[Finding]:
+    from .mesh_checks import design_mesh_checks
+
+    return design_mesh_checks(design)
+
+
+def _process(design: Design, analysis: Analysis) -> list[Finding]:
+    from ..layout import plan_parts
+    from .process_checks import design_process_checks
+
+    try:
+        bores = {p.name: p.bore for p in plan_parts(design) if p.kind == "wheel"}
+    except Exception:  # noqa: BLE001  (a layout that cannot be made is reported by the layout check)
+        bores = None
+    return design_process_checks(design, bores)
+
+
 def _registered() -> tuple[DesignCheck, ...]:
     # Imported here so that each check module may import the engine's types.
-    return (_train,)
+    from ..layout import layout_findings
+    from .pinslot_checks import pinslot_findings
+
+    return (_train, _meshes, _process, layout_findings, pinslot_findings)
 
 
 DESIGN_CHECKS: tuple[DesignCheck, ...] = ()

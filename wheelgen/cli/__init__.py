@@ -35,3 +35,7 @@ from .index import index_command  # noqa: E402
 main.add_command(index_command)
 from .ratio import ratio_command  # noqa: E402
 main.add_command(ratio_command)
+from .motion import motion_command  # noqa: E402
+main.add_command(motion_command)
+from .gear import gear_command  # noqa: E402
+main.add_command(gear_command)

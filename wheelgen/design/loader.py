@@ -84,7 +84,8 @@ WHEEL_KEYS: dict[str, tuple[Any, str, _Check | None]] = {
     "backlash": (0.05, "number", _non_negative),
     "addendum": (1.0, "number", _between(0.1, 2, " modules")),
     "dedendum": (1.25, "number", _between(0.1, 3, " modules")),
-    "root_radius": (0.38, "number", _between(0, 1, " modules")),
+    # None: by form, see _ROOT_RADIUS_BY_FORM
+    "root_radius": (None, "number", _between(0, 1, " modules")),
     "tip_radius": (0.0, "number", _between(0, 1, " modules")),
     "bore": (None, "number", _positive),
     "seat": ("round", "string", _choice("round", "square", "hex", "pinned")),
@@ -93,6 +94,11 @@ WHEEL_KEYS: dict[str, tuple[Any, str, _Check | None]] = {
     "hub_diameter": (0.0, "number", _non_negative),
     "hub_length": (0.0, "number", _non_negative),
 }
+#: Root rounding (x module) when neither the wheel nor [defaults] sets one: the ISO 53
+#: type A rack tip radius for involute teeth; for triangular teeth a small rounding,
+#: because 0.38 m does not fit the narrow V of a 60-degree space (derived: the V's
+#: inscribed circle at the root line).
+_ROOT_RADIUS_BY_FORM = {"involute": 0.38, "triangular": 0.1}
 # Wheel field names that differ from the file's keys.
 _WHEEL_FIELD = {"pressure_angle": "pressure_angle_deg", "tooth_angle": "tooth_angle_deg"}
 
@@ -104,6 +110,8 @@ PROCESS_KEYS: dict[str, tuple[str, _Check | None]] = {
     "fit": ("string", None),
     "min_wall": ("number", _positive),
     "min_module_hand": ("number", _positive),
+    "min_backlash": ("number", _non_negative),
+    "centre_tolerance": ("number", _positive),
     "min_layers": ("integer", lambda v: None if 1 <= v <= 100 else "a whole number from 1 to 100"),
 }
 
@@ -565,6 +573,8 @@ class _Loader:
                 field_name = _WHEEL_FIELD.get(key, key)
                 if fields[field_name] is None and default is not None:
                     fields[field_name] = default
+            if fields["root_radius"] is None:
+                fields["root_radius"] = _ROOT_RADIUS_BY_FORM.get(fields["form"], 0.38)
             out.append(Wheel(name=name, arbor=arbor, teeth=teeth, height=height, where=self.where("wheel", i, item), **fields))
         return out
 

@@ -68,6 +68,8 @@ class Process:
     min_wall: float | None = None  # thinnest sleeve wall; None = the process default
     min_module_hand: float = 0.5  # hand: smallest module still filed by hand
     min_layers: int = 4  # print: face width at least this many layers
+    min_backlash: float | None = None  # mm the process holds in a mesh; None = its default
+    centre_tolerance: float | None = None  # mm a placed centre may be off; None = default
 
     @property
     def wall_minimum(self) -> float:

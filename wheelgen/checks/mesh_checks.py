@@ -1,0 +1,750 @@
+"""Checks on each wheel's teeth and on each pair of wheels in mesh.
+
+Every function returns a list of :class:`~wheelgen.checks.findings.Finding`; an empty
+list means the check passed. Lengths in mm, angles in degrees.
+
+Involute pairs are judged with the usual formulas (working pressure angle, working
+centre distance, transverse contact ratio, tip-root clearance, the start of active
+profile against the form circle). Every pair is also turned through a tooth pitch with
+the outline simulator (:mod:`wheelgen.checks.mesh_sim`): it is the only verdict for
+triangular teeth, and a second opinion on involute ones.
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Mapping
+from dataclasses import dataclass
+
+from ..design.model import Design, Process, Wheel
+from ..teeth.involute_tooth import generate_tooth
+from ..teeth.mesh_data import (
+    mesh_data,
+    shifted_centre_distance,
+    working_pressure_angle_deg,
+)
+from ..teeth.outline import WheelOutline
+from ..teeth.spec import ToothSpec, outline_for
+from .findings import Finding, Level
+from .mesh_sim import MeshSimulation, simulate_mesh
+
+__all__ = [
+    "CONTACT_RATIO_ERROR",
+    "CONTACT_RATIO_WARNING",
+    "MIN_TIP_THICKNESS",
+    "MIN_CLEARANCE",
+    "InvoluteMesh",
+    "involute_mesh",
+    "wheel_spec",
+    "check_wheel",
+    "check_mesh",
+    "design_mesh_checks",
+    "MIN_BACKLASH",
+    "CENTRE_TOLERANCE",
+]
+
+#: Transverse contact ratio below which a pair is refused / warned about (common
+#: practice, no source: below 1 a tooth lets go before the next one takes over).
+CONTACT_RATIO_ERROR = 1.0
+CONTACT_RATIO_WARNING = 1.2
+#: Smallest tooth thickness at the tip, x module, before a warning (common practice,
+#: no source; shop rule for unhardened teeth).
+MIN_TIP_THICKNESS = 0.2
+#: Smallest tip-root clearance, x module, before a warning (common practice, no
+#: source; ISO 53 gives 0.25 m for the basic rack).
+MIN_CLEARANCE = 0.1
+#: Smallest backlash (mm) each process holds without binding, unless ``[process]``
+#: sets ``min_backlash`` (common practice, no source).
+MIN_BACKLASH = {"print": 0.1, "mill": 0.02, "hand": 0.05}
+#: How far (mm) placed centres may sit from the working centre distance before a
+#: warning, unless ``[process]`` sets ``centre_tolerance`` (common practice, no source).
+CENTRE_TOLERANCE = {"print": 0.1, "mill": 0.02, "hand": 0.05}
+#: Simulated transmission error (degrees) of an involute pair above which something is
+#: wrong with the flanks: far above the simulator's resolution (about 1e-3 degrees).
+INVOLUTE_TE_LIMIT_DEG = 0.01
+#: Steps per pitch when the checks run the simulator (enough for a verdict; the
+#: benchmark and tests use finer steps).
+CHECK_STEPS = 60
+
+
+def wheel_spec(wheel: Wheel) -> ToothSpec:
+    """The tooth spec of a design wheel; half the wanted backlash comes off each."""
+    return ToothSpec(
+        teeth=wheel.teeth,
+        module=wheel.module,
+        form=wheel.form,
+        pressure_angle_deg=wheel.pressure_angle_deg,
+        tooth_angle_deg=wheel.tooth_angle_deg,
+        shift=wheel.shift,
+        addendum=wheel.addendum,
+        dedendum=wheel.dedendum,
+        root_radius=wheel.root_radius,
+        tip_radius=wheel.tip_radius,
+        thinning=wheel.backlash / 2,
+    )
+
+
+@dataclass(frozen=True, slots=True)
+class InvoluteMesh:
+    """Numbers of an involute pair at one centre distance (mm, degrees).
+
+    ``start_radius_1`` is where contact begins on wheel 1 (the mate's tip reaching
+    down), ``nan`` when the mate's tip passes the interference point
+    (``reach_1 < 0``); likewise for wheel 2. ``contact_ratio_effective`` counts only the
+    part of the path of contact where both flanks are involute (above both form
+    circles): generated teeth are undercut where a mate's tip would interfere, so the
+    flanks do not collide there, they lose contact.
+    """
+
+    centre_distance: float
+    working_centre_distance: float
+    working_pressure_angle_deg: float
+    pressure_angle_at_centres_deg: float
+    contact_ratio: float
+    contact_ratio_effective: float  # counting only contact on the involutes
+    backlash: float  # circumferential, on the working pitch circles at these centres
+    clearance_1: float  # tip of wheel 1 to root of wheel 2
+    clearance_2: float
+    reach_1: float  # from the line of action's tangent point on base circle 1
+    reach_2: float
+    start_radius_1: float
+    start_radius_2: float
+    form_radius_1: float
+    form_radius_2: float
+
+
+def involute_mesh(
+    spec1: ToothSpec, spec2: ToothSpec, centre_distance: float | None = None
+) -> InvoluteMesh:
+    """The gear data of an external involute pair with equal module and pressure angle.
+
+    ``centre_distance`` (mm) defaults to the working centre distance of the shifted
+    pair. The ISO 21771 numbers (working pressure angle and centre distance, contact
+    ratio, backlash, start of contact) come from :func:`wheelgen.teeth.mesh_data`; this
+    adds the clearance on each side and the contact ratio counted on the involutes only.
+
+    Raises ``ValueError`` when the axes are closer than the base circles allow.
+    """
+    if spec1.form != "involute" or spec2.form != "involute":
+        raise ValueError("'spec1' and 'spec2' must both be involute")
+    data = mesh_data(spec1, spec2, centre_distance)
+    assert data.working_pressure_angle_deg is not None  # involute pairs always have it
+    assert data.contact_ratio is not None and data.backlash is not None
+    assert data.interference_distance1 is not None
+    assert data.interference_distance2 is not None
+    g1, g2 = generate_tooth(spec1), generate_tooth(spec2)
+    z1, z2, x1, x2 = spec1.teeth, spec2.teeth, spec1.shift, spec2.shift
+    alpha_deg = spec1.pressure_angle_deg
+    a_w = shifted_centre_distance(z1, z2, spec1.module, x1, x2, alpha_deg)
+    a = data.centre_distance
+    # Along the line of action from the tangent point on base circle 1, contact runs
+    # from the mate's tip (reach1) to wheel 1's tip (path1); only the stretch where both
+    # flanks are involute (above both form circles) carries the motion exactly.
+    rb1, rb2 = g1.base_radius, g2.base_radius
+    line = a * math.sin(math.radians(data.working_pressure_angle_deg))
+    reach1, reach2 = data.interference_distance1, data.interference_distance2
+    path1 = line - reach2
+    form1 = math.sqrt(max(g1.form_radius**2 - rb1**2, 0.0))
+    form2 = line - math.sqrt(max(g2.form_radius**2 - rb2**2, 0.0))
+    start, end = max(reach1, form1), min(path1, form2)
+    base_pitch = math.pi * spec1.module * math.cos(math.radians(alpha_deg))
+    return InvoluteMesh(
+        centre_distance=a,
+        working_centre_distance=a_w,
+        working_pressure_angle_deg=working_pressure_angle_deg(
+            z1, z2, x1, x2, alpha_deg
+        ),
+        pressure_angle_at_centres_deg=data.working_pressure_angle_deg,
+        contact_ratio=data.contact_ratio,
+        contact_ratio_effective=max(end - start, 0.0) / base_pitch,
+        backlash=data.backlash,
+        clearance_1=a - g1.tip_radius - g2.root_radius,
+        clearance_2=a - g2.tip_radius - g1.root_radius,
+        reach_1=reach1,
+        reach_2=reach2,
+        start_radius_1=math.hypot(rb1, reach1) if reach1 >= 0 else math.nan,
+        start_radius_2=math.hypot(rb2, reach2) if reach2 >= 0 else math.nan,
+        form_radius_1=g1.form_radius,
+        form_radius_2=g2.form_radius,
+    )
+
+
+def _mm(value: float, digits: int = 3) -> str:
+    return f"{value:.{digits}f} mm"
+
+
+def _shift_to_avoid_undercut(spec: ToothSpec) -> float:
+    # x_min = h_a - z sin^2(a) / 2 for a rack of addendum h_a (x module) (SDP/SI D785
+    # sec. 4.3, "undercut" [M]); here h_a is the rack's straight-flank depth, which for
+    # ISO 53 type A (1.25 m, fillet 0.38 m) is 1.0 m.
+    alpha = math.radians(spec.pressure_angle_deg)
+    h_flank = spec.dedendum - spec.root_radius * (1 - math.sin(alpha))
+    return h_flank - spec.teeth * math.sin(alpha) ** 2 / 2
+
+
+def check_wheel(spec: ToothSpec, subject: str) -> list[Finding]:
+    """Checks on one wheel's teeth alone: undercut and pointed tips (involute only).
+
+    ``subject`` names the wheel in the findings (``"wheel w3"``).
+    """
+    if spec.form != "involute":
+        return []
+    out: list[Finding] = []
+    gen = generate_tooth(spec)
+    m = spec.module
+    if gen.undercut:
+        x_min = math.ceil(_shift_to_avoid_undercut(spec) * 20 - 1e-9) / 20
+        out.append(
+            Finding(
+                "warning",
+                "wheel.undercut",
+                subject,
+                f"{subject}: the cutter undercuts the {spec.teeth} teeth at the root, "
+                "which weakens them and shortens the working flank",
+                measured=f"form circle {_mm(2 * gen.form_radius)} dia., "
+                f"base circle {_mm(2 * gen.base_radius)}",
+                limit=f"no undercut below {x_min:+.2f} shift",
+                advice=f"set shift = {x_min:.2f} or more on {subject.split()[-1]} "
+                "(and less on its mate), or use more teeth",
+            )
+        )
+    if gen.pointed:
+        out.append(
+            Finding(
+                "error",
+                "wheel.pointed_tip",
+                subject,
+                f"{subject}: the flanks meet below the tip circle, the teeth end in a "
+                "point",
+                measured="tip thickness 0 mm",
+                limit=_mm(MIN_TIP_THICKNESS * m),
+                advice="reduce the shift or the addendum of this wheel",
+            )
+        )
+    else:
+        s_a = 2 * gen.tip_radius * gen.half_angle_at(gen.tip_radius)
+        if s_a < MIN_TIP_THICKNESS * m:
+            out.append(
+                Finding(
+                    "warning",
+                    "wheel.pointed_tip",
+                    subject,
+                    f"{subject}: the teeth are nearly pointed at the tip",
+                    measured=f"tip thickness {_mm(s_a)}",
+                    limit=f"{_mm(MIN_TIP_THICKNESS * m)} "
+                    f"({MIN_TIP_THICKNESS} x module)",
+                    advice="reduce the shift or the addendum of this wheel",
+                )
+            )
+    return out
+
+
+def _process_value(
+    process: Process | None, name: str, table: Mapping[str, float]
+) -> float:
+    kind = "mill" if process is None else process.kind
+    default = table.get(kind, table["mill"])
+    value = getattr(process, name, None) if process is not None else None
+    return float(default if value is None else value)
+
+
+def _mismatch(spec1: ToothSpec, spec2: ToothSpec, subject: str) -> list[Finding]:
+    problems = []
+    if spec1.form != spec2.form:
+        problems.append(("tooth forms", spec1.form, spec2.form))
+    if not math.isclose(spec1.module, spec2.module, rel_tol=1e-12):
+        problems.append(("modules", f"{spec1.module:g} mm", f"{spec2.module:g} mm"))
+    if spec1.form == spec2.form == "involute" and not math.isclose(
+        spec1.pressure_angle_deg, spec2.pressure_angle_deg, rel_tol=1e-12
+    ):
+        problems.append(
+            (
+                "pressure angles",
+                f"{spec1.pressure_angle_deg:g} deg",
+                f"{spec2.pressure_angle_deg:g} deg",
+            )
+        )
+    if spec1.form == spec2.form == "triangular" and not math.isclose(
+        spec1.tooth_angle_deg, spec2.tooth_angle_deg, rel_tol=1e-12
+    ):
+        problems.append(
+            (
+                "tooth angles",
+                f"{spec1.tooth_angle_deg:g} deg",
+                f"{spec2.tooth_angle_deg:g} deg",
+            )
+        )
+    return [
+        Finding(
+            "error",
+            "mesh.mismatch",
+            subject,
+            f"{subject}: the two wheels have different {what}; their teeth cannot mesh",
+            measured=f"{one} and {two}",
+            limit="equal",
+            advice=f"give both wheels the same {what[:-1]}",
+        )
+        for what, one, two in problems
+    ]
+
+
+def check_mesh(
+    spec1: ToothSpec,
+    spec2: ToothSpec,
+    subject: str,
+    *,
+    centre_distance: float | None = None,
+    process: Process | None = None,
+    simulate: bool = True,
+    outlines: tuple[WheelOutline, WheelOutline] | None = None,
+    names: tuple[str, str] = ("wheel 1", "wheel 2"),
+) -> list[Finding]:
+    """Checks on one external pair; wheel 1 drives.
+
+    Parameters
+    ----------
+    spec1, spec2
+        The two wheels' teeth (``thinning`` included).
+    subject
+        Names the pair in the findings, ``"mesh w1-w2"``.
+    centre_distance
+        Where the axes actually are (mm); ``None`` means at the working centre distance,
+        and the centre-distance check is skipped.
+    process
+        Sets the backlash and centre-distance limits (``[process]`` keys
+        ``min_backlash`` and ``centre_tolerance``, mm).
+    simulate
+        Also turn the outlines through a pitch (jamming, transmission error).
+    outlines
+        The two outlines if already built (else made from the specs).
+    names
+        The two wheels' names, used in the messages.
+    """
+    out = _mismatch(spec1, spec2, subject)
+    if out:
+        return out
+    n1, n2 = names
+    m = spec1.module
+    if spec1.form == "involute":
+        try:
+            data = involute_mesh(spec1, spec2, centre_distance)
+        except ValueError as exc:
+            # only a centre distance inside the base circles gets here
+            out.append(
+                Finding(
+                    "error",
+                    "mesh.centre_distance",
+                    subject,
+                    f"{subject}: the axes are far too close, the wheels overlap: {exc}",
+                    measured=_mm(float(centre_distance or 0.0), 4),
+                    advice="place the arbors at the working centre distance",
+                )
+            )
+            return out
+        a = data.centre_distance
+        out += _involute_findings(
+            data, spec1, spec2, subject, (n1, n2), process, centre_distance
+        )
+    else:
+        # triangular teeth: the pitch circles roll on each other
+        a_w = m * (spec1.teeth + spec2.teeth) / 2
+        a = a_w if centre_distance is None else float(centre_distance)
+        if centre_distance is not None:
+            out += _centre_distance(a, a_w, None, subject, process)
+    if spec1.form == "involute" and not simulate:
+        return out
+    o1, o2 = (
+        outlines if outlines is not None else (outline_for(spec1), outline_for(spec2))
+    )
+    if spec1.form != "involute":
+        out += _clearance_from_outlines(o1, o2, a, subject, (n1, n2), m)
+        if not simulate:
+            return out
+    sim = simulate_mesh(o1, o2, a, steps=CHECK_STEPS)
+    out += _simulation_findings(sim, spec1, spec2, subject, o2, process)
+    return out
+
+
+def _centre_distance(
+    a: float, a_w: float, backlash: float | None, subject: str, process: Process | None
+) -> list[Finding]:
+    tol = _process_value(process, "centre_tolerance", CENTRE_TOLERANCE)
+    dev = a - a_w
+    if backlash is not None and backlash < 0:
+        return [
+            Finding(
+                "error",
+                "mesh.centre_distance",
+                subject,
+                f"{subject}: the axes are {_mm(-dev)} too close; the teeth bind",
+                measured=_mm(a, 4),
+                limit=f"{_mm(a_w, 4)} (working centre distance)",
+                advice=f"place the arbors {_mm(a_w, 4)} apart",
+            )
+        ]
+    if abs(dev) > tol:
+        side = "far apart" if dev > 0 else "close"
+        return [
+            Finding(
+                "warning",
+                "mesh.centre_distance",
+                subject,
+                f"{subject}: the axes are {_mm(abs(dev))} too {side} for these teeth",
+                measured=_mm(a, 4),
+                limit=f"{_mm(a_w, 4)} +- {_mm(tol)}",
+                advice=f"place the arbors {_mm(a_w, 4)} apart, or change the shifts",
+            )
+        ]
+    return []
+
+
+def _involute_findings(
+    data: InvoluteMesh,
+    spec1: ToothSpec,
+    spec2: ToothSpec,
+    subject: str,
+    names: tuple[str, str],
+    process: Process | None,
+    centre_distance: float | None,
+) -> list[Finding]:
+    out: list[Finding] = []
+    m = spec1.module
+    if centre_distance is not None:
+        out += _centre_distance(
+            data.centre_distance,
+            data.working_centre_distance,
+            data.backlash,
+            subject,
+            process,
+        )
+    eps, eff = data.contact_ratio, data.contact_ratio_effective
+    if eff < CONTACT_RATIO_WARNING:
+        level: Level = "error" if eff < CONTACT_RATIO_ERROR else "warning"
+        what = (
+            "one pair of teeth lets go before the next takes over"
+            if level == "error"
+            else "the next pair of teeth takes over late; running will be rough"
+        )
+        lost = (
+            ""
+            if eff >= eps - 1e-9
+            else f" (of {eps:.3f} by the tip circles, the rest falls on undercut flank)"
+        )
+        out.append(
+            Finding(
+                level,
+                "mesh.contact_ratio",
+                subject,
+                f"{subject}: contact ratio {eff:.3f}{lost}: {what}",
+                measured=f"{eff:.3f}",
+                limit=f"{CONTACT_RATIO_WARNING} (warning), "
+                f"{CONTACT_RATIO_ERROR} (error)",
+                advice="use more teeth at a smaller module, shift the smaller wheel "
+                "positively, or bring the axes to the working centre distance",
+            )
+        )
+    for tip, root, c in (
+        (names[0], names[1], data.clearance_1),
+        (names[1], names[0], data.clearance_2),
+    ):
+        if c < MIN_CLEARANCE * m:
+            level = "error" if c <= 0 else "warning"
+            out.append(
+                Finding(
+                    level,
+                    "mesh.clearance",
+                    subject,
+                    _clearance_message(subject, tip, root, c),
+                    measured=_mm(c),
+                    limit=f"{_mm(MIN_CLEARANCE * m)} ({MIN_CLEARANCE} x module)",
+                    advice=f"reduce the addendum of {tip}, deepen {root} "
+                    "(dedendum), or move the axes apart",
+                )
+            )
+    sides = (
+        (names[1], names[0], data.reach_1, data.start_radius_1, data.form_radius_1),
+        (names[0], names[1], data.reach_2, data.start_radius_2, data.form_radius_2),
+    )
+    # Generated teeth are undercut exactly where a mate's tip would interfere, so the
+    # flanks do not collide there (Shigley's Mechanical Engineering Design, gears
+    # chapter, "interference": undercutting removes the interfering flank [M]); the
+    # contact is lost instead and the flank is weakened. The simulator says whether the
+    # pair actually binds (mesh.jam).
+    for tip, flank, reach, start, form in sides:
+        if reach < 0:
+            out.append(
+                Finding(
+                    "warning",
+                    "mesh.interference",
+                    subject,
+                    f"{subject}: the tips of {tip} reach past the interference point "
+                    f"of {flank}, below its base circle; only its undercut makes room "
+                    "for them",
+                    measured=f"{_mm(-reach)} past it along the line of action",
+                    limit="0 mm",
+                    advice=f"shift {flank} positively (and {tip} negatively), "
+                    f"shorten the tips of {tip}, or give {flank} more teeth",
+                )
+            )
+        elif start < form - 1e-6 * m:
+            out.append(
+                Finding(
+                    "warning",
+                    "mesh.interference",
+                    subject,
+                    f"{subject}: the tips of {tip} reach below the involute of {flank} "
+                    "(into its root fillet region); contact is lost there",
+                    measured=f"contact down to {_mm(2 * start)} dia.",
+                    limit=f"form circle {_mm(2 * form)} dia.",
+                    advice=f"shift {flank} positively, or shorten the tips of {tip}",
+                )
+            )
+    need = _process_value(process, "min_backlash", MIN_BACKLASH)
+    if 0 <= data.backlash < need:
+        kind = "mill" if process is None else process.kind
+        out.append(
+            Finding(
+                "warning",
+                "mesh.backlash",
+                subject,
+                f"{subject}: {_mm(data.backlash)} backlash is less than the {kind} "
+                "process holds; the pair may bind",
+                measured=_mm(data.backlash),
+                limit=_mm(need),
+                advice=f"set backlash = {need:g} or more on both wheels",
+            )
+        )
+    return out
+
+
+def _clearance_message(subject: str, tip: str, root: str, c: float) -> str:
+    if c <= 0:
+        return f"{subject}: the tips of {tip} reach {_mm(-c)} into the root of {root}"
+    return f"{subject}: the tips of {tip} come within {_mm(c)} of the root of {root}"
+
+
+def _clearance_from_outlines(
+    o1: WheelOutline,
+    o2: WheelOutline,
+    a: float,
+    subject: str,
+    names: tuple[str, str],
+    m: float,
+) -> list[Finding]:
+    out = []
+    pairs = ((names[0], names[1], o1, o2), (names[1], names[0], o2, o1))
+    for tip, root, ot, orr in pairs:
+        if "tip" not in ot.radii or "root" not in orr.radii:
+            continue
+        c = a - ot.radii["tip"] - orr.radii["root"]
+        if c < MIN_CLEARANCE * m:
+            out.append(
+                Finding(
+                    "error" if c <= 0 else "warning",
+                    "mesh.clearance",
+                    subject,
+                    _clearance_message(subject, tip, root, c),
+                    measured=_mm(c),
+                    limit=f"{_mm(MIN_CLEARANCE * m)} ({MIN_CLEARANCE} x module)",
+                    advice=f"shorten the teeth of {tip} or deepen {root}",
+                )
+            )
+    return out
+
+
+def _simulation_findings(
+    sim: MeshSimulation,
+    spec1: ToothSpec,
+    spec2: ToothSpec,
+    subject: str,
+    driven: WheelOutline,
+    process: Process | None,
+) -> list[Finding]:
+    out: list[Finding] = []
+    if sim.jams:
+        out.append(
+            Finding(
+                "error",
+                "mesh.jam",
+                subject,
+                f"{subject}: turned through a tooth pitch, the outlines overlap: "
+                "the pair jams",
+                measured=f"play {sim.min_play_deg:.4f} deg at the driven wheel",
+                limit="0 deg",
+                advice="move the axes apart or thin the teeth (backlash)",
+            )
+        )
+        return out
+    if sim.contact_lost:
+        out.append(
+            Finding(
+                "error",
+                "mesh.contact_ratio",
+                subject,
+                f"{subject}: turned through a tooth pitch, at some positions no tooth "
+                "drives: the driven wheel runs free",
+                measured="contact lost",
+                limit="a tooth in contact at every position",
+                advice="bring the axes closer or use longer teeth",
+            )
+        )
+        return out
+    te = sim.te_peak_to_peak_deg
+    pitch2 = 360.0 / spec2.teeth
+    if spec1.form == "involute":
+        if te > INVOLUTE_TE_LIMIT_DEG:
+            out.append(
+                Finding(
+                    "warning",
+                    "mesh.transmission_error",
+                    subject,
+                    f"{subject}: the driven wheel lags and leads by {te:.4f} deg "
+                    "within a tooth; the involute flanks are not working as involutes "
+                    "(tip or root contact)",
+                    measured=f"{te:.4f} deg peak to peak",
+                    limit=f"{INVOLUTE_TE_LIMIT_DEG} deg",
+                    advice="see the interference and contact-ratio findings for "
+                    "this mesh",
+                )
+            )
+    else:
+        limit = 0.1 * pitch2  # common practice, no source: a tenth of a tooth pitch
+        level: Level = "warning" if te > limit else "note"
+        out.append(
+            Finding(
+                level,
+                "mesh.transmission_error",
+                subject,
+                f"{subject}: triangular teeth turn the driven wheel unevenly by "
+                f"{te:.3f} deg within each tooth, {sim.backlash_deg:.3f} deg of play",
+                measured=f"{te:.3f} deg peak to peak",
+                limit=f"{limit:.3f} deg (a tenth of the driven pitch)",
+                advice="" if level == "note" else "use more teeth or involute teeth",
+            )
+        )
+    return out
+
+
+def design_mesh_checks(
+    design: Design,
+    positions: Mapping[str, tuple[float, float]] | None = None,
+    *,
+    simulate: bool = True,
+) -> list[Finding]:
+    """Wheel and mesh checks over a whole design.
+
+    Parameters
+    ----------
+    design
+        The loaded design.
+    positions
+        Arbor positions ``{arbor_name: (x, y)}`` in mm, from the layout; where both
+        arbors of a mesh have one, the centre distance is checked. ``None``: only the
+        arbors the design places itself (``at``, not carried) are used.
+    simulate
+        Also run the outline simulator on every mesh.
+    """
+    findings: list[Finding] = []
+    specs: dict[str, ToothSpec] = {}
+    outlines: dict[str, WheelOutline] = {}
+    for wheel in design.wheels:
+        subject = f"wheel {wheel.name}"
+        try:
+            spec = wheel_spec(wheel)
+            # generating the outline is where impossible tooth forms show up
+            outlines[wheel.name] = outline_for(spec)
+            findings += check_wheel(spec, subject)
+        except ValueError as exc:
+            findings.append(_unmakeable(subject, exc))
+            continue
+        specs[wheel.name] = spec
+    if positions is None:
+        positions = {
+            a.name: a.at
+            for a in design.arbors
+            if a.at is not None and a.carrier is None
+        }
+    for mesh in design.meshes:
+        w1, w2 = design.wheel(mesh.pair[0]), design.wheel(mesh.pair[1])
+        if w1.name not in specs or w2.name not in specs:
+            continue  # already reported: a wheel whose teeth cannot be made
+        a = _placed_distance(design, w1, w2, positions, mesh.bearing_deg)
+        pair_outlines = (outlines[w1.name], outlines[w2.name])
+        findings += check_mesh(
+            specs[w1.name],
+            specs[w2.name],
+            mesh.label,
+            centre_distance=a,
+            process=design.process,
+            simulate=simulate,
+            outlines=pair_outlines,
+            names=(w1.name, w2.name),
+        )
+    return findings
+
+
+def _unmakeable(subject: str, exc: ValueError) -> Finding:
+    return Finding(
+        "error",
+        "wheel.teeth",
+        subject,
+        f"{subject}: these teeth cannot be made: {exc}",
+        advice="change the tooth settings of this wheel",
+    )
+
+
+def _frame_position(
+    design: Design, arbor_name: str, positions: Mapping[str, tuple[float, float]]
+) -> tuple[str, tuple[float, float]] | None:
+    """The frame an arbor's axis is known in (``""``: the plate, else a carrier wheel's
+    name) and its position there (mm); sleeves sit on the axis they surround."""
+    seen: set[str] = set()
+    arbor = design.arbor(arbor_name)
+    while arbor.name not in seen:
+        seen.add(arbor.name)
+        if arbor.carrier is not None and arbor.at is not None:
+            return arbor.carrier, arbor.at
+        if arbor.name in positions:
+            return "", positions[arbor.name]
+        if arbor.around is None:
+            return None
+        arbor = design.arbor(arbor.around)
+    return None
+
+
+def _placed_distance(
+    design: Design,
+    w1: Wheel,
+    w2: Wheel,
+    positions: Mapping[str, tuple[float, float]],
+    bearing_deg: float | None,
+) -> float | None:
+    # a mesh with a bearing places its second arbor from the first: nothing to check
+    if bearing_deg is not None:
+        return None
+    f1 = _frame_position(design, w1.arbor, positions)
+    f2 = _frame_position(design, w2.arbor, positions)
+    # an arbor on the axis of a carrier wheel sits at the origin of the carrier's frame
+    for this, other, wheel in ((f1, f2, w2), (f2, f1, w1)):
+        if this is not None and this[0] and (other is None or other[0] != this[0]):
+            carrier = design.wheel(this[0])
+            if _same_axis(design, carrier.arbor, wheel.arbor):
+                p = this[1]
+                return math.hypot(p[0], p[1])
+    if f1 is None or f2 is None or f1[0] != f2[0]:
+        return None
+    (x1, y1), (x2, y2) = f1[1], f2[1]
+    return math.hypot(x2 - x1, y2 - y1)
+
+
+def _axis(design: Design, name: str) -> str:
+    seen: set[str] = set()
+    arbor = design.arbor(name)
+    while arbor.around is not None and arbor.name not in seen:
+        seen.add(arbor.name)
+        arbor = design.arbor(arbor.around)
+    return arbor.name
+
+
+def _same_axis(design: Design, a: str, b: str) -> bool:
+    return _axis(design, a) == _axis(design, b)

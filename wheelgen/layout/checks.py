@@ -1,0 +1,234 @@
+"""Layout checks for the shared findings list of ``wheelgen check`` and the build.
+
+``layout_findings(design, analysis)`` is a design check in the sense of
+:mod:`wheelgen.checks.engine`. Check ids start with ``layout.``. Lengths in mm.
+"""
+
+from __future__ import annotations
+
+from typing import Any
+
+from ..checks.findings import Finding
+from ..design.model import Design
+from .collisions import Clash, find_clashes
+from .placement import LOOP_TOLERANCE
+from .plan import Layout, plan_layout
+from .stacking import wheel_extent
+
+__all__ = ["FACE_OVERLAP_MIN", "findings_for_layout", "layout_findings"]
+
+#: Meshing faces must overlap axially by at least this share of the narrower face
+#: (common practice, no source).
+FACE_OVERLAP_MIN = 0.8
+
+
+def _mm(x: float) -> str:
+    return f"{x:.3f} mm"
+
+
+def layout_findings(design: Design, analysis: Any) -> list[Finding]:
+    """Every layout finding of ``design``; ``analysis`` gives the exact rates.
+
+    ``analysis`` is a :class:`wheelgen.checks.engine.Analysis` (only ``solution.rates``
+    is read; ``None`` treats every arbor as turning).
+    """
+    try:
+        layout = plan_layout(design)
+    except ValueError as exc:
+        return [
+            Finding(
+                "error", "layout.failed", f"design {design.name}", f"no layout: {exc}"
+            )
+        ]
+    rates = dict(analysis.solution.rates) if analysis is not None else {}
+    return findings_for_layout(layout, rates)
+
+
+def findings_for_layout(layout: Layout, rates: dict[str, Any]) -> list[Finding]:
+    """The findings of an already computed layout (see :func:`layout_findings`)."""
+    design = layout.design
+    out: list[Finding] = []
+    for mm in layout.placing.mismatches:
+        out.append(
+            Finding(
+                "error",
+                "layout.loop",
+                f"arbor {mm.axis}",
+                f'two routes place arbor "{mm.axis}" {_mm(mm.distance)} apart: at '
+                f"({mm.first[0]:.3f}, {mm.first[1]:.3f}) through {' > '.join(mm.first_route)}"
+                f", and at ({mm.second[0]:.3f}, {mm.second[1]:.3f}) through "
+                f"{' > '.join(mm.second_route)}",
+                _mm(mm.distance),
+                _mm(LOOP_TOLERANCE),
+                "leave the 'bearing' out of one mesh in the loop (its distance is then"
+                " checked), or change 'at', a bearing or the tooth counts so the loop closes",
+            )
+        )
+    for h in layout.stacking.hidden:
+        out.append(
+            Finding(
+                "error",
+                "layout.hidden_seat",
+                f"wheel {h.wheel}",
+                f'the seat of wheel "{h.wheel}" on "{h.member}" lies {_mm(h.overlap)} under'
+                f' the tube "{h.tube}" around it',
+                _mm(h.overlap),
+                "0 mm",
+                f'move wheel "{h.wheel}" (height) clear of the wheels on "{h.tube}" and'
+                " the tubes around it",
+            )
+        )
+    for s in layout.sizes.values():
+        if s.wall < s.wall_minimum - 1e-9:
+            out.append(
+                Finding(
+                    "error",
+                    "layout.sleeve_wall",
+                    f"sleeve {s.name}",
+                    f'the wall of sleeve "{s.name}" ({s.outside:g} x {s.inside:.3f} mm) is'
+                    f" {_mm(s.wall)} at its thinnest",
+                    _mm(s.wall),
+                    _mm(s.wall_minimum),
+                    "a tube with a thicker wall, or a round seat instead of a square or hex",
+                )
+            )
+        if s.stock is not None:
+            out.append(
+                Finding(
+                    "note",
+                    "layout.stock",
+                    f"sleeve {s.name}",
+                    f'sleeve "{s.name}" is cut from stock tube {s.stock.outside:g} x'
+                    f" {s.stock.inside:g} mm (bore on {s.bore.shaft:g} mm, {s.bore.fit})",
+                )
+            )
+        elif s.stock_refused:
+            out.append(
+                Finding(
+                    "note",
+                    "layout.stock",
+                    f"sleeve {s.name}",
+                    f'no stock tube fits sleeve "{s.name}": it is made {s.outside:g} x'
+                    f" {s.inside:.3f} mm",
+                    limit=f"bore {s.bore.low:.3f} to {s.bore.high:.3f} mm",
+                    advice="add a [[stock]] tube of that size, or make the tube",
+                )
+            )
+    for arbor, other, d in layout.stacking.one_plate:
+        out.append(
+            Finding(
+                "note",
+                "layout.one_plate",
+                f"arbor {arbor}",
+                f'arbor "{arbor}" is held by one plate only: its axis is {_mm(d)} from'
+                f' arbor "{other}", so the two cannot both run plate to plate',
+            )
+        )
+    out.extend(_clash_findings(find_clashes(layout, rates)))
+    out.extend(_face_findings(design))
+    out.extend(_plate_findings(design))
+    out.extend(_bore_findings(layout))
+    return out
+
+
+def _clash_findings(clashes: list[Clash]) -> list[Finding]:
+    worst: dict[tuple[str, str], Clash] = {}
+    for c in clashes:
+        a, b = c.first, c.second
+        key_a = f"wheel {a.wheel}" if a.wheel else a.label
+        key_b = f"wheel {b.wheel}" if b.wheel else b.label
+        key = (key_a, key_b) if key_a <= key_b else (key_b, key_a)
+        if key not in worst or c.depth > worst[key].depth:
+            worst[key] = c
+    out = []
+    for (ka, kb), c in worst.items():
+        a, b = c.first, c.second
+        both_wheels = a.wheel is not None and b.wheel is not None
+        check = "layout.wheel_collision" if both_wheels else "layout.cuts_arbor"
+        if a.wheel is None and b.wheel is None:
+            check = "layout.arbor_collision"
+        out.append(
+            Finding(
+                "error",
+                check,
+                f"{ka} / {kb}",
+                f"{a.label} and {b.label} overlap by {_mm(c.depth)} between heights"
+                f" {c.z0:g} and {c.z1:g} mm",
+                _mm(c.depth),
+                "0 mm",
+                "move one of them axially (height) or move the axes apart",
+            )
+        )
+    return out
+
+
+def _face_findings(design: Design) -> list[Finding]:
+    out = []
+    for m in design.meshes:
+        a, b = (design.wheel(n) for n in m.pair)
+        overlap = min(a.height + a.face_width, b.height + b.face_width) - max(
+            a.height, b.height
+        )
+        narrow = min(a.face_width, b.face_width)
+        share = max(overlap, 0.0) / narrow
+        if share >= FACE_OVERLAP_MIN - 1e-9:
+            continue
+        level = "error" if overlap <= 0 else "warning"
+        out.append(
+            Finding(
+                level,
+                "layout.face_overlap",
+                f"mesh {a.name}-{b.name}",
+                f'the faces of "{a.name}" (height {a.height:g}) and "{b.name}" (height'
+                f" {b.height:g}) overlap by {_mm(max(overlap, 0.0))}, {share:.0%} of the"
+                f" narrower face",
+                f"{share:.0%}",
+                f"{FACE_OVERLAP_MIN:.0%}",
+                "give both wheels the same height",
+            )
+        )
+    return out
+
+
+def _plate_findings(design: Design) -> list[Finding]:
+    if design.frame is None:
+        return []
+    back, front = design.frame.plates
+    out = []
+    for w in design.wheels:
+        z0, z1 = wheel_extent(design, w.name)
+        if z0 < back - 1e-9 or z1 > front + 1e-9:
+            out.append(
+                Finding(
+                    "error",
+                    "layout.outside_plates",
+                    f"wheel {w.name}",
+                    f'wheel "{w.name}" spans heights {z0:g} to {z1:g} mm, outside the'
+                    f" plates' inner faces at {back:g} and {front:g} mm",
+                    f"{z0:g} to {z1:g} mm",
+                    f"{back:g} to {front:g} mm",
+                    "change its height (or the frame's plates)",
+                )
+            )
+    return out
+
+
+def _bore_findings(layout: Layout) -> list[Finding]:
+    design = layout.design
+    out = []
+    for w in design.wheels:
+        seat = layout.outside(w.arbor)
+        if w.bore is not None and w.bore < seat - 1e-9:
+            out.append(
+                Finding(
+                    "error",
+                    "layout.bore",
+                    f"wheel {w.name}",
+                    f'wheel "{w.name}" asks for a {w.bore:g} mm bore but "{w.arbor}" is'
+                    f" {seat:g} mm across where it sits",
+                    _mm(w.bore),
+                    f">= {_mm(seat)}",
+                    "leave 'bore' out (the seat's size is then used)",
+                )
+            )
+    return out

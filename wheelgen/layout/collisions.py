@@ -1,0 +1,301 @@
+"""Interference between wheels, arbors and sleeves on different axes (mm).
+
+Every wheel, hub, arbor, sleeve and collar is a *body*: a z-range and a round or toothed
+section. Two bodies on different axes whose z-ranges overlap are compared in the plane:
+
+- first by their circles (a wheel's nominal tip circle, a shaft's outside);
+- where those overlap, by the exact tooth outline (:func:`wheelgen.teeth.spec.outline_for`):
+  a wheel that turns relative to the other body sweeps the disc of its outline's largest
+  radius; a wheel that stands still relative to it (both fixed, say) keeps its exact
+  outline, at the angle it is placed at (0).
+- a carried axis circles its carrier's axis: against anything not turning with the
+  carrier, the nearest approach of that circle counts.
+
+Meshing pairs are left out (their teeth interlock by design), as are a carried arbor and
+the wheel that carries it, and members of one coaxial group (see hidden seats).
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+from fractions import Fraction
+from functools import lru_cache
+
+import numpy as np
+
+from ..design.model import Design
+from ..kinematics.rates import axis_root
+from ..teeth.spec import ToothSpec, outline_for
+from .placement import tooth_spec
+from .plan import Layout
+
+__all__ = [
+    "CONTACT_TOLERANCE",
+    "Body",
+    "Clash",
+    "bodies",
+    "find_clashes",
+    "nominal_tip_radius",
+    "outline_radius",
+]
+
+#: mm: overlaps below this are numerical noise, not interference.
+CONTACT_TOLERANCE = 1e-6
+
+
+@dataclass(frozen=True, slots=True)
+class Body:
+    """A solid of revolution or a toothed slab on one axis, ``z0`` to ``z1`` (mm)."""
+
+    label: str  # "wheel w1", "hub of wheel w1", "arbor main", "collar of stud"
+    kind: str  # "teeth" | "round"
+    member: str  # arbor or sleeve it belongs to
+    axis: str  # axis root
+    z0: float
+    z1: float
+    radius: float  # tip circle (teeth) or outside radius (round)
+    wheel: str | None = None  # the wheel a teeth or hub body belongs to
+
+
+@dataclass(frozen=True, slots=True)
+class Clash:
+    """Two bodies that overlap by ``depth`` mm in the plane, between ``z0`` and ``z1``."""
+
+    first: Body
+    second: Body
+    depth: float
+    z0: float
+    z1: float
+
+
+def nominal_tip_radius(spec: ToothSpec) -> float:
+    """Tip radius (mm) before any tip shortening: ``m (z/2 + h_a + x)``.
+
+    ISO 21771:2007, tip diameter ``d_a = d + 2 m (h_aP* + x)`` with no tip shortening;
+    triangular teeth have no profile shift.
+    """
+    shift = spec.shift if spec.form == "involute" else 0.0
+    return spec.module * (spec.teeth / 2.0 + spec.addendum + shift)
+
+
+@lru_cache(maxsize=256)
+def _polyline(spec: ToothSpec) -> np.ndarray:
+    return outline_for(spec).polyline(0.002)
+
+
+def outline_radius(spec: ToothSpec) -> float:
+    """Largest radius (mm) of the generated outline: the disc a turning wheel sweeps."""
+    return float(np.max(np.hypot(*_polyline(spec).T)))
+
+
+def bodies(layout: Layout) -> list[Body]:
+    """Every body of the layout, in the fixed frame with carriers at angle 0."""
+    design = layout.design
+    out: list[Body] = []
+    for w in design.wheels:
+        if layout.position(w.arbor) is None:
+            continue
+        root = axis_root(design, w.arbor)
+        spec = tooth_spec(w)
+        top = w.height + w.face_width
+        out.append(
+            Body(
+                f"wheel {w.name}", "teeth", w.arbor, root, w.height, top,
+                nominal_tip_radius(spec), w.name,
+            )
+        )  # fmt: skip
+        if w.hub_diameter > 0 and w.hub_length > 0:
+            out.append(
+                Body(
+                    f"hub of wheel {w.name}", "round", w.arbor, root, top,
+                    top + w.hub_length, w.hub_diameter / 2, w.name,
+                )
+            )  # fmt: skip
+    for name, span in layout.stacking.spans.items():
+        if layout.position(name) is None or span.length <= 0:
+            continue
+        root = axis_root(design, name)
+        kind = "sleeve" if span.kind == "sleeve" else "arbor"
+        out.append(
+            Body(
+                f"{kind} {name}",
+                "round",
+                name,
+                root,
+                span.z0,
+                span.z1,
+                layout.outside(name) / 2,
+            )
+        )
+        for z0, z1, d in span.collars:
+            out.append(Body(f"collar of {name}", "round", name, root, z0, z1, d / 2))
+    return out
+
+
+def _frame(design: Design, root: str) -> str | None:
+    carrier = design.arbor(root).carrier
+    return None if carrier is None else design.wheel(carrier).arbor
+
+
+def _rate(rates: dict[str, Fraction | None], member: str | None) -> Fraction | None:
+    return Fraction(0) if member is None else rates.get(member)
+
+
+def _skip(design: Design, a: Body, b: Body, meshes: set[frozenset[str]]) -> bool:
+    if a.axis == b.axis:
+        return True
+    if a.wheel and b.wheel and frozenset((a.wheel, b.wheel)) in meshes:
+        return True
+    for x, y in ((a, b), (b, a)):
+        # a carried arbor turns in the wheel (and hub) that carries it
+        carrier = design.arbor(y.axis).carrier
+        if x.wheel is not None and carrier == x.wheel and y.wheel is None:
+            return True
+    return False
+
+
+def _signed_distance(point: np.ndarray, poly: np.ndarray) -> float:
+    """Distance (mm) from ``point`` to the closed polygon ``poly``; negative inside."""
+    a = poly
+    b = np.roll(poly, -1, axis=0)
+    ab = b - a
+    ap = point - a
+    t = np.clip(
+        np.einsum("ij,ij->i", ap, ab)
+        / np.maximum(np.einsum("ij,ij->i", ab, ab), 1e-300),
+        0,
+        1,
+    )
+    d = float(np.min(np.hypot(*(ap - t[:, None] * ab).T)))
+    # even-odd rule, ray towards +X
+    cross = (a[:, 1] > point[1]) != (b[:, 1] > point[1])
+    with np.errstate(divide="ignore", invalid="ignore"):
+        xs = a[:, 0] + (point[1] - a[:, 1]) * ab[:, 0] / ab[:, 1]
+    inside = int(np.count_nonzero(cross & (xs > point[0]))) % 2 == 1
+    return -d if inside else d
+
+
+def _inside(points: np.ndarray, poly: np.ndarray) -> np.ndarray:
+    a = poly
+    b = np.roll(poly, -1, axis=0)
+    px, py = points[:, 0][:, None], points[:, 1][:, None]
+    cross = (a[:, 1] > py) != (b[:, 1] > py)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        xs = a[:, 0] + (py - a[:, 1]) * (b[:, 0] - a[:, 0]) / (b[:, 1] - a[:, 1])
+    return (np.count_nonzero(cross & (xs > px), axis=1) % 2) == 1
+
+
+def _polygon_depth(pa: np.ndarray, pb: np.ndarray) -> float:
+    """Largest depth (mm) of a vertex of one polygon inside the other; <= 0 if apart."""
+    depth = -math.inf
+    for p, q in ((pa, pb), (pb, pa)):
+        inside = p[_inside(p, q)]
+        for pt in inside[:: max(1, len(inside) // 400)]:
+            depth = max(depth, -_signed_distance(pt, q))
+    if depth == -math.inf:
+        # apart: minus the smallest gap, from a thinned set of vertices
+        depth = -min(_signed_distance(pt, pb) for pt in pa[:: max(1, len(pa) // 200)])
+    return depth
+
+
+def find_clashes(layout: Layout, rates: dict[str, Fraction | None]) -> list[Clash]:
+    """Every pair of bodies on different axes that overlap (mm); ``rates`` per arbor."""
+    design = layout.design
+    meshes = {frozenset(m.pair) for m in design.meshes}
+    items = bodies(layout)
+    clashes: list[Clash] = []
+    for i, a in enumerate(items):
+        for b in items[i + 1 :]:
+            z0, z1 = max(a.z0, b.z0), min(a.z1, b.z1)
+            if z1 - z0 <= CONTACT_TOLERANCE or _skip(design, a, b, meshes):
+                continue
+            depth = _depth(layout, rates, a, b)
+            if depth > CONTACT_TOLERANCE:
+                clashes.append(Clash(a, b, depth, z0, z1))
+    return clashes
+
+
+def _depth(
+    layout: Layout, rates: dict[str, Fraction | None], a: Body, b: Body
+) -> float:
+    design = layout.design
+    pa = np.array(layout.placing.positions[a.axis])
+    pb = np.array(layout.placing.positions[b.axis])
+    fa, fb = _frame(design, a.axis), _frame(design, b.axis)
+    fixed_distance = True
+    if (
+        fa == fb
+        or fa is not None
+        and axis_root(design, fa) == b.axis
+        or fb is not None
+        and axis_root(design, fb) == a.axis
+    ):
+        d = float(np.hypot(*(pa - pb)))
+    else:
+        fixed_distance = False
+        d = _nearest_approach(layout, a.axis, b.axis)
+    if a.radius + b.radius - d <= CONTACT_TOLERANCE:
+        return a.radius + b.radius - d
+    ra = _swept(design, a)
+    rb = _swept(design, b)
+    if ra + rb - d <= CONTACT_TOLERANCE or not fixed_distance:
+        return ra + rb - d
+    # same relative position all the time: a body standing still relative to the
+    # other keeps its exact outline
+    frame = fa if fa == fb else (fa if fa is not None else fb)
+    frame_rate = _rate(rates, frame)
+    still_a = _still(a, rates, frame_rate)
+    still_b = _still(b, rates, frame_rate)
+    if still_a and still_b:
+        return _polygon_depth(_polyline(tooth_spec(design.wheel(a.wheel))) + pa,
+                              _polyline(tooth_spec(design.wheel(b.wheel))) + pb)  # fmt: skip
+    if still_a:
+        poly = _polyline(tooth_spec(design.wheel(a.wheel))) + pa
+        return rb - _signed_distance(pb, poly)
+    if still_b:
+        poly = _polyline(tooth_spec(design.wheel(b.wheel))) + pb
+        return ra - _signed_distance(pa, poly)
+    return ra + rb - d
+
+
+def _swept(design: Design, body: Body) -> float:
+    """Radius (mm) of the disc a body sweeps when it turns: its outline's largest."""
+    if body.kind != "teeth" or body.wheel is None:
+        return body.radius
+    try:
+        return outline_radius(tooth_spec(design.wheel(body.wheel)))
+    except (ImportError, ValueError):  # no generator for this form yet: the tip circle
+        return body.radius
+
+
+def _still(
+    body: Body, rates: dict[str, Fraction | None], frame_rate: Fraction | None
+) -> bool:
+    """Does a toothed body stand still in the frame both axes share?"""
+    if body.kind != "teeth" or frame_rate is None:
+        return False
+    rate = rates.get(body.member)
+    return rate is not None and rate == frame_rate
+
+
+def _nearest_approach(layout: Layout, a: str, b: str) -> float:
+    """Smallest distance (mm) between two axes when at least one circles a carrier."""
+    design = layout.design
+    pos = layout.placing.positions
+
+    def centre(root: str) -> tuple[np.ndarray, float]:
+        frame = _frame(design, root)
+        if frame is None:
+            return np.array(pos[root]), 0.0
+        c = np.array(pos[axis_root(design, frame)])
+        return c, float(np.hypot(*(np.array(pos[root]) - c)))
+
+    ca, ea = centre(a)
+    cb, eb = centre(b)
+    if eb == 0.0:
+        return abs(float(np.hypot(*(cb - ca))) - ea)
+    if ea == 0.0:
+        return abs(float(np.hypot(*(ca - cb))) - eb)
+    # both circle (different) carriers: the conservative nearest approach
+    return max(0.0, float(np.hypot(*(ca - cb))) - ea - eb)

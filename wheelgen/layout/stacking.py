@@ -1,0 +1,279 @@
+"""Axial stacking: each arbor's and sleeve's z-span, wheel seats, collars and pivots (mm).
+
+Heights grow towards the front; a wheel occupies ``height`` to ``height + face_width +
+hub_length`` (the hub stands on the front face). The rules:
+
+- A plate-mounted arbor runs through both plates (outer face to outer face), pivoting
+  in each. Two plate-mounted axes closer than their radii (the offset axes of a
+  pin-and-slot coupling) cannot both do so: the one whose wheels lie further back runs
+  from the back plate to its last wheel, the other from its first wheel to the front
+  plate, each held by one plate.
+- A carried arbor spans its wheels and the carrier wheel, in which it turns.
+- A sleeve spans its own wheel seats and everything around it: an outer tube rides on
+  the inner one, so inner tubes are longer and every seat must lie outside the tubes
+  around its member. A seat that an outer tube would cover is a *hidden seat*.
+- A sleeve that has another around it carries a collar just behind that tube's back
+  end (:data:`COLLAR_LENGTH` long, as wide as that tube), a shoulder for it to run
+  against, unless one of its own wheel seats ends there already.
+- A fixed sleeve is held by the frame: it runs on through the nearer plate (the other
+  one if the nearer would cover a seat), so that plate holds it and the arbor inside
+  turns in its bore there.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+from ..design.model import Design
+from ..design.model import Seat as SeatShape
+from .sleeves import SleeveSize, coaxial_groups, member_outside
+
+__all__ = [
+    "COLLAR_LENGTH",
+    "HiddenSeat",
+    "MemberSpan",
+    "Seat",
+    "Stacking",
+    "stack_axes",
+    "wheel_extent",
+]
+
+#: mm, length of a thrust collar (common practice, no source).
+COLLAR_LENGTH = 1.0
+
+_EPS = 1e-9
+
+
+@dataclass(frozen=True, slots=True)
+class Seat:
+    """Where one wheel sits on its member: z from and to (mm, absolute), and its shape."""
+
+    wheel: str
+    z0: float
+    z1: float
+    shape: SeatShape
+
+
+@dataclass(frozen=True, slots=True)
+class MemberSpan:
+    """One arbor or sleeve along its axis; every z is absolute (mm).
+
+    ``pivots`` are ``(z0, z1, what)``: where it runs or is held ("back plate",
+    "front plate", "bore of stud", "wheel hour_wheel"). ``plates`` names the plates it
+    passes through ("back", "front").
+    """
+
+    name: str
+    kind: str  # "arbor" | "carried" | "sleeve"
+    z0: float
+    z1: float
+    seats: tuple[Seat, ...] = ()
+    collars: tuple[tuple[float, float, float], ...] = ()  # (z0, z1, diameter)
+    pivots: tuple[tuple[float, float, str], ...] = ()
+    plates: tuple[str, ...] = ()
+
+    @property
+    def length(self) -> float:
+        return self.z1 - self.z0
+
+
+@dataclass(frozen=True, slots=True)
+class HiddenSeat:
+    """Wheel ``wheel`` on ``member`` would sit under tube ``tube`` for ``overlap`` mm."""
+
+    wheel: str
+    member: str
+    tube: str
+    overlap: float
+
+
+@dataclass(frozen=True, slots=True)
+class Stacking:
+    spans: dict[str, MemberSpan]
+    hidden: tuple[HiddenSeat, ...]
+    one_plate: tuple[
+        tuple[str, str, float], ...
+    ]  # (arbor, its close neighbour, distance)
+
+
+def wheel_extent(design: Design, name: str) -> tuple[float, float]:
+    """Axial extent of a wheel with its hub, in mm."""
+    w = design.wheel(name)
+    return w.height, w.height + w.face_width + max(w.hub_length, 0.0)
+
+
+def _seats(design: Design, member: str) -> list[Seat]:
+    return [
+        Seat(w.name, *wheel_extent(design, w.name), w.seat)
+        for w in design.wheels_on(member)
+    ]
+
+
+def _hidden(seats: list[Seat], z0: float, z1: float) -> float:
+    return sum(max(0.0, min(s.z1, z1) - max(s.z0, z0)) for s in seats)
+
+
+def stack_axes(
+    design: Design,
+    sizes: dict[str, SleeveSize],
+    positions: dict[str, tuple[float, float]],
+) -> Stacking:
+    """Spans, seats, collars and pivots of every member; hidden seats.
+
+    ``sizes`` from :func:`~wheelgen.layout.sleeves.size_sleeves`, ``positions`` of the
+    axis roots from :func:`~wheelgen.layout.placement.place_axes` (mm).
+    """
+    frame = design.frame
+    groups = coaxial_groups(design)
+    children: dict[str, list[str]] = {}
+    for a in design.arbors:
+        if a.around is not None:
+            children.setdefault(a.around, []).append(a.name)
+    seats = {a.name: _seats(design, a.name) for a in design.arbors}
+    plate_z: dict[str, tuple[float, float]] = {}
+    if frame is not None:
+        back, front = frame.plates
+        plate_z = {
+            "back": (back - frame.thickness, back),
+            "front": (front, front + frame.thickness),
+        }
+
+    spans: dict[str, MemberSpan] = {}
+
+    def inner_chain(name: str) -> list[str]:
+        out = []
+        a = design.arbor(name)
+        while a.around is not None:
+            out.append(a.around)
+            a = design.arbor(a.around)
+        return out
+
+    def build(name: str) -> MemberSpan:
+        # outer tubes first: a member's span covers every tube around it
+        for child in children.get(name, []):
+            build(child)
+        arbor = design.arbor(name)
+        own = seats[name]
+        lo = [s.z0 for s in own] + [spans[c].z0 for c in children.get(name, [])]
+        hi = [s.z1 for s in own] + [spans[c].z1 for c in children.get(name, [])]
+        collars: list[tuple[float, float, float]] = []
+        if arbor.around is not None:
+            for c in children.get(name, []):
+                top = spans[c].z0
+                start = top - COLLAR_LENGTH
+                ends = [s.z1 for s in own if s.z1 > start - _EPS and s.z0 < top]
+                if ends:
+                    start = max(ends)
+                if top - start > _EPS:
+                    collars.append((start, top, member_outside(design, sizes, c)))
+                    lo.append(start)
+        z0, z1 = (min(lo), max(hi)) if lo else (0.0, 0.0)
+        plates: tuple[str, ...] = ()
+        pivots: list[tuple[float, float, str]] = []
+        if arbor.around is not None and arbor.fixed and plate_z:
+            inner_seats = [s for m in inner_chain(name) for s in seats[m]]
+            options = []
+            for plate, (pz0, pz1) in plate_z.items():
+                n0, n1 = min(z0, pz0), max(z1, pz1)
+                options.append(
+                    (
+                        _hidden(inner_seats, n0, n1),
+                        min(abs(z0 - pz1), abs(pz0 - z1)),
+                        plate,
+                        n0,
+                        n1,
+                    )
+                )
+            _, _, plate, z0, z1 = min(options)
+            plates = (plate,)
+            pivots.append((*plate_z[plate], f"{plate} plate"))
+        span = MemberSpan(
+            name,
+            "sleeve"
+            if arbor.around is not None
+            else ("carried" if arbor.carrier else "arbor"),
+            z0,
+            z1,
+            tuple(sorted(own, key=lambda s: s.z0)),
+            tuple(collars),
+            tuple(pivots),
+            plates,
+        )
+        spans[name] = span
+        return span
+
+    for root in groups:
+        build(root)
+
+    # plate-mounted and carried arbors (axis roots)
+    one_plate: list[tuple[str, str, float]] = []
+    radius = {
+        root: max(member_outside(design, sizes, m) for m in members) / 2
+        for root, members in groups.items()
+    }
+    mounted = [r for r in groups if design.arbor(r).carrier is None and r in positions]
+    split: dict[str, str] = {}
+    for i, a in enumerate(mounted):
+        for b in mounted[i + 1 :]:
+            d = math.dist(positions[a], positions[b])
+            if d < radius[a] + radius[b]:
+                za = _mean_z(spans[a])
+                zb = _mean_z(spans[b])
+                lower, upper = (a, b) if za <= zb else (b, a)
+                split[lower], split[upper] = "back", "front"
+                one_plate.extend([(lower, upper, d), (upper, lower, d)])
+    for root in groups:
+        arbor = design.arbor(root)
+        s = spans[root]
+        z0, z1 = s.z0, s.z1
+        pivots = []
+        plates: tuple[str, ...] = ()
+        if arbor.carrier is not None:
+            carrier = design.wheel(arbor.carrier)
+            c0, c1 = carrier.height, carrier.height + carrier.face_width
+            z0, z1 = min(z0, c0), max(z1, c1)
+            pivots.append((c0, c1, f"wheel {carrier.name}"))
+        elif plate_z:
+            use = (split[root],) if root in split else ("back", "front")
+            for plate in use:
+                pz0, pz1 = plate_z[plate]
+                z0, z1 = min(z0, pz0), max(z1, pz1)
+                holder = _holder(design, groups[root], spans, plate, pz0, pz1)
+                what = f"{plate} plate" if holder == root else f"bore of {holder}"
+                pivots.append((pz0, pz1, what))
+            plates = use
+        spans[root] = MemberSpan(
+            root, s.kind, z0, z1, s.seats, s.collars, tuple(pivots), plates
+        )
+
+    hidden: list[HiddenSeat] = []
+    for name, kids in children.items():
+        for c in kids:
+            for seat in seats[name]:
+                overlap = min(seat.z1, spans[c].z1) - max(seat.z0, spans[c].z0)
+                if overlap > _EPS:
+                    hidden.append(HiddenSeat(seat.wheel, name, c, overlap))
+    return Stacking(spans, tuple(hidden), tuple(one_plate))
+
+
+def _mean_z(span: MemberSpan) -> float:
+    if not span.seats:
+        return (span.z0 + span.z1) / 2
+    return sum((s.z0 + s.z1) / 2 for s in span.seats) / len(span.seats)
+
+
+def _holder(
+    design: Design,
+    members: list[str],
+    spans: dict[str, MemberSpan],
+    plate: str,
+    pz0: float,
+    pz1: float,
+) -> str:
+    """The outermost member of a group that passes through a plate (the root if none)."""
+    best = members[0]
+    for m in members[1:]:
+        if plate in spans[m].plates:
+            best = m
+    return best
