@@ -17,6 +17,7 @@ from collections.abc import Mapping
 from dataclasses import dataclass
 
 from ..design.model import Design, Process, Wheel
+from ..layout.placement import tooth_spec
 from ..teeth.involute_tooth import generate_tooth
 from ..teeth.mesh_data import (
     mesh_data,
@@ -69,19 +70,7 @@ CHECK_STEPS = 60
 
 def wheel_spec(wheel: Wheel) -> ToothSpec:
     """The tooth spec of a design wheel; half the wanted backlash comes off each."""
-    return ToothSpec(
-        teeth=wheel.teeth,
-        module=wheel.module,
-        form=wheel.form,
-        pressure_angle_deg=wheel.pressure_angle_deg,
-        tooth_angle_deg=wheel.tooth_angle_deg,
-        shift=wheel.shift,
-        addendum=wheel.addendum,
-        dedendum=wheel.dedendum,
-        root_radius=wheel.root_radius,
-        tip_radius=wheel.tip_radius,
-        thinning=wheel.backlash / 2,
-    )
+    return tooth_spec(wheel)
 
 
 @dataclass(frozen=True, slots=True)

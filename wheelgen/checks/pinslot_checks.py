@@ -53,25 +53,15 @@ _TOL = 1e-9  # mm: rounding allowance when comparing radii
 
 def wheel_root_radius(wheel: Wheel) -> float:
     """Root circle radius of ``wheel`` in mm, from the tooth generator."""
-    from ..teeth.spec import ToothSpec, outline_for
+    from ..layout.placement import tooth_spec
+    from ..teeth.spec import outline_for
 
-    spec = ToothSpec(
-        teeth=wheel.teeth,
-        module=wheel.module,
-        form=wheel.form,
-        pressure_angle_deg=wheel.pressure_angle_deg,
-        tooth_angle_deg=wheel.tooth_angle_deg,
-        shift=wheel.shift,
-        addendum=wheel.addendum,
-        dedendum=wheel.dedendum,
-        root_radius=wheel.root_radius,
-        tip_radius=wheel.tip_radius,
-    )
+    spec = tooth_spec(wheel)
     try:
         return float(outline_for(spec).radii["root"])
-    except (ModuleNotFoundError, ValueError):
-        # No generator for this form yet (triangular), or teeth it cannot make (the
-        # mesh checks report those): the rack-generated root circle, m (z/2 - h_f + x).
+    except ValueError:
+        # Teeth the generator cannot make (the mesh checks report those): the
+        # rack-generated root circle, m (z/2 - h_f + x).
         return wheel.module * (wheel.teeth / 2 - wheel.dedendum + wheel.shift)
 
 

@@ -23,8 +23,14 @@ def main() -> None:
     Write the train as a TOML file (see docs/format.md), then:
 
     \b
+      wheelgen ratio TARGET     tooth counts that realise a period or ratio
       wheelgen check DESIGN     exact rates, targets and every check
-      wheelgen build DESIGN     parts as STEP, STL, 3MF, DXF and 1:1 SVG
+      wheelgen motion DESIGN    uneven motion from pin-and-slot couplings
+      wheelgen build DESIGN     parts as STEP, STL, 3MF, DXF and 1:1 SVG, and sheets
+      wheelgen gear -z Z -m M   data sheet of one wheel or a pair
+      wheelgen index TEETH      dividing-head indexing for a tooth count
+
+    Without DESIGN, the bundled demo (designs/harbour_tide_clock.toml) is used.
     """
 
 
@@ -39,3 +45,5 @@ from .motion import motion_command  # noqa: E402
 main.add_command(motion_command)
 from .gear import gear_command  # noqa: E402
 main.add_command(gear_command)
+from .build import build_command  # noqa: E402
+main.add_command(build_command)

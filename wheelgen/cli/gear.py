@@ -8,6 +8,8 @@ from typing import Any
 
 import click
 
+from ..design.loader import ROOT_RADIUS_BY_FORM
+
 from ..teeth.drawing import outline_svg
 from ..teeth.gear_data import GearData, gear_data
 from ..teeth.mesh_data import MeshData, mesh_data
@@ -161,9 +163,9 @@ def _clean(values: dict[str, Any]) -> dict[str, Any]:
 @click.option(
     "--root-radius",
     type=float,
-    default=0.38,
-    show_default=True,
-    help="Rack tip radius (involute) or root rounding (triangular), x module.",
+    default=None,
+    help="Rack tip radius (involute) or root rounding (triangular), x module.  "
+    "[default: 0.38 involute, 0.1 triangular]",
 )
 @click.option(
     "--tip-radius",
@@ -202,7 +204,7 @@ def _gear(
     tooth_angle: float,
     addendum: float,
     dedendum: float,
-    root_radius: float,
+    root_radius: float | None,
     tip_radius: float,
     backlash: float,
     pin: float | None,
@@ -221,6 +223,8 @@ def _gear(
     if backlash < 0:
         fail(f"'--backlash' must be >= 0 mm, got {backlash}")
     thinning = backlash / 2 if mate is not None else backlash
+    if root_radius is None:
+        root_radius = ROOT_RADIUS_BY_FORM[form]
     common: dict[str, Any] = {
         "module": module,
         "form": form,

@@ -84,7 +84,7 @@ WHEEL_KEYS: dict[str, tuple[Any, str, _Check | None]] = {
     "backlash": (0.05, "number", _non_negative),
     "addendum": (1.0, "number", _between(0.1, 2, " modules")),
     "dedendum": (1.25, "number", _between(0.1, 3, " modules")),
-    # None: by form, see _ROOT_RADIUS_BY_FORM
+    # None: by form, see ROOT_RADIUS_BY_FORM
     "root_radius": (None, "number", _between(0, 1, " modules")),
     "tip_radius": (0.0, "number", _between(0, 1, " modules")),
     "bore": (None, "number", _positive),
@@ -98,7 +98,7 @@ WHEEL_KEYS: dict[str, tuple[Any, str, _Check | None]] = {
 #: type A rack tip radius for involute teeth; for triangular teeth a small rounding,
 #: because 0.38 m does not fit the narrow V of a 60-degree space (derived: the V's
 #: inscribed circle at the root line).
-_ROOT_RADIUS_BY_FORM = {"involute": 0.38, "triangular": 0.1}
+ROOT_RADIUS_BY_FORM = {"involute": 0.38, "triangular": 0.1}
 # Wheel field names that differ from the file's keys.
 _WHEEL_FIELD = {"pressure_angle": "pressure_angle_deg", "tooth_angle": "tooth_angle_deg"}
 
@@ -405,7 +405,7 @@ class _Loader:
         proc = self.process_table(doc, process)
         frame = self.frame_table(doc)
         arbors = self.arbors(doc)
-        wheels = self.wheels(doc, defaults)
+        wheels = self.wheels(doc, defaults, proc)
         meshes = self.meshes(doc)
         pinslots = self.pinslots(doc)
         drive = self.drive_table(doc)
@@ -549,7 +549,7 @@ class _Loader:
                 out.append(Arbor(name, at, diameter, around, fixed, carrier, w))
         return out
 
-    def wheels(self, doc: dict[str, Any], defaults: dict[str, Any]) -> list[Wheel]:
+    def wheels(self, doc: dict[str, Any], defaults: dict[str, Any], proc: Process) -> list[Wheel]:
         out = []
         known = ("name", "arbor", "teeth", "height") + tuple(WHEEL_KEYS)
         for i, t in enumerate(self.tables(doc, "wheel")):
@@ -573,8 +573,22 @@ class _Loader:
                 field_name = _WHEEL_FIELD.get(key, key)
                 if fields[field_name] is None and default is not None:
                     fields[field_name] = default
+            if fields["form"] == "triangular" and proc.kind == "mill":
+                # The end mill leaves its own radius in the V: the root rounding may not
+                # be smaller than the cutter's radius.
+                least = proc.cutter / 2 / fields["module"]
+                given = fields["root_radius"]
+                if given is None:
+                    fields["root_radius"] = max(ROOT_RADIUS_BY_FORM["triangular"], least)
+                elif given < least - 1e-12:
+                    self.problem(
+                        self.where("wheel", i, item, "root_radius"),
+                        f"root_radius = {given:g} modules ({given * fields['module']:g} mm)",
+                        f"at least the cutter radius, {least:.4g} modules ({proc.cutter / 2:g} mm), "
+                        "when the process is milling",
+                    )
             if fields["root_radius"] is None:
-                fields["root_radius"] = _ROOT_RADIUS_BY_FORM.get(fields["form"], 0.38)
+                fields["root_radius"] = ROOT_RADIUS_BY_FORM.get(fields["form"], 0.38)
             out.append(Wheel(name=name, arbor=arbor, teeth=teeth, height=height, where=self.where("wheel", i, item), **fields))
         return out
 

@@ -1,0 +1,232 @@
+"""The build pipeline: manifest, same bytes, cache, parallel jobs, nothing lost, safe names."""
+
+from __future__ import annotations
+
+import hashlib
+import json
+from pathlib import Path
+
+import pytest
+
+pytest.importorskip("cadquery")
+
+from wheelgen.design import load_design  # noqa: E402
+from wheelgen.export import build as build_mod  # noqa: E402
+from wheelgen.export import sheets  # noqa: E402
+from wheelgen.export.build import BuildBlocked, BuildOptions, build_design  # noqa: E402
+from wheelgen.export.staging import UnsafeNameError  # noqa: E402
+from wheelgen.layout import plan_parts  # noqa: E402
+from wheelgen.layout.part_plan import ArborPart, WheelPart  # noqa: E402
+from wheelgen.teeth.spec import ToothSpec  # noqa: E402
+
+pytestmark = pytest.mark.cad
+
+DESIGN = Path(__file__).parent / "data" / "two_stage.toml"
+
+
+def tree(root: Path) -> dict[str, bytes]:
+    return {
+        p.relative_to(root).as_posix(): p.read_bytes()
+        for p in sorted(root.rglob("*"))
+        if p.is_file()
+    }
+
+
+@pytest.fixture(scope="module")
+def design():
+    return load_design(DESIGN)
+
+
+@pytest.fixture(scope="module")
+def first(design, tmp_path_factory):
+    base = tmp_path_factory.mktemp("first")
+    out = base / "output" / design.name
+    result = build_design(design, out, BuildOptions())
+    return base, out, result, tree(out)
+
+
+def test_every_part_gets_its_files(first, design):
+    _, out, result, files = first
+    parts = plan_parts(design)
+    for p in parts:
+        assert f"step/{p.name}.step" in files
+        assert f"stl/{p.name}.stl" in files
+        assert f"3mf/{p.name}.3mf" in files
+        planar = p.kind == "wheel"
+        assert (f"dxf/{p.name}.dxf" in files) == planar
+        assert (f"svg/{p.name}.svg" in files) == planar
+    assert "step/assembly.step" in files and "manifest.json" in files
+    text = files["step/assembly.step"].decode("latin-1")
+    for p in parts:
+        assert f"PRODUCT('{p.name}'" in text
+    assert result.built == len(parts) and result.reused == 0
+
+
+def test_manifest_lists_every_file_with_its_hash(first, design):
+    _, out, _, files = first
+    m = json.loads(files["manifest.json"])
+    from wheelgen import __version__
+
+    assert m["wheelgen"] == __version__
+    assert (
+        m["design"]["sha256"]
+        == design.sha256
+        == hashlib.sha256(DESIGN.read_bytes()).hexdigest()
+    )
+    assert m["checked"] is True
+    listed = {r["path"]: r["sha256"] for r in m["files"]}
+    assert set(listed) == set(files) - {"manifest.json"}
+    for path, digest in listed.items():
+        assert hashlib.sha256(files[path]).hexdigest() == digest
+    names = {p["name"]: p for p in m["parts"]}
+    assert names["wheel_b"]["parameters"]["tooth"]["teeth"] == 30
+    assert names["wheel_b"]["parameters"]["spokes"] == 4
+
+
+def test_rebuild_reuses_the_cache_and_gives_the_same_bytes(first, design):
+    base, out, _, files = first
+    result = build_design(design, out, BuildOptions())
+    assert result.built == 0 and result.reused == len(plan_parts(design))
+    assert result.cache_root == base / "output" / ".wheelgen-cache"
+    assert tree(out) == files
+    # nothing written beside the output folder except the cache
+    assert sorted(p.name for p in (base / "output").iterdir()) == [
+        ".wheelgen-cache",
+        design.name,
+    ]
+
+
+def test_fresh_build_in_two_processes_gives_identical_bytes(first, design, tmp_path):
+    # no cache, two worker processes: every byte must still match the first build
+    out = tmp_path / "again"
+    build_design(design, out, BuildOptions(jobs=2, use_cache=False))
+    assert tree(out) == first[3]
+    assert sorted(p.name for p in tmp_path.iterdir()) == ["again"]
+
+
+def test_failing_exporter_leaves_previous_output_untouched(first, design, monkeypatch):
+    base, out, _, files = first
+
+    def broken(work, path):
+        path.write_bytes(b"half a file")
+        raise RuntimeError("disk full (simulated)")
+
+    monkeypatch.setitem(build_mod.PART_WRITERS, "3mf", broken)
+    with pytest.raises(RuntimeError, match="simulated"):
+        build_design(design, out, BuildOptions(use_cache=False))
+    assert tree(out) == files
+    leftovers = [p.name for p in (base / "output").iterdir() if "staging" in p.name]
+    assert leftovers == []
+
+
+def test_failing_sheet_writer_leaves_previous_output_untouched(
+    first, design, monkeypatch
+):
+    base, out, _, files = first
+
+    def broken(design, parts, findings, staging_dir):
+        (staging_dir / "half.txt").write_text("x")
+        raise KeyboardInterrupt  # an interrupted build, the worst case
+
+    monkeypatch.setattr(sheets, "SHEET_WRITERS", (broken,))
+    with pytest.raises(KeyboardInterrupt):
+        build_design(design, out, BuildOptions())
+    assert tree(out) == files
+
+
+def test_sheet_writer_may_not_point_outside(design, tmp_path, monkeypatch):
+    outside = tmp_path / "elsewhere.txt"
+    outside.write_text("mine")
+
+    def sneaky(design, parts, findings, staging_dir):
+        return [outside]
+
+    monkeypatch.setattr(sheets, "SHEET_WRITERS", (sneaky,))
+    part = ArborPart("a1", 3.0, 10.0)
+    with pytest.raises(UnsafeNameError):
+        build_design(
+            design, tmp_path / "out", BuildOptions(), findings=[], parts=[part]
+        )
+    assert not (tmp_path / "out").exists()
+
+
+@pytest.mark.parametrize(
+    "name", ["../x", "/etc/x", "a/b", "..", "", ".hidden", "assembly"]
+)
+def test_build_refuses_unsafe_part_names(design, tmp_path, name):
+    part = WheelPart(name, ToothSpec(12, 1.0), 3.0, 2.0)
+    with pytest.raises(UnsafeNameError):
+        build_design(
+            design, tmp_path / "out", BuildOptions(), findings=[], parts=[part]
+        )
+    assert list(tmp_path.iterdir()) == []
+
+
+def test_error_finding_blocks_unless_forced(design, tmp_path, monkeypatch):
+    from wheelgen.checks.findings import Finding
+
+    monkeypatch.setattr(sheets, "SHEET_WRITERS", ())
+    bad = [Finding("error", "test.made_up", "wheel x", "made up for the test")]
+    part = ArborPart("a1", 3.0, 10.0)
+    with pytest.raises(BuildBlocked) as info:
+        build_design(
+            design, tmp_path / "out", BuildOptions(), findings=bad, parts=[part]
+        )
+    assert info.value.findings == bad
+    assert not (tmp_path / "out").exists()
+    result = build_design(
+        design,
+        tmp_path / "out",
+        BuildOptions(force=True, formats=("step",)),
+        findings=bad,
+        parts=[part],
+    )
+    m = json.loads((tmp_path / "out" / "manifest.json").read_text())
+    assert result.checked is False and m["checked"] is False
+    assert m["status"].startswith("UNCHECKED") and m["findings"]["errors"] == 1
+
+
+def test_refuses_to_replace_a_folder_that_is_not_a_build(design, tmp_path):
+    mine = tmp_path / "documents"
+    mine.mkdir()
+    (mine / "letter.txt").write_text("keep me")
+    with pytest.raises(UnsafeNameError, match="not an earlier wheelgen build"):
+        build_design(design, mine, BuildOptions(), findings=[], parts=[ArborPart("a", 3.0, 5.0)])
+    assert (mine / "letter.txt").read_text() == "keep me"
+    assert sorted(p.name for p in tmp_path.iterdir()) == ["documents"]
+
+
+def test_every_exported_step_reimports_valid(first, design):
+    import cadquery as cq
+
+    _, out, _, _ = first
+    parts = plan_parts(design)
+    for p in parts:
+        shape = cq.importers.importStep(str(out / "step" / f"{p.name}.step")).val()
+        assert shape.isValid(), p.name
+        assert len(shape.Solids()) == 1, p.name
+    assy = cq.Assembly.importStep(str(out / "step" / "assembly.step"))
+    placed = {name: obj.loc.toTuple()[0] for name, obj in assy.traverse()}
+    for p in parts:
+        pl = p.placement
+        assert placed[p.name] == pytest.approx((pl.x, pl.y, pl.z), abs=1e-9), p.name
+
+
+def test_staging_left_by_a_killed_build_is_swept_and_output_restored(tmp_path):
+    from wheelgen.export.staging import Staging
+
+    target = tmp_path / "out"
+    # a build killed outright (pid 999999999 does not exist) in the middle of a swap:
+    # its staging folder is left, and the previous output sits under its .old name
+    dead = tmp_path / ".out.staging-999999999-abc"
+    dead.mkdir()
+    old = tmp_path / ".out.old-999999999-def"
+    old.mkdir()
+    (old / "manifest.json").write_text("{}")
+    with Staging(target) as st:
+        assert target.is_dir() and (target / "manifest.json").is_file()  # restored
+        assert not dead.exists() and not old.exists()
+        (st.path("a/b.txt")).write_text("new")
+        st.commit()
+    assert (target / "a" / "b.txt").read_text() == "new"
+    assert sorted(p.name for p in tmp_path.iterdir()) == ["out"]

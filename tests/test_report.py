@@ -1,0 +1,198 @@
+"""The build report: well-formed, self-contained HTML that shows the design's numbers.
+
+External truth: the HTML must parse with balanced tags (HTML 5 void elements aside),
+every inline SVG must be well-formed XML, and nothing may reach the network (no
+http(s) link, no external image, script or stylesheet). When Chromium is installed
+the page is rendered headless and the screenshot must not be blank; without Chromium
+that test is skipped.
+"""
+
+from __future__ import annotations
+
+import re
+import shutil
+import subprocess
+import sys
+import tempfile
+import xml.etree.ElementTree as ET
+from html.parser import HTMLParser
+from pathlib import Path
+
+import pytest
+
+from wheelgen.checks import analyse
+from wheelgen.checks.findings import Finding
+from wheelgen.design import load_design
+from wheelgen.layout import plan_parts
+from wheelgen.layout.drilling import plate_holes
+from wheelgen.workshop.cutting import cutting_rows, cutting_sheet_writer
+from wheelgen.workshop.parts_bill import parts_sheet_writer
+from wheelgen.workshop.report import report_html, report_writer
+
+ROOT = Path(__file__).resolve().parent.parent
+DEMO = ROOT / "designs" / "harbour_tide_clock.toml"
+SVG_NS = "http://www.w3.org/2000/svg"
+VOID = {"area", "base", "br", "col", "embed", "hr", "img", "input", "link", "meta",
+        "source", "track", "wbr"}  # fmt: skip
+
+
+class _Collector(HTMLParser):
+    """Checks nesting and gathers every attribute that could point elsewhere."""
+
+    def __init__(self) -> None:
+        super().__init__(convert_charrefs=True)
+        self.stack: list[str] = []
+        self.errors: list[str] = []
+        self.tags: list[tuple[str, dict[str, str | None]]] = []
+        self.ids: list[str] = []
+
+    def handle_starttag(self, tag: str, attrs: list[tuple[str, str | None]]) -> None:
+        d = dict(attrs)
+        self.tags.append((tag, d))
+        if d.get("id"):
+            self.ids.append(str(d["id"]))
+        if tag not in VOID:
+            self.stack.append(tag)
+
+    def handle_startendtag(self, tag: str, attrs: list[tuple[str, str | None]]) -> None:
+        self.tags.append((tag, dict(attrs)))  # self-closed (SVG); nothing to pop
+
+    def handle_endtag(self, tag: str) -> None:
+        if not self.stack or self.stack[-1] != tag:
+            self.errors.append(f"</{tag}> closes {self.stack[-1:]}")
+            return
+        self.stack.pop()
+
+
+@pytest.fixture(scope="module")
+def demo():
+    design = load_design(DEMO)
+    parts = plan_parts(design)
+    analysis = analyse(design)
+    return design, parts, analysis, report_html(design, parts, analysis.findings)
+
+
+def test_html_is_well_formed(demo) -> None:
+    page = demo[3]
+    assert page.startswith("<!DOCTYPE html>")
+    p = _Collector()
+    p.feed(page)
+    p.close()
+    assert p.errors == []
+    assert p.stack == []
+    assert len(p.ids) == len(set(p.ids)), "ids must be unique in one page"
+    svgs = re.findall(r"<svg\b.*?</svg>", page, flags=re.S)
+    assert len(svgs) > 10
+    for svg in svgs:
+        ET.fromstring(svg)
+
+
+def test_everything_is_embedded(demo) -> None:
+    page = demo[3]
+    p = _Collector()
+    p.feed(page)
+    for tag, attrs in p.tags:
+        assert tag not in ("link", "script", "iframe", "object", "embed"), tag
+        for key in ("src", "href", "xlink:href"):
+            value = attrs.get(key)
+            if value is None:
+                continue
+            assert value.startswith(("#", "data:")), f"<{tag} {key}={value[:60]}>"
+        if tag == "img":
+            assert str(attrs["src"]).startswith("data:image/svg+xml;base64,")
+    # the only http URL allowed is the SVG namespace name, which is never fetched
+    urls = set(re.findall(r"https?://[^\s\"'<>)]+", page))
+    assert urls <= {SVG_NS}, urls
+    assert "@import" not in page
+    # url() only for references inside the page (an SVG marker), never a file or site
+    assert all(u.startswith("#") for u in re.findall(r"url\(\s*['\"]?([^)'\"]*)", page))
+
+
+def test_report_shows_the_numbers(demo) -> None:
+    design, parts, analysis, page = demo
+    assert design.title.replace("(", "").split()[0] in page
+    assert f"<h1>{design.title}</h1>" in page
+    for r in analysis.targets:
+        assert r.target.arbor in page
+    assert page.count('class="met"') == sum(1 for r in analysis.targets if r.met)
+    for row in cutting_rows(parts):
+        if row.over_pins is not None:
+            assert f"{row.over_pins:.4f} over" in page
+            assert f"{row.span_width:.4f} over {row.span_teeth}" in page
+    for part in parts:
+        assert f"<b>{part.name}</b>" in page
+    for h in plate_holes(design, "front"):
+        assert f"{h.x:.4f}" in page
+    assert "Time-lapse: 1 second of the animation shows" in page
+    assert "animateTransform" in page
+    assert "Checked: no error-level findings." in page
+
+
+def test_forced_build_says_unchecked(demo) -> None:
+    design, parts, _, _ = demo
+    bad = Finding("error", "test.forced", "wheel day_wheel", "a made-up error")
+    page = report_html(design, parts, [bad])
+    assert "UNCHECKED" in page and "a made-up error" in page
+
+
+def test_writers_write_into_staging(tmp_path: Path, demo) -> None:
+    design, parts, analysis, _ = demo
+    written = []
+    for writer in (cutting_sheet_writer, parts_sheet_writer, report_writer):
+        paths = writer(design, parts, analysis.findings, tmp_path)
+        for path in paths:
+            assert path.parent == tmp_path and path.stat().st_size > 0
+        written += [p.name for p in paths]
+    assert written == ["cutting.csv", "parts.csv", "report.html"]
+
+
+def test_workshop_never_starts_the_cad_kernel() -> None:
+    code = (
+        "import sys\n"
+        "import wheelgen.workshop.report, wheelgen.workshop.cutting\n"
+        "import wheelgen.workshop.parts_bill, wheelgen.workshop.preview\n"
+        "import wheelgen.workshop.part_drawing, wheelgen.workshop.motion_plot\n"
+        "assert 'cadquery' not in sys.modules and 'OCP' not in sys.modules\n"
+    )
+    subprocess.run([sys.executable, "-c", code], check=True, timeout=120)
+
+
+def _chromium() -> str | None:
+    for name in ("chromium", "chromium-browser", "google-chrome", "chrome"):
+        path = shutil.which(name)
+        if path:
+            return path
+    return None
+
+
+def test_report_renders_in_headless_chromium(tmp_path: Path, demo) -> None:
+    browser = _chromium()
+    if browser is None:
+        pytest.skip("Chromium is not installed")
+    from PIL import Image
+
+    page = tmp_path / "report.html"
+    page.write_text(demo[3], encoding="utf-8")
+    shot = tmp_path / "shot.png"
+    with tempfile.TemporaryDirectory() as profile:
+        cmd = [
+            browser, "--headless", "--no-sandbox", "--disable-gpu", "--disable-quic",
+            "--no-first-run", "--disable-background-networking",
+            "--disable-component-update", "--disable-sync",
+            f"--user-data-dir={profile}", "--window-size=1000,1400",
+            "--hide-scrollbars", f"--screenshot={shot}", page.as_uri(),
+        ]  # fmt: skip
+        try:
+            subprocess.run(cmd, capture_output=True, timeout=90, check=False)
+        except subprocess.TimeoutExpired:
+            pytest.skip("Chromium did not finish within 90 s")
+    if not shot.exists():
+        pytest.skip("Chromium ran but wrote no screenshot (no usable display stack)")
+    img = Image.open(shot).convert("L")
+    hist = img.histogram()
+    total = sum(hist)
+    dark = sum(hist[:200]) / total
+    # a blank page is all white; the top of the report holds the title, the job table
+    # and the start of the layout drawing
+    assert dark > 0.01, f"only {dark:.2%} of the screenshot is not white"
+    assert len([v for v in hist if v]) > 20, "too few grey levels: nothing drawn"

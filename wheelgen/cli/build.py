@@ -1,0 +1,206 @@
+"""``wheelgen build``: check, then export every part (STEP, STL, 3MF, DXF, SVG).
+
+The CAD kernel is imported inside the build only when a part must be made, so this
+module (and ``wheelgen --help``) starts without cadquery.
+"""
+
+from __future__ import annotations
+
+import sys
+from pathlib import Path
+from typing import Any
+
+import click
+
+from ._common import (
+    DEFAULT_DESIGN,
+    EXIT_FINDINGS,
+    EXIT_INPUT,
+    EXIT_OK,
+    echo_json,
+    load_or_exit,
+)
+
+__all__ = ["DEFAULT_DESIGN", "build_command"]
+
+_FORMATS = ("step", "stl", "3mf", "dxf", "svg")
+
+
+def _parse_formats(text: str) -> tuple[str, ...]:
+    items = [t.strip().lower() for t in text.split(",") if t.strip()]
+    bad = [t for t in items if t not in _FORMATS]
+    if bad or not items:
+        raise click.BadParameter(
+            f"{', '.join(bad) or 'nothing'}; allowed: a comma-separated list of "
+            f"{', '.join(_FORMATS)}",
+            param_hint="'--formats'",
+        )
+    return tuple(f for f in _FORMATS if f in items)
+
+
+@click.command("build")
+@click.argument("design", type=click.Path(dir_okay=False), required=False)
+@click.option(
+    "-o",
+    "--output",
+    "output",
+    type=click.Path(file_okay=False),
+    help="Folder for the files (replaced as a whole). Default: output/<design name>.",
+)
+@click.option(
+    "--formats",
+    default=",".join(_FORMATS),
+    show_default=True,
+    help="Comma-separated formats to write (dxf and svg only for wheels).",
+)
+@click.option(
+    "--jobs",
+    "-j",
+    type=click.IntRange(1, 64),
+    default=1,
+    show_default=True,
+    help="Build parts in this many processes (same files for any number).",
+)
+@click.option(
+    "--force",
+    is_flag=True,
+    help="Export despite error-level findings; the manifest says UNCHECKED.",
+)
+@click.option(
+    "--tolerance",
+    type=click.FloatRange(0.0005, 1.0),
+    default=0.01,
+    show_default=True,
+    help="Largest chord deviation of STL/3MF meshes, mm.",
+)
+@click.option(
+    "--no-cache",
+    is_flag=True,
+    help="Rebuild every part; do not read or write the part cache.",
+)
+@click.option(
+    "--json",
+    "as_json",
+    is_flag=True,
+    help="Print one JSON object on stdout (progress goes to stderr).",
+)
+def build_command(
+    design: str | None,
+    output: str | None,
+    formats: str,
+    jobs: int,
+    force: bool,
+    tolerance: float,
+    no_cache: bool,
+    as_json: bool,
+) -> None:
+    """Check DESIGN and write its parts, ready for the workshop or the printer.
+
+    DESIGN is a train file (TOML); without it the bundled demo is built. Files go
+    to output/<design name>/ (or -o DIR): step/<part>.step and step/assembly.step,
+    stl/ and 3mf/ meshes lying on z = 0, dxf/ and svg/ 1:1 drawings of every wheel,
+    and manifest.json with the SHA-256 of each file. Everything is written to a
+    staging folder first and moved into place only when all of it succeeded.
+
+    Parts whose parameters did not change are copied from the cache in
+    .wheelgen-cache/ next to the output folder (output/.wheelgen-cache/ by default);
+    delete it at any time.
+
+    Exit status: 0 built; 1 a check found an error (nothing written; see --force)
+    or a part could not be made; 2 the design or an option cannot be used.
+    """
+    from ..export.build import BuildBlocked, BuildOptions, build_design
+    from ..export.staging import UnsafeNameError
+
+    fmt = _parse_formats(formats)
+    d = load_or_exit(design)
+    options = BuildOptions(
+        formats=fmt,
+        jobs=jobs,
+        force=force,
+        use_cache=not no_cache,
+        mesh_tolerance=tolerance,
+    )
+    out_dir = Path(output) if output else None
+    bar: Any = None
+    try:
+        from ..checks import run_checks
+        from ..checks.findings import findings_table
+        from ..layout import plan_parts
+
+        findings = run_checks(d)
+        parts = plan_parts(d) if not _blocked(findings, force) else ()
+        if parts:
+            bar = click.progressbar(
+                length=len(parts), label="parts", file=sys.stderr, show_pos=True
+            )
+            bar.__enter__()
+        result = build_design(
+            d,
+            out_dir,
+            options,
+            progress=(lambda _name: bar.update(1)) if bar is not None else None,
+            findings=findings,
+            parts=parts,
+        )
+    except BuildBlocked as exc:
+        _close(bar)
+        if as_json:
+            echo_json(
+                {
+                    "design": d.name,
+                    "built": False,
+                    "findings": [f.as_dict() for f in exc.findings],
+                }
+            )
+        else:
+            click.echo(findings_table(exc.findings))
+            click.echo(
+                "Nothing exported: fix the errors above, or use --force.", err=True
+            )
+        sys.exit(EXIT_FINDINGS)
+    except UnsafeNameError as exc:
+        _close(bar)
+        click.echo(f"wheelgen: {exc}", err=True)
+        sys.exit(EXIT_INPUT)
+    except Exception as exc:  # noqa: BLE001  (kernel/layout failure: message, exit 1)
+        _close(bar)
+        if type(exc).__name__ != "CadBuildError" and not isinstance(exc, ValueError):
+            raise
+        click.echo(f"wheelgen: could not build: {exc}", err=True)
+        sys.exit(EXIT_FINDINGS)
+    _close(bar)
+    status = "checked" if result.checked else "UNCHECKED (--force past errors)"
+    if as_json:
+        echo_json(
+            {
+                "design": d.name,
+                "built": True,
+                "output": str(result.out_dir),
+                "checked": result.checked,
+                "parts_built": result.built,
+                "parts_reused": result.reused,
+                "cache": None if result.cache_root is None else str(result.cache_root),
+                "files": result.files,
+                "findings": [f.as_dict() for f in result.findings],
+            }
+        )
+    else:
+        click.echo(
+            f"{d.title}: {len(result.files)} files in {result.out_dir} ({status}); "
+            f"{result.built} part(s) built, {result.reused} reused from the cache"
+        )
+        if not result.checked:
+            click.echo(findings_table(result.findings))
+    sys.exit(EXIT_OK)
+
+
+def _blocked(findings: Any, force: bool) -> bool:
+    from ..checks.findings import has_errors
+
+    return has_errors(findings) and not force
+
+
+def _close(bar: Any) -> None:
+    if bar is not None:
+        bar.__exit__(None, None, None)

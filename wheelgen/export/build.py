@@ -1,0 +1,460 @@
+"""The build pipeline: checks, plan, part files (cached, parallel), sheets, manifest.
+
+``build_design`` is what ``wheelgen build`` runs; it is also the library entry point.
+Order of work:
+
+1. run the checks; an error-level finding stops the build (:class:`BuildBlocked`)
+   unless ``force``, which marks the manifest as unchecked;
+2. plan the parts and refuse any name that is not a plain file name;
+3. build each part's files into the cache (``--jobs`` processes), or reuse them;
+4. copy them into a staging folder beside the output, add the assembly STEP, the
+   sheet writers' files and the manifest, and only then swap the folder into place.
+
+The CAD kernel is imported only when a part or the assembly actually has to be
+built, so a fully cached rebuild never pays cadquery's start-up.
+"""
+
+from __future__ import annotations
+
+import math
+
+import hashlib
+import json
+import multiprocessing
+import shutil
+import sys
+from collections.abc import Callable, Sequence
+from concurrent.futures import ProcessPoolExecutor, as_completed
+from dataclasses import dataclass, field
+from pathlib import Path
+from typing import Any
+
+from .. import __version__
+from . import sheets
+from .cache import PartCache, cache_root_for, part_key
+from .manifest import MANIFEST_NAME, make_manifest, write_manifest
+from .staging import Staging, UnsafeNameError, inside, safe_name
+
+__all__ = [
+    "ASSEMBLY_FILE",
+    "FORMATS",
+    "PART_WRITERS",
+    "PLANAR_FORMATS",
+    "BuildBlocked",
+    "BuildOptions",
+    "BuildResult",
+    "build_design",
+    "build_part_files",
+    "default_output_dir",
+    "part_file_names",
+]
+
+#: Every export format, in the order files are written.
+FORMATS: tuple[str, ...] = ("step", "stl", "3mf", "dxf", "svg")
+#: Formats that only flat parts (wheels) get.
+PLANAR_FORMATS = frozenset({"dxf", "svg"})
+#: The assembly's file, inside the output folder.
+ASSEMBLY_FILE = "step/assembly.step"
+_MESH_ANGLE_DEG = 30.0
+
+# part colours in the assembly (RGB 0..1): brass wheels, steel arbors, bronze sleeves
+_COLOURS = {
+    "wheel": (0.80, 0.62, 0.25),
+    "arbor": (0.62, 0.64, 0.68),
+    "sleeve": (0.70, 0.45, 0.25),
+    "pin": (0.30, 0.30, 0.32),
+}
+
+
+@dataclass(frozen=True, slots=True)
+class BuildOptions:
+    """How to build: formats, jobs, force past errors, cache, mesh tolerance (mm)."""
+
+    formats: tuple[str, ...] = FORMATS
+    jobs: int = 1
+    force: bool = False
+    use_cache: bool = True
+    mesh_tolerance: float = 0.01
+
+    def __post_init__(self) -> None:
+        bad = [f for f in self.formats if f not in FORMATS]
+        if bad or not self.formats:
+            raise ValueError(
+                f"'formats' must be some of {', '.join(FORMATS)},"
+                f" got {', '.join(bad) or 'none'}"
+            )
+        if self.jobs < 1:
+            raise ValueError(f"'jobs' must be at least 1, got {self.jobs}")
+        if not 0.0005 <= self.mesh_tolerance <= 1.0:
+            raise ValueError(
+                "'mesh_tolerance' must be from 0.0005 to 1 mm,"
+                f" got {self.mesh_tolerance}"
+            )
+
+    def key_options(self) -> dict[str, Any]:
+        """The options that decide a part's bytes (part of its cache key)."""
+        return {
+            "formats": sorted(set(self.formats)),
+            "mesh_tolerance": self.mesh_tolerance,
+            "mesh_angle_deg": _MESH_ANGLE_DEG,
+        }
+
+
+class BuildBlocked(Exception):
+    """An error-level finding stops the build; ``findings`` holds them all."""
+
+    def __init__(self, findings: Sequence[Any]) -> None:
+        super().__init__("a check found an error; nothing was exported")
+        self.findings = list(findings)
+
+
+@dataclass(slots=True)
+class BuildResult:
+    """What a build did; ``files`` are POSIX paths relative to ``out_dir``."""
+
+    out_dir: Path
+    files: list[str]
+    checked: bool
+    built: int
+    reused: int
+    cache_root: Path | None
+    findings: list[Any] = field(default_factory=list)
+    manifest: dict[str, Any] = field(default_factory=dict)
+
+
+def default_output_dir(design: Any, base: Path = Path("output")) -> Path:
+    """``output/<design name>``: the design's name must be a plain file name."""
+    return Path(base) / safe_name(design.name, "design name")
+
+
+def part_file_names(part: Any, formats: Sequence[str]) -> list[tuple[str, str]]:
+    """(format, relative path) of every file the part gets."""
+    out = []
+    for fmt in FORMATS:
+        if fmt not in formats:
+            continue
+        if fmt in PLANAR_FORMATS and part.kind != "wheel":
+            continue
+        out.append((fmt, f"{fmt}/{part.name}.{fmt}"))
+    return out
+
+
+class _PartWork:
+    """One part's solid, mesh and flat profile, each made on first use."""
+
+    def __init__(self, part: Any, tolerance: float) -> None:
+        self.part = part
+        self.tolerance = tolerance
+        self._solid: Any = None
+        self._mesh: Any = None
+        self._profile: Any = None
+
+    @property
+    def solid(self) -> Any:
+        if self._solid is None:
+            from ..solids.part import make_part
+            from ..solids.wheel import wheel_from_profile
+
+            # booleans check their own results (solids.wheel.check_solid); a plain
+            # prism of a closed profile is not re-checked here (0.3-1 s a wheel):
+            # the export tests re-import and validate every kind of part
+            if self.part.kind == "wheel":
+                self._solid = wheel_from_profile(self.part, self.profile)
+            else:
+                self._solid = make_part(self.part)
+        return self._solid
+
+    @property
+    def mesh(self) -> Any:
+        if self._mesh is None:
+            from .mesh import mesh_shape
+
+            self._mesh = mesh_shape(self.solid, self.tolerance, _MESH_ANGLE_DEG)
+        return self._mesh
+
+    @property
+    def profile(self) -> Any:
+        if self._profile is None:
+            from ..layout.wheel_profile import plate_profile
+            from ..teeth.spec import outline_for
+
+            self._profile = plate_profile(self.part, outline_for(self.part.tooth))
+        return self._profile
+
+
+def _write_step(w: _PartWork, path: Path) -> None:
+    from .step import write_step
+
+    write_step(w.solid, path, w.part.name)
+
+
+def _write_stl(w: _PartWork, path: Path) -> None:
+    from .mesh import write_stl
+
+    write_stl(w.mesh, path, w.part.name)
+
+
+def _write_3mf(w: _PartWork, path: Path) -> None:
+    from .mesh import write_3mf
+
+    write_3mf(w.mesh, path, w.part.name)
+
+
+def _write_dxf(w: _PartWork, path: Path) -> None:
+    from .dxf import write_dxf
+
+    write_dxf(w.profile, path, w.part.name)
+
+
+def _write_svg(w: _PartWork, path: Path) -> None:
+    from .svg_template import write_svg
+
+    pins = []
+    pin = w.part.pin
+    if pin is not None and not pin.hole_only:  # a through hole is drawn as a hole already
+        a = math.radians(pin.angle_deg)
+        pins.append((pin.radius * math.cos(a), pin.radius * math.sin(a), pin.diameter))
+    write_svg(
+        w.profile, path, w.part.name, w.part.tooth.teeth, w.part.tooth.module, pins=pins
+    )
+
+
+#: Format -> writer(part work, path). Tests replace an entry to simulate a failure.
+PART_WRITERS: dict[str, Callable[[_PartWork, Path], None]] = {
+    "step": _write_step,
+    "stl": _write_stl,
+    "3mf": _write_3mf,
+    "dxf": _write_dxf,
+    "svg": _write_svg,
+}
+_BREP = "solid.brep"  # kept in the cache entry only, for the assembly
+
+
+def build_part_files(part: Any, options: BuildOptions, dest: Path) -> list[str]:
+    """Write every file of ``part`` under ``dest``; returns their relative paths."""
+    safe_name(part.name)
+    work = _PartWork(part, options.mesh_tolerance)
+    written = []
+    for fmt, rel in part_file_names(part, options.formats):
+        path = inside(dest, rel)
+        path.parent.mkdir(parents=True, exist_ok=True)
+        PART_WRITERS[fmt](work, path)
+        written.append(rel)
+    if "step" in options.formats:
+        work.solid.exportBrep(str(dest / _BREP))
+    return written
+
+
+def _build_into_cache(part: Any, options: BuildOptions, cache_root: Path) -> str:
+    """Worker: build one part's files into a cache entry; returns its key."""
+    cache = PartCache(cache_root)
+    key = part_key(part, options.key_options())
+    if cache.has(key):
+        return key
+    tmp = cache.new_entry()
+    try:
+        files = build_part_files(part, options, tmp)
+    except BaseException:
+        shutil.rmtree(tmp, ignore_errors=True)
+        raise
+    cache.publish(key, tmp, files)
+    return key
+
+
+def _assembly_key(design: Any, parts: Sequence[Any], keys: Sequence[str]) -> str:
+    data = {
+        "wheelgen": __version__,
+        "design": design.name,
+        "parts": [
+            [
+                p.name,
+                p.kind,
+                k,
+                [p.placement.x, p.placement.y, p.placement.z, p.placement.angle_deg],
+            ]
+            for p, k in zip(parts, keys)
+        ],
+    }
+    return hashlib.sha256(json.dumps(data, sort_keys=True).encode()).hexdigest()
+
+
+def _write_assembly(
+    design: Any, parts: Sequence[Any], keys: Sequence[str], cache: PartCache, path: Path
+) -> None:
+    import cadquery as cq
+
+    from .step import write_step_assembly
+
+    items = []
+    for p, k in zip(parts, keys):
+        shape = cq.Shape.importBrep(str(cache.entry(k) / _BREP))
+        pl = p.placement
+        loc = cq.Location(cq.Vector(pl.x, pl.y, pl.z), cq.Vector(0, 0, 1), pl.angle_deg)
+        items.append((p.name, shape, loc, _COLOURS.get(p.kind, (0.5, 0.5, 0.5))))
+    write_step_assembly(safe_name(design.name, "design name"), items, path)
+
+
+def _check_names(parts: Sequence[Any]) -> None:
+    seen: set[str] = set()
+    for p in parts:
+        safe_name(p.name)
+        if p.name in seen:
+            raise UnsafeNameError(
+                f"two parts are called {p.name!r}; part names must differ"
+            )
+        if p.name == "assembly":
+            raise UnsafeNameError(
+                "a part may not be called 'assembly' (step/assembly.step)"
+            )
+        seen.add(p.name)
+
+
+def _check_replaceable(target: Path) -> None:
+    """Refuse to replace a folder that is not an earlier build (or empty)."""
+    if not target.exists():
+        return
+    if not target.is_dir() or (
+        any(target.iterdir()) and not (target / MANIFEST_NAME).is_file()
+    ):
+        raise UnsafeNameError(
+            f"{target} exists and is not an earlier wheelgen build"
+            f" (no {MANIFEST_NAME});"
+            " the build replaces its output folder as a whole, so choose an empty or"
+            " new folder"
+        )
+
+
+def build_design(
+    design: Any,
+    out_dir: Path | None = None,
+    options: BuildOptions = BuildOptions(),
+    progress: Callable[[str], None] | None = None,
+    findings: Sequence[Any] | None = None,
+    parts: Sequence[Any] | None = None,
+) -> BuildResult:
+    """Check, plan and export ``design`` into ``out_dir`` (default ``output/<name>``).
+
+    Parameters
+    ----------
+    design : Design
+        A loaded design (``wheelgen.design.load_design``).
+    out_dir : Path, optional
+        The folder that will hold the files; replaced as a whole, only on success.
+    options : BuildOptions
+        Formats, jobs, force, cache and mesh chord tolerance (mm).
+    progress : callable, optional
+        Called with a part's name each time one is done (built or reused).
+    findings, parts : optional
+        Precomputed check findings and part plan (else computed here).
+
+    Raises
+    ------
+    BuildBlocked
+        A check found an error and ``options.force`` is false.
+    UnsafeNameError
+        A part or design name is not a plain file name.
+    """
+    from ..checks.findings import has_errors
+
+    if findings is None:
+        from ..checks import run_checks
+
+        findings = run_checks(design)
+    findings = list(findings)
+    checked = not has_errors(findings)
+    if not checked and not options.force:
+        raise BuildBlocked(findings)
+    if parts is None:
+        from ..layout import plan_parts
+
+        parts = plan_parts(design)
+    parts = list(parts)
+    _check_names(parts)
+    target = Path(out_dir) if out_dir is not None else default_output_dir(design)
+    _check_replaceable(target)
+    key_options = options.key_options()
+    with Staging(target) as stage:
+        assert stage.dir is not None
+        cache_root = (
+            cache_root_for(target) if options.use_cache else stage.dir / ".work"
+        )
+        cache = PartCache(cache_root)
+        keys = [part_key(p, key_options) for p in parts]
+        todo: dict[str, Any] = {}
+        for p, k in zip(parts, keys):
+            if not cache.has(k) and k not in todo:
+                todo[k] = p
+        built = len(todo)
+        for p, k in zip(parts, keys):
+            if k not in todo and progress is not None:
+                progress(p.name)
+        if options.jobs > 1 and len(todo) > 1:
+            # fork is the fastest start (no re-import of the kernel, notes §7), but a
+            # parent that already ran the kernel has its thread pools, and a forked
+            # child can hang on their locks: then start clean processes instead
+            kernel_loaded = "OCP" in sys.modules
+            ctx = multiprocessing.get_context("forkserver" if kernel_loaded else "fork")
+            with ProcessPoolExecutor(
+                min(options.jobs, len(todo)), mp_context=ctx
+            ) as pool:
+                futures = {
+                    pool.submit(_build_into_cache, p, options, cache_root): p
+                    for p in todo.values()
+                }
+                for fut in as_completed(futures):
+                    fut.result()
+                    if progress is not None:
+                        progress(futures[fut].name)
+        else:
+            for p in todo.values():
+                _build_into_cache(p, options, cache_root)
+                if progress is not None:
+                    progress(p.name)
+        for p, k in zip(parts, keys):
+            for rel in cache.files(k):
+                shutil.copyfile(cache.entry(k) / rel, stage.path(rel))
+        if "step" in options.formats and parts:
+            akey = _assembly_key(design, parts, keys)
+            if not cache.has(akey):
+                tmp = cache.new_entry()
+                try:
+                    dest = inside(tmp, ASSEMBLY_FILE)
+                    dest.parent.mkdir(parents=True)
+                    _write_assembly(design, parts, keys, cache, dest)
+                except BaseException:
+                    shutil.rmtree(tmp, ignore_errors=True)
+                    raise
+                cache.publish(akey, tmp, [ASSEMBLY_FILE])
+            shutil.copyfile(
+                cache.entry(akey) / ASSEMBLY_FILE, stage.path(ASSEMBLY_FILE)
+            )
+        if not options.use_cache:
+            shutil.rmtree(cache_root, ignore_errors=True)
+        for writer in sheets.SHEET_WRITERS:  # read now: others may extend it
+            for written in writer(design, parts, findings, stage.dir):
+                resolved = Path(written).resolve()
+                if (
+                    not resolved.is_relative_to(stage.dir.resolve())
+                    or not resolved.is_file()
+                ):
+                    raise UnsafeNameError(
+                        f"sheet writer {getattr(writer, '__name__', writer)!r} returned"
+                        f" {written}, which is not a file inside the output folder"
+                    )
+        files = sorted(p for p in stage.dir.rglob("*") if p.is_file())
+        manifest = make_manifest(
+            design, parts, findings, stage.dir, files, checked, key_options
+        )
+        write_manifest(manifest, stage.path(MANIFEST_NAME))
+        stage.commit()
+    rel_files = [r["path"] for r in manifest["files"]] + [MANIFEST_NAME]
+    return BuildResult(
+        out_dir=target,
+        files=rel_files,
+        checked=checked,
+        built=built,
+        reused=len(parts) - built,
+        cache_root=cache_root if options.use_cache else None,
+        findings=findings,
+        manifest=manifest,
+    )

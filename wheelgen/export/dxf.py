@@ -1,0 +1,98 @@
+"""DXF of a flat part for cutting: outline, bore, other holes and centre mark on layers.
+
+Written from the same exact profile as the solid (no kernel needed): lines as LINE,
+arcs as ARC, each flank as one SPLINE through the generator's exact points, circles
+as CIRCLE. Drawing units are millimetres ($INSUNITS = 4).
+
+ezdxf normally stamps dates and GUIDs; its fixed-metadata switch makes them constant.
+The CLASSES section came out in hash-seed order (ezdxf collects entity types in a
+set); we sort it before saving, so no interpreter setting (PYTHONHASHSEED) is needed.
+"""
+
+from __future__ import annotations
+
+import math
+from collections import OrderedDict
+from pathlib import Path
+
+import ezdxf
+import numpy as np
+
+from ..layout.wheel_profile import Hole, PlateProfile
+from ..teeth.outline import Segment
+
+__all__ = ["LAYERS", "write_dxf"]
+
+#: Layer names and ACI colours: toothed outline, seat bore, other holes, centre mark.
+LAYERS: dict[str, int] = {"OUTLINE": 7, "BORE": 1, "HOLES": 5, "CENTRE": 3}
+
+
+def _arc_params(p: np.ndarray) -> tuple[tuple[float, float], float, float, float]:
+    """Centre, radius and CCW start/end angles (degrees) of the arc through 3 points."""
+    a, b, c = p
+    d = 2 * (a[0] * (b[1] - c[1]) + b[0] * (c[1] - a[1]) + c[0] * (a[1] - b[1]))
+    ux = (
+        (a @ a) * (b[1] - c[1]) + (b @ b) * (c[1] - a[1]) + (c @ c) * (a[1] - b[1])
+    ) / d
+    uy = (
+        (a @ a) * (c[0] - b[0]) + (b @ b) * (a[0] - c[0]) + (c @ c) * (b[0] - a[0])
+    ) / d
+    r = math.hypot(a[0] - ux, a[1] - uy)
+    ang = [math.degrees(math.atan2(q[1] - uy, q[0] - ux)) for q in (a, b, c)]
+    ccw = d > 0  # the sign of the triangle's area: start, mid, end turn left
+    start, end = (ang[0], ang[2]) if ccw else (ang[2], ang[0])
+    return (float(ux), float(uy)), float(r), start % 360.0, end % 360.0
+
+
+def _add_segment(msp, seg: Segment, layer: str) -> None:  # type: ignore[no-untyped-def]
+    attrs = {"layer": layer}
+    pts = seg.points
+    if seg.kind == "line" or (seg.kind == "spline" and len(pts) == 2):
+        msp.add_line(tuple(pts[0]), tuple(pts[-1]), dxfattribs=attrs)
+    elif seg.kind == "arc":
+        centre, r, a0, a1 = _arc_params(pts)
+        msp.add_arc(centre, r, a0, a1, dxfattribs=attrs)
+    else:
+        msp.add_spline(
+            fit_points=[(float(x), float(y), 0.0) for x, y in pts], dxfattribs=attrs
+        )
+
+
+def _add_hole(msp, hole: Hole) -> None:  # type: ignore[no-untyped-def]  # ezdxf layout
+    layer = "BORE" if hole.role == "bore" else "HOLES"
+    if hole.circle is not None:
+        x, y, r = hole.circle
+        msp.add_circle((x, y), r, dxfattribs={"layer": layer})
+        return
+    for seg in hole.segments:
+        _add_segment(msp, seg, layer)
+
+
+def write_dxf(profile: PlateProfile, path: Path, name: str) -> Path:
+    """Write the profile as a DXF (R2010, mm); the same profile gives the same bytes."""
+    previous = ezdxf.options.write_fixed_meta_data_for_testing
+    ezdxf.options.write_fixed_meta_data_for_testing = True  # no dates, fixed GUIDs
+    try:
+        doc = ezdxf.new("R2010", setup=False)
+        doc.units = 4  # millimetres
+        doc.header["$MEASUREMENT"] = 1
+        for layer, colour in LAYERS.items():
+            doc.layers.add(layer, color=colour)
+        msp = doc.modelspace()
+        for seg in profile.outline.segments():
+            _add_segment(msp, seg, "OUTLINE")
+        for hole in profile.holes:
+            _add_hole(msp, hole)
+        bore = next((h for h in profile.holes if h.role == "bore"), None)
+        size = max(2.0, 0.6 * (2 * bore.circle[2] if bore and bore.circle else 2.0))
+        msp.add_line((-size, 0.0), (size, 0.0), dxfattribs={"layer": "CENTRE"})
+        msp.add_line((0.0, -size), (0.0, size), dxfattribs={"layer": "CENTRE"})
+        doc.header["$PROJECTNAME"] = name
+        # ezdxf adds a CLASS per entity type in use while saving, iterating a set:
+        # the order followed PYTHONHASHSEED. Add them now, sorted; saving adds none.
+        doc.classes.add_required_classes(doc.dxfversion)
+        doc.classes.classes = OrderedDict(sorted(doc.classes.classes.items()))
+        doc.saveas(path)
+    finally:
+        ezdxf.options.write_fixed_meta_data_for_testing = previous
+    return path

@@ -1,0 +1,76 @@
+"""manifest.json: what was built, from which design, and the SHA-256 of every file.
+
+The manifest holds no dates or machine paths, so two builds of the same design give
+the same manifest byte for byte.
+"""
+
+from __future__ import annotations
+
+import hashlib
+import json
+from collections.abc import Iterable, Sequence
+from pathlib import Path
+from typing import Any
+
+from .. import __version__
+from .cache import part_parameters
+
+__all__ = ["MANIFEST_NAME", "file_sha256", "make_manifest", "write_manifest"]
+
+MANIFEST_NAME = "manifest.json"
+
+
+def file_sha256(path: Path) -> str:
+    h = hashlib.sha256()
+    with open(path, "rb") as fh:
+        for block in iter(lambda: fh.read(1 << 20), b""):
+            h.update(block)
+    return h.hexdigest()
+
+
+def make_manifest(
+    design: Any,
+    parts: Sequence[Any],
+    findings: Iterable[Any],
+    root: Path,
+    files: Iterable[Path],
+    checked: bool,
+    options: dict[str, Any],
+) -> dict[str, Any]:
+    """The manifest as a dict; ``files`` are paths inside ``root``."""
+    rows = []
+    for p in sorted(Path(f) for f in files):
+        rel = p.relative_to(root).as_posix()
+        rows.append({"path": rel, "sha256": file_sha256(p), "bytes": p.stat().st_size})
+    rows.sort(key=lambda r: r["path"])
+    found = [f.as_dict() for f in findings]
+    return {
+        "wheelgen": __version__,
+        "design": {
+            "name": getattr(design, "name", ""),
+            "title": getattr(design, "title", ""),
+            "sha256": getattr(design, "sha256", ""),
+        },
+        "checked": checked,
+        "status": "checked"
+        if checked
+        else "UNCHECKED: exported with --force past errors",
+        "options": options,
+        "findings": {
+            "errors": sum(1 for f in found if f["level"] == "error"),
+            "warnings": sum(1 for f in found if f["level"] == "warning"),
+            "notes": sum(1 for f in found if f["level"] == "note"),
+            "items": found,
+        },
+        "parts": [
+            {"name": p.name, "kind": p.kind, "parameters": part_parameters(p)}
+            for p in parts
+        ],
+        "files": rows,
+    }
+
+
+def write_manifest(manifest: dict[str, Any], path: Path) -> Path:
+    text = json.dumps(manifest, indent=2, sort_keys=True, ensure_ascii=False) + "\n"
+    Path(path).write_text(text, encoding="utf-8", newline="\n")
+    return path

@@ -1,0 +1,32 @@
+"""The one registry of sheet writers that run inside ``wheelgen build``.
+
+A sheet writer is ``writer(design, parts, findings, staging_dir) -> list[Path]``: it
+writes its files (cutting sheet, bill of parts, drilling chart, report...) somewhere
+inside ``staging_dir`` and returns their paths; the build hashes them into the
+manifest. Writers must not import the CAD kernel. Another layer adds its writer by
+extending the tuple here, e.g. ``SHEET_WRITERS = (write_cutting_sheet,)``. A build
+forced past error-level findings still calls the writers; they can tell with
+``wheelgen.checks.findings.has_errors(findings)`` and should say "unchecked".
+"""
+
+from __future__ import annotations
+
+from pathlib import Path
+from typing import Any, Callable, Sequence
+
+__all__ = ["SheetWriter", "SHEET_WRITERS"]
+
+SheetWriter = Callable[[Any, Sequence[Any], Sequence[Any], Path], list[Path]]
+
+from ..layout.drilling import drilling_sheet_writer  # noqa: E402  (after the type alias)
+from ..workshop.cutting import cutting_sheet_writer  # noqa: E402
+from ..workshop.parts_bill import parts_sheet_writer  # noqa: E402
+from ..workshop.report import report_writer  # noqa: E402
+
+#: Every sheet writer, run in this order after the part files are in place.
+SHEET_WRITERS: tuple[SheetWriter, ...] = (
+    cutting_sheet_writer,
+    parts_sheet_writer,
+    drilling_sheet_writer,
+    report_writer,
+)

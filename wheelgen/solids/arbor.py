@@ -1,0 +1,31 @@
+"""Plain arbors and separate pins: round bars standing on z = 0 along +Z (mm)."""
+
+from __future__ import annotations
+
+import cadquery as cq
+
+from ..layout.part_plan import ArborPart, PinPart
+
+__all__ = ["make_arbor", "make_pin", "round_bar"]
+
+
+def round_bar(name: str, diameter: float, length: float) -> cq.Solid:
+    """A cylinder ``diameter`` mm across and ``length`` mm long, from z = 0 upward."""
+    if diameter <= 0 or length <= 0:
+        raise ValueError(
+            f"{name}: 'diameter' and 'length' must be > 0 mm,"
+            f" got {diameter} and {length}"
+        )
+    return cq.Solid.makeCylinder(
+        diameter / 2, length, cq.Vector(0, 0, 0), cq.Vector(0, 0, 1)
+    )
+
+
+def make_arbor(part: ArborPart) -> cq.Solid:
+    """A plain arbor: a round shaft of the length the layout gives."""
+    return round_bar(part.name, part.diameter, part.length)
+
+
+def make_pin(part: PinPart) -> cq.Solid:
+    """A separate round pin (pin-and-slot coupling)."""
+    return round_bar(part.name, part.diameter, part.length)

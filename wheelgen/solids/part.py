@@ -1,0 +1,49 @@
+"""One entry point for every kind of part: plan entry in, cadquery solid out."""
+
+from __future__ import annotations
+
+from typing import Any
+
+import cadquery as cq
+
+from ..layout.part_plan import ArborPart, Part, PinPart, SleevePart, WheelPart
+from .arbor import make_arbor
+from .pin import make_pin
+from .sleeve import make_sleeve
+from .wheel import make_wheel
+
+__all__ = ["design_assembly", "design_parts", "make_part", "part_location"]
+
+
+def make_part(part: Part) -> cq.Shape:
+    """The part's solid in its own frame: axis +Z, back face on z = 0, sizes in mm."""
+    if isinstance(part, WheelPart):
+        return make_wheel(part)
+    if isinstance(part, ArborPart):
+        return make_arbor(part)
+    if isinstance(part, SleevePart):
+        return make_sleeve(part)
+    if isinstance(part, PinPart):
+        return make_pin(part)
+    raise TypeError(f"cannot build a part of type {type(part).__name__}")
+
+
+def part_location(part: Part) -> cq.Location:
+    """The part's placement (mm, degrees about +Z) as a cadquery Location."""
+    pl = part.placement
+    return cq.Location(cq.Vector(pl.x, pl.y, pl.z), cq.Vector(0, 0, 1), pl.angle_deg)
+
+
+def design_parts(design: Any) -> dict[str, tuple[cq.Shape, cq.Location]]:
+    """Every part of a loaded design: name -> (solid in its own frame, placement)."""
+    from ..layout import plan_parts
+
+    return {p.name: (make_part(p), part_location(p)) for p in plan_parts(design)}
+
+
+def design_assembly(design: Any) -> cq.Assembly:
+    """The whole design as a cadquery Assembly, each part named and placed."""
+    assy = cq.Assembly(name=design.name)
+    for name, (solid, loc) in design_parts(design).items():
+        assy.add(solid, name=name, loc=loc)
+    return assy

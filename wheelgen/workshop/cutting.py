@@ -1,0 +1,185 @@
+"""The cutting sheet: what the machinist needs to cut and inspect each wheel.
+
+One row per wheel part, in the order of the part plan: teeth, module, form, blank
+(tip) diameter, full depth, form-cutter number (involute only), the dividing-head
+setting, and the inspection values (span ``W_k`` over ``k`` teeth and the dimension
+over two pins). Every gear value comes from :func:`wheelgen.teeth.gear_data`, so the
+sheet and the gear data sheet cannot disagree; the indexing from
+:func:`wheelgen.workshop.indexing.indexing_plan`. Lengths in mm.
+"""
+
+from __future__ import annotations
+
+import csv
+import io
+from dataclasses import dataclass
+from pathlib import Path
+from typing import Any, Sequence
+
+from ..layout.part_plan import WheelPart
+from ..teeth.gear_data import gear_data
+from .indexing import IndexPlan, indexing_plan
+
+__all__ = [
+    "CuttingRow",
+    "CUTTING_COLUMNS",
+    "CUTTING_FILE",
+    "cutting_rows",
+    "indexing_text",
+    "cutting_csv",
+    "cutting_sheet_writer",
+]
+
+#: File name of the cutting sheet inside the build output.
+CUTTING_FILE = "cutting.csv"
+
+
+@dataclass(frozen=True, slots=True)
+class CuttingRow:
+    """One wheel on the cutting sheet; lengths in mm, angles in degrees.
+
+    ``blank_diameter`` is the diameter to turn the blank to and ``full_depth`` the depth
+    from blank to root, both from the gear data sheet. ``cutter_number`` is the
+    involute form-cutter number, diametral-pitch set numbering (None for other forms
+    and below 12 teeth), ``cutter_range`` its tooth range in words;
+    ``span_teeth``/``span_width`` and ``pin_diameter``/``over_pins`` are None where
+    the gear data gives no such measurement (triangular teeth).
+    """
+
+    wheel: str
+    teeth: int
+    module: float
+    form: str
+    angle_deg: float  # pressure angle (involute) or included tooth angle (triangular)
+    shift: float
+    face_width: float
+    blank_diameter: float
+    full_depth: float
+    cutter_number: int | None
+    cutter_range: str | None
+    indexing: IndexPlan
+    span_teeth: int | None
+    span_width: float | None
+    pin_diameter: float | None
+    over_pins: float | None
+    warnings: tuple[str, ...] = ()
+
+
+#: CSV header, in column order; units are in the names.
+CUTTING_COLUMNS: tuple[str, ...] = (
+    "wheel",
+    "teeth",
+    "module_mm",
+    "form",
+    "angle_deg",
+    "shift",
+    "face_width_mm",
+    "blank_diameter_mm",
+    "full_depth_mm",
+    "cutter_number",
+    "indexing",
+    "span_teeth_k",
+    "span_width_mm",
+    "pin_diameter_mm",
+    "over_pins_mm",
+)
+
+
+def cutting_rows(parts: Sequence[Any]) -> tuple[CuttingRow, ...]:
+    """The cutting sheet's rows: one per :class:`WheelPart` in ``parts``, in order.
+
+    Other parts (arbors, sleeves, pins) are skipped.
+    """
+    rows = []
+    for part in parts:
+        if not isinstance(part, WheelPart):
+            continue
+        spec = part.tooth
+        data = gear_data(spec)
+        involute = spec.form == "involute"
+        rows.append(
+            CuttingRow(
+                wheel=part.name,
+                teeth=spec.teeth,
+                module=spec.module,
+                form=spec.form,
+                angle_deg=spec.pressure_angle_deg if involute else spec.tooth_angle_deg,
+                shift=spec.shift if involute else 0.0,
+                face_width=part.face_width,
+                blank_diameter=data.blank_diameter,
+                full_depth=data.depth_of_cut,
+                cutter_number=data.cutter_number if involute else None,
+                cutter_range=data.cutter_range if involute else None,
+                indexing=indexing_plan(spec.teeth),
+                span_teeth=data.span_teeth,
+                span_width=data.span_width,
+                pin_diameter=data.pin_diameter,
+                over_pins=data.over_pins,
+                warnings=tuple(data.warnings),
+            )
+        )
+    return tuple(rows)
+
+
+def indexing_text(plan: IndexPlan) -> str:
+    """The dividing-head setting in a few words, e.g. ``"2 turns + 6/15"``.
+
+    ``h/c`` reads "h hole spaces on the c-hole circle".
+    """
+    if plan.method == "none":
+        return "not indexable: " + plan.suggestion
+    setting = f"{plan.turns} turn{'' if plan.turns == 1 else 's'}" if plan.turns else ""
+    if plan.holes:
+        holes = f"{plan.holes}/{plan.circle}"
+        setting = f"{setting} + {holes}" if setting else holes
+    if plan.method == "simple":
+        return f"simple {setting} ({plan.ratio}:1)"
+    assert plan.gears is not None
+    gears = "-".join(str(g) for g in plan.gears.order)
+    return (
+        f"differential {setting} as for {plan.approx_count} ({plan.ratio}:1), "
+        f"gears {gears}, plate {plan.gears.sense} crank, {plan.gears.idlers} idler(s)"
+    )
+
+
+def _num(value: float | None, digits: int = 4) -> str:
+    return "" if value is None else f"{value:.{digits}f}"
+
+
+def _csv_row(row: CuttingRow) -> list[str]:
+    return [
+        row.wheel,
+        str(row.teeth),
+        f"{row.module:g}",
+        row.form,
+        f"{row.angle_deg:g}",
+        f"{row.shift:g}",
+        f"{row.face_width:g}",
+        _num(row.blank_diameter, 3),
+        _num(row.full_depth, 3),
+        "" if row.cutter_number is None else str(row.cutter_number),
+        indexing_text(row.indexing),
+        "" if row.span_teeth is None else str(row.span_teeth),
+        _num(row.span_width),
+        _num(row.pin_diameter, 3),
+        _num(row.over_pins),
+    ]
+
+
+def cutting_csv(rows: Sequence[CuttingRow]) -> str:
+    """The cutting sheet as CSV text (header first, ``\\n`` line ends)."""
+    buf = io.StringIO()
+    writer = csv.writer(buf, lineterminator="\n")
+    writer.writerow(CUTTING_COLUMNS)
+    for row in rows:
+        writer.writerow(_csv_row(row))
+    return buf.getvalue()
+
+
+def cutting_sheet_writer(
+    design: Any, parts: Sequence[Any], findings: Sequence[Any], staging_dir: Path
+) -> list[Path]:
+    """Sheet writer for ``wheelgen build``: writes ``cutting.csv`` into ``staging_dir``."""
+    path = Path(staging_dir) / CUTTING_FILE
+    path.write_text(cutting_csv(cutting_rows(parts)), encoding="utf-8")
+    return [path]

@@ -1,0 +1,433 @@
+"""The build report: one self-contained HTML page that opens offline.
+
+Everything is inside the file: drawings are inline SVG, plots are SVG data URIs, the
+stylesheet is our own and short; there is no script, no web font and no link out, so
+the page opens from a USB stick in a classroom and prints on plain paper. Sections:
+title and job, layout drawing, train diagram with every arbor's period, findings,
+target verdicts, uneven motion plots, the animated preview, parts (a drawing each and
+the bill), the cutting sheet and the drilling chart. The page is written from the
+numbers (the same functions that write ``cutting.csv`` and ``parts.csv``), never by
+reading those files back.
+"""
+
+from __future__ import annotations
+
+import base64
+import html
+from pathlib import Path
+from typing import Any, Sequence
+
+from .. import __version__
+from ..checks.findings import Finding, has_errors, sort_findings
+from ..design.model import Design
+from ..design.periods import format_period
+from ..kinematics.rates import TrainSolution, solve_rates
+from ..kinematics.targets import TargetResult, arbor_period, arbor_sense, evaluate_targets
+from ..layout.drilling import drilling_svg, plate_holes
+from ..layout.placement import arbor_positions
+from .cutting import CuttingRow, cutting_rows, indexing_text
+from .layout_drawing import layout_svg
+from .motion_plot import motion_plot_svg
+from .part_drawing import part_svg
+from .parts_bill import BillRow, bill_rows
+from .preview import PreviewPlan, preview_plan, preview_svg
+from .train_diagram import train_diagram_svg
+
+__all__ = ["REPORT_FILE", "report_html", "report_writer", "STYLESHEET"]
+
+#: File name of the report inside the build output.
+REPORT_FILE = "report.html"
+
+#: Our own plain stylesheet: readable on screen, black on white when printed.
+STYLESHEET = """
+body { font-family: sans-serif; color: #222; background: #fff; margin: 2em auto;
+       max-width: 62em; padding: 0 1em; line-height: 1.4; }
+h1 { font-size: 1.6em; margin-bottom: 0.2em; }
+h2 { font-size: 1.25em; border-bottom: 2px solid #1f5f8b; padding-bottom: 0.1em;
+     margin-top: 2em; }
+h3 { font-size: 1.05em; margin-bottom: 0.3em; }
+table { border-collapse: collapse; margin: 0.6em 0; font-size: 0.88em; }
+th, td { border: 1px solid #bbb; padding: 0.2em 0.45em; text-align: left;
+         vertical-align: top; }
+th { background: #eef2f6; }
+td.num { text-align: right; font-variant-numeric: tabular-nums; white-space: nowrap; }
+.job td:first-child { font-weight: bold; }
+.banner { padding: 0.5em 0.8em; border: 2px solid; margin: 1em 0; }
+.banner.ok { border-color: #3d7d3a; background: #eef6ed; }
+.banner.bad { border-color: #a3261b; background: #fbecea; font-weight: bold; }
+.error { color: #a3261b; font-weight: bold; }
+.warning { color: #8a5a00; font-weight: bold; }
+.note { color: #1f5f8b; }
+.met { color: #3d7d3a; font-weight: bold; }
+.unmet { color: #a3261b; font-weight: bold; }
+figure { margin: 1em 0; page-break-inside: avoid; break-inside: avoid; }
+figcaption { font-size: 0.88em; color: #444; }
+svg.drawing { width: 100%; height: auto; max-height: 75vh; border: 1px solid #ccc; }
+.parts { display: flex; flex-wrap: wrap; gap: 0.8em; }
+.parts figure { width: 11em; margin: 0; }
+.parts svg { width: 100%; height: 9em; border: 1px solid #ddd; background: #fcfbf7; }
+img.plot { width: 100%; max-width: 40em; }
+.chart svg { width: 100%; height: auto; max-height: 75vh; border: 1px solid #ccc; }
+.wide { overflow-x: auto; }
+svg.train { width: auto; max-width: none; max-height: none; }
+nav ol { columns: 2; font-size: 0.92em; }
+@media print {
+  body { margin: 0; max-width: none; }
+  nav { display: none; }
+  h2 { page-break-after: avoid; break-after: avoid; }
+  svg.drawing { max-height: none; }
+  svg.train { width: 100%; }
+  .chart svg { max-height: none; }
+}
+"""
+
+_SECTIONS = (
+    ("layout", "Layout"),
+    ("train", "Train"),
+    ("findings", "Findings"),
+    ("targets", "Targets"),
+    ("motion", "Uneven motion"),
+    ("preview", "Animated preview"),
+    ("parts", "Parts"),
+    ("cutting", "Cutting sheet"),
+    ("drilling", "Drilling chart"),
+)
+
+
+def _e(text: object) -> str:
+    return html.escape(str(text), quote=True)
+
+
+def _num(value: float | None, digits: int = 3) -> str:
+    return "" if value is None else f"{value:.{digits}f}"
+
+
+def _table(head: Sequence[str], rows: Sequence[Sequence[str]], numeric: set[int]) -> str:
+    """An HTML table; cells are already escaped HTML; ``numeric`` columns align right."""
+    out = ["<table><thead><tr>"]
+    out += [f"<th>{h}</th>" for h in head]
+    out.append("</tr></thead><tbody>")
+    for row in rows:
+        out.append("<tr>")
+        for i, cell in enumerate(row):
+            cls = ' class="num"' if i in numeric else ""
+            out.append(f"<td{cls}>{cell}</td>")
+        out.append("</tr>")
+    out.append("</tbody></table>")
+    return "".join(out)
+
+
+def _job(design: Design, parts: Sequence[Any], findings: Sequence[Finding]) -> str:
+    rows = [
+        ("Design file", Path(design.source).name if design.source else design.name),
+        ("SHA-256 of the file", design.sha256 or "not recorded"),
+        ("Made by", design.process.kind),
+        ("Drive", f"arbor {design.drive.arbor}, one turn in "
+         f"{format_period(design.drive.period_s)}, {design.drive.sense}"),
+        ("Parts", str(len(parts))),
+        ("Written by", f"wheelgen {__version__}"),
+    ]
+    body = "".join(f"<tr><td>{_e(k)}</td><td>{_e(v)}</td></tr>" for k, v in rows)
+    if has_errors(findings):
+        banner = (
+            '<p class="banner bad">UNCHECKED: this build was forced past error-level '
+            "findings (see Findings). Do not cut metal from it before they are "
+            "resolved.</p>"
+        )
+    else:
+        banner = '<p class="banner ok">Checked: no error-level findings.</p>'
+    return f'<table class="job">{body}</table>{banner}'
+
+
+def _arbor_table(design: Design, solution: TrainSolution) -> str:
+    rows = []
+    for a in design.arbors:
+        rate = solution.rate(a.name)
+        period = arbor_period(design, rate)
+        where = (
+            f"around {a.around}" if a.around else
+            f"carried on {a.carrier}" if a.carrier else "on the plates"
+        )
+        rows.append(
+            [
+                _e(a.name),
+                _e(where + (", fixed" if a.fixed else "")),
+                _e("" if rate is None else rate),
+                _e("" if period is None else format_period(period)),
+                _e(arbor_sense(design, rate)),
+            ]
+        )
+    head = ["arbor", "mounting", "turns per drive turn (exact)", "one turn in", "sense"]
+    return _table(head, rows, {2})
+
+
+def _findings(findings: Sequence[Finding]) -> str:
+    rows = [
+        [
+            f'<span class="{_e(f.level)}">{_e(f.level)}</span>',
+            _e(f.check),
+            _e(f.subject),
+            _e(f.message),
+            _e(f.measured),
+            _e(f.limit),
+            _e(f.advice),
+        ]
+        for f in sort_findings(findings)
+    ]
+    if not rows:
+        return "<p>No findings: every check passed.</p>"
+    counts = {lvl: sum(1 for f in findings if f.level == lvl) for lvl in ("error", "warning", "note")}
+    summary = (
+        f"<p>{counts['error']} error(s), {counts['warning']} warning(s), "
+        f"{counts['note']} note(s).</p>"
+    )
+    head = ["level", "check", "subject", "finding", "measured", "limit", "change"]
+    return summary + _table(head, rows, set())
+
+
+def _targets(targets: Sequence[TargetResult]) -> str:
+    if not targets:
+        return "<p>The design sets no targets.</p>"
+    rows = []
+    for r in targets:
+        t = r.target
+        if t.tolerance_s is not None:
+            tol = format_period(t.tolerance_s)
+        else:
+            tol = f"{t.tolerance_ppm if t.tolerance_ppm is not None else 1.0:g} ppm"
+        verdict = '<span class="met">met</span>' if r.met else '<span class="unmet">NOT met</span>'
+        rows.append(
+            [
+                _e(t.arbor),
+                _e("" if r.wanted_s is None else format_period(r.wanted_s, 9)),
+                _e("" if r.got_s is None else format_period(r.got_s, 9)),
+                _e("" if r.error_ppm is None else f"{r.error_ppm:+.3f}"),
+                _e(tol),
+                _e("" if r.drift_deg_per_year is None else f"{r.drift_deg_per_year:+.3f}"),
+                _e(f"{t.sense}, {'ok' if r.sense_ok else 'wrong'}"),
+                verdict,
+            ]
+        )
+    head = [
+        "arbor", "wanted period", "period of the train", "error (ppm)", "tolerance",
+        "drift (deg per year)", "sense wanted", "verdict",
+    ]
+    return _table(head, rows, {3, 5})
+
+
+def _motion(design: Design, plan: PreviewPlan | None) -> str:
+    if plan is None or not plan.uneven:
+        return "<p>Every arbor turns evenly: there is no pin-and-slot coupling in the train.</p>"
+    out = []
+    for name in plan.uneven:
+        period = 360.0 / abs(plan.mean_rates_deg_s[name])
+        svg = motion_plot_svg(design, name, period)
+        data = base64.b64encode(svg.encode("utf-8")).decode("ascii")
+        out.append(
+            f'<figure><img class="plot" alt="uneven motion of arbor {_e(name)}" '
+            f'src="data:image/svg+xml;base64,{data}"><figcaption>Arbor {_e(name)} over '
+            f"one turn ({_e(format_period(period))}): how far it runs ahead of even "
+            "turning at its mean rate, and its speed relative to the mean.</figcaption>"
+            "</figure>"
+        )
+    return "".join(out)
+
+
+def _preview(design: Design, positions: dict[str, tuple[float, float]], plan: PreviewPlan | None) -> str:
+    if plan is None:
+        return "<p>No arbor turns: there is nothing to animate.</p>"
+    svg = preview_svg(design, positions, plan)
+    lapse = format_period(plan.factor, 4)
+    cycle = format_period(plan.cycle_s, 6)
+    what = (
+        f"one turn of arbor {_e(plan.reference)}"
+        if not plan.shortened
+        else f"part of a turn of arbor {_e(plan.reference)} (a whole turn would spin "
+        "the fastest arbor too often to see)"
+    )
+    uneven = ""
+    if plan.uneven:
+        uneven = (
+            " Faint dashed pointers turn evenly at the mean rate of "
+            + ", ".join(_e(n) for n in plan.uneven)
+            + ": the gap between them and the solid pointer is the coupling's uneven motion."
+        )
+    return (
+        f"<figure>{svg}<figcaption><b>Time-lapse: 1 second of the animation shows "
+        f"{_e(lapse)} of the train</b> (factor {plan.factor:,.0f}). The loop lasts "
+        f"{plan.duration_s:.0f} s and shows {cycle}: {what}. Every pointer turns at its "
+        f"arbor's true relative rate; carried arbors ride round on their carrier."
+        f"{uneven}</figcaption></figure>"
+    )
+
+
+def _parts(parts: Sequence[Any], bill: Sequence[BillRow]) -> str:
+    figs = []
+    for part, row in zip(parts, bill):
+        size = (
+            f"\u00d8{row.diameter:.2f} x {row.length:g} mm"
+            if row.kind != "wheel"
+            else f"\u00d8{row.diameter:.2f} mm, {row.length:g} mm thick"
+        )
+        figs.append(
+            f"<figure>{part_svg(part)}<figcaption><b>{_e(row.part)}</b> ({_e(row.kind)})"
+            f"<br>{_e(size)}</figcaption></figure>"
+        )
+    rows = [
+        [
+            _e(r.part), _e(r.kind), _e(r.quantity), _e(r.stock_text),
+            _e(f"{r.diameter:.2f}"), _e(f"{r.length:.2f}"),
+            _e(f"{r.volume / 1000:.3f}"), _e(r.note),
+        ]
+        for r in bill
+    ]
+    total = sum(r.volume for r in bill) / 1000
+    head = [
+        "part", "kind", "qty", "stock", "overall diameter (mm)", "length (mm)",
+        "volume (cm\u00b3)", "note",
+    ]
+    return (
+        f'<div class="parts">{"".join(figs)}</div>'
+        "<h3>Bill of parts</h3>"
+        + _table(head, rows, {2, 4, 5, 6})
+        + f"<p>Total volume {total:.2f} cm\u00b3 (solid; for printed parts the plastic "
+        "at 100 % infill, an estimate from the flat profiles).</p>"
+    )
+
+
+def _cutting(rows: Sequence[CuttingRow]) -> str:
+    if not rows:
+        return "<p>No wheels to cut.</p>"
+    out = []
+    for r in rows:
+        cutter = ""
+        if r.cutter_number is not None:
+            cutter = f"No. {r.cutter_number} ({r.cutter_range})"
+        span = "" if r.span_width is None else f"{r.span_width:.4f} over {r.span_teeth}"
+        pins = (
+            ""
+            if r.over_pins is None
+            else f"{r.over_pins:.4f} over \u00d8{r.pin_diameter:.3f} pins"
+        )
+        out.append(
+            [
+                _e(r.wheel), _e(r.teeth), _e(f"{r.module:g}"), _e(r.form),
+                _e(f"{r.angle_deg:g}"), _e(f"{r.shift:g}"), _e(f"{r.face_width:g}"),
+                _e(_num(r.blank_diameter)), _e(_num(r.full_depth)), _e(cutter),
+                _e(indexing_text(r.indexing)), _e(span), _e(pins),
+            ]
+        )
+    head = [
+        "wheel", "teeth", "module", "form", "angle (deg)", "shift x", "face (mm)",
+        "blank \u00d8 (mm)", "full depth (mm)", "form cutter", "indexing",
+        "span W<sub>k</sub> (mm) over k teeth", "over pins (mm)",
+    ]
+    notes = [
+        f"<li>{_e(r.wheel)}: {_e(w)}</li>" for r in rows for w in r.warnings
+    ]
+    extra = f"<ul>{''.join(notes)}</ul>" if notes else ""
+    return (
+        _table(head, out, {1, 2, 5, 6, 7, 8, 11, 12})
+        + "<p>Indexing: <i>t turns + h/c</i> is t whole crank turns plus h hole spaces "
+        "on the c-hole circle. Form cutters use the diametral-pitch set numbering "
+        "(No. 1 for the most teeth); the tooth range is given because some module "
+        "sets number the other way round.</p>"
+        + extra
+    )
+
+
+def _drilling(design: Design, unchecked: bool) -> str:
+    if design.frame is None:
+        return "<p>The design has no frame plates: nothing to drill.</p>"
+    out = [
+        "<p>Datum: the axis of the drive arbor; X to the right, Y up, seen from the "
+        "front. The same figures drill the back plate from its inner face. The 1:1 "
+        "charts are in the <code>drilling</code> folder of the build.</p>"
+    ]
+    for plate in ("back", "front"):
+        holes = plate_holes(design, plate)
+        rows = [
+            [
+                _e(h.number), _e(h.member), _e(f"{h.x:.4f}"), _e(f"{h.y:.4f}"),
+                _e(f"{h.nominal:.3f}"), _e(h.fit),
+                _e(f"{h.low:.4f} to {h.high:.4f}"), _e(h.role),
+            ]
+            for h in holes
+        ]
+        head = [
+            "hole", "holds", "X (mm)", "Y (mm)", "nominal Ø (mm)", "fit",
+            "limits Ø (mm)", "role",
+        ]
+        svg = drilling_svg(design, plate, unchecked)
+        svg = svg[svg.index("<svg"):]  # inline: no XML declaration inside HTML
+        out.append(
+            f"<h3>{_e(plate.capitalize())} plate</h3>"
+            + (_table(head, rows, {0, 2, 3, 4}) if rows else "<p>No holes.</p>")
+            + f'<figure class="chart">{svg}</figure>'
+        )
+    return "".join(out)
+
+
+def report_html(
+    design: Design,
+    parts: Sequence[Any],
+    findings: Sequence[Finding],
+    solution: TrainSolution | None = None,
+    targets: Sequence[TargetResult] | None = None,
+) -> str:
+    """The whole report page as text."""
+    solution = solve_rates(design) if solution is None else solution
+    targets = evaluate_targets(design, solution) if targets is None else targets
+    positions = arbor_positions(design)
+    try:
+        plan: PreviewPlan | None = preview_plan(design, solution)
+    except ValueError:
+        plan = None
+    cutting = cutting_rows(parts)
+    bill = bill_rows(design, parts)
+    nav = "".join(f'<li><a href="#{k}">{_e(v)}</a></li>' for k, v in _SECTIONS)
+    body = {
+        "layout": (
+            f"<figure>{layout_svg(design, positions)}<figcaption>Seen from the front, "
+            "in millimetres: pitch circles in their arbor's colour (dashed: fixed), "
+            "meshes as dashed lines between centres with a dot at the pitch point, "
+            "pin-and-slot couplings in red.</figcaption></figure>"
+        ),
+        "train": (
+            f'<figure><div class="wide">{train_diagram_svg(design, solution)}</div>'
+            "<figcaption>Which wheel "
+            "drives which: solid arrows are meshes (driver teeth \u2192 driven teeth), "
+            "dashed arrows pin-and-slot couplings, dotted arrows a carrier carrying an "
+            "arbor.</figcaption></figure>" + _arbor_table(design, solution)
+        ),
+        "findings": _findings(findings),
+        "targets": _targets(targets),
+        "motion": _motion(design, plan),
+        "preview": _preview(design, positions, plan),
+        "parts": _parts(parts, bill),
+        "cutting": _cutting(cutting),
+        "drilling": _drilling(design, has_errors(findings)),
+    }
+    sections = "".join(
+        f'<section id="{k}"><h2>{i}. {_e(v)}</h2>{body[k]}</section>'
+        for i, (k, v) in enumerate(_SECTIONS, start=1)
+    )
+    return (
+        "<!DOCTYPE html>\n"
+        '<html lang="en"><head><meta charset="utf-8">'
+        '<meta name="viewport" content="width=device-width, initial-scale=1">'
+        f"<title>{_e(design.title)}: build report</title>"
+        f"<style>{STYLESHEET}</style></head><body>"
+        f"<header><h1>{_e(design.title)}</h1>{_job(design, parts, findings)}</header>"
+        f"<nav><ol>{nav}</ol></nav>{sections}"
+        "</body></html>\n"
+    )
+
+
+def report_writer(
+    design: Any, parts: Sequence[Any], findings: Sequence[Any], staging_dir: Path
+) -> list[Path]:
+    """Sheet writer for ``wheelgen build``: writes ``report.html`` into ``staging_dir``."""
+    path = Path(staging_dir) / REPORT_FILE
+    path.write_text(report_html(design, parts, findings), encoding="utf-8")
+    return [path]
