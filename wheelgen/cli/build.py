@@ -99,8 +99,12 @@ def build_command(
     DESIGN is a train file (TOML); without it the bundled demo is built. Files go
     to output/<design name>/ (or -o DIR): step/<part>.step and step/assembly.step,
     stl/ and 3mf/ meshes lying on z = 0, dxf/ and svg/ 1:1 drawings of every wheel,
-    and manifest.json with the SHA-256 of each file. Everything is written to a
-    staging folder first and moved into place only when all of it succeeded.
+    the workshop sheets (cutting.csv: cutter, indexing and inspection sizes of every
+    wheel; parts.csv: bill of parts; drilling/<plate>.csv and .svg: hole positions
+    from the drive arbor), report.html (one page with drawings, findings, motion and
+    an animated preview), and manifest.json with the SHA-256 of each file.
+    Everything is written to a staging folder first and moved into place only when
+    all of it succeeded.
 
     Parts whose parameters did not change are copied from the cache in
     .wheelgen-cache/ next to the output folder (output/.wheelgen-cache/ by default);
@@ -132,7 +136,7 @@ def build_command(
         parts = plan_parts(d) if not _blocked(findings, force) else ()
         if parts:
             bar = click.progressbar(
-                length=len(parts), label="parts", file=sys.stderr, show_pos=True
+                length=len(parts), label="building parts", file=sys.stderr, show_pos=True
             )
             bar.__enter__()
         result = build_design(
@@ -190,7 +194,7 @@ def build_command(
             f"{d.title}: {len(result.files)} files in {result.out_dir} ({status}); "
             f"{result.built} part(s) built, {result.reused} reused from the cache"
         )
-        if not result.checked:
+        if result.findings:  # warnings and notes (and, with --force, the errors)
             click.echo(findings_table(result.findings))
     sys.exit(EXIT_OK)
 

@@ -220,6 +220,13 @@ class _Lines:
         return block[0] if block else None
 
 
+def _axis(by_arbor: dict[str, Arbor], name: str) -> str:
+    """The innermost member of the coaxial group of arbor ``name`` (no cycles left)."""
+    while (around := by_arbor[name].around) is not None:
+        name = around
+    return name
+
+
 class _Loader:
     def __init__(self, text: str, filename: str) -> None:
         self.text = text
@@ -827,9 +834,7 @@ class _Loader:
         if bad:
             return
         def axis(name: str) -> str:
-            while by_arbor[name].around is not None:
-                name = by_arbor[name].around  # type: ignore[assignment]  # loop ends: no cycle
-            return name
+            return _axis(by_arbor, name)
 
         for m in meshes:
             a, b = (by_wheel[n].arbor for n in m.pair)
@@ -856,10 +861,7 @@ class _Loader:
     ) -> None:
         """Every arbor must be placeable: by 'at', by 'around', or by a bearing from a placed one."""
         def axis(name: str) -> str:
-            a = by_arbor[name]
-            while a.around is not None:
-                a = by_arbor[a.around]
-            return a.name
+            return _axis(by_arbor, name)
 
         placed = {axis(a.name) for a in by_arbor.values() if a.at is not None}
         links: list[tuple[str, str]] = []

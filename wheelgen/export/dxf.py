@@ -19,7 +19,7 @@ import ezdxf
 import numpy as np
 
 from ..layout.wheel_profile import Hole, PlateProfile
-from ..teeth.outline import Segment
+from ..teeth.outline import Segment, circle_through
 
 __all__ = ["LAYERS", "write_dxf"]
 
@@ -30,14 +30,12 @@ LAYERS: dict[str, int] = {"OUTLINE": 7, "BORE": 1, "HOLES": 5, "CENTRE": 3}
 def _arc_params(p: np.ndarray) -> tuple[tuple[float, float], float, float, float]:
     """Centre, radius and CCW start/end angles (degrees) of the arc through 3 points."""
     a, b, c = p
-    d = 2 * (a[0] * (b[1] - c[1]) + b[0] * (c[1] - a[1]) + c[0] * (a[1] - b[1]))
-    ux = (
-        (a @ a) * (b[1] - c[1]) + (b @ b) * (c[1] - a[1]) + (c @ c) * (a[1] - b[1])
-    ) / d
-    uy = (
-        (a @ a) * (c[0] - b[0]) + (b @ b) * (a[0] - c[0]) + (c @ c) * (b[0] - a[0])
-    ) / d
-    r = math.hypot(a[0] - ux, a[1] - uy)
+    centre, radius = circle_through(a, b, c)
+    if radius is None:
+        raise ValueError("an arc's three points lie on one line")
+    ux, uy, r = float(centre[0]), float(centre[1]), radius
+    # the sign of the triangle's area: start, mid, end turn left
+    d = (b[0] - a[0]) * (c[1] - a[1]) - (b[1] - a[1]) * (c[0] - a[0])
     ang = [math.degrees(math.atan2(q[1] - uy, q[0] - ux)) for q in (a, b, c)]
     ccw = d > 0  # the sign of the triangle's area: start, mid, end turn left
     start, end = (ang[0], ang[2]) if ccw else (ang[2], ang[0])

@@ -13,7 +13,7 @@ from typing import Iterator, Literal
 
 import numpy as np
 
-__all__ = ["Segment", "WheelOutline", "SegmentKind"]
+__all__ = ["Segment", "WheelOutline", "SegmentKind", "circle_through"]
 
 SegmentKind = Literal["line", "arc", "spline"]
 
@@ -76,7 +76,7 @@ class Segment:
 
 
 def _arc_polyline(p: np.ndarray, chord_tol: float) -> np.ndarray:
-    centre, radius = _circle_through(p[0], p[1], p[2])
+    centre, radius = circle_through(p[0], p[1], p[2])
     if radius is None:
         return p[[0, 2]].copy()
     a0, a1, a2 = (math.atan2(q[1] - centre[1], q[0] - centre[0]) for q in p)
@@ -93,7 +93,10 @@ def _arc_polyline(p: np.ndarray, chord_tol: float) -> np.ndarray:
     return pts
 
 
-def _circle_through(a: np.ndarray, b: np.ndarray, c: np.ndarray) -> tuple[np.ndarray, float | None]:
+def circle_through(
+    a: np.ndarray, b: np.ndarray, c: np.ndarray
+) -> tuple[np.ndarray, float | None]:
+    """Centre (mm) and radius of the circle through three points; radius None if collinear."""
     d = 2 * (a[0] * (b[1] - c[1]) + b[0] * (c[1] - a[1]) + c[0] * (a[1] - b[1]))
     if abs(d) < 1e-15:
         return a, None
