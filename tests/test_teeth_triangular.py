@@ -11,7 +11,7 @@ import numpy as np
 import pytest
 
 from wheelgen.teeth import ToothSpec, gear_data, min_root_radius_for_cutter, outline_for
-from wheelgen.teeth.outline import _circle_through
+from wheelgen.teeth.outline import circle_through
 
 
 def _lines(outline):
@@ -22,7 +22,7 @@ def _arcs(outline):
     out = []
     for s in outline.tooth:
         if s.kind == "arc":
-            centre, radius = _circle_through(*s.points)
+            centre, radius = circle_through(*s.points)
             out.append((centre, radius, s))
     return out
 
