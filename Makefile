@@ -6,7 +6,7 @@ VENV := .venv
 PY := $(VENV)/bin/python
 DEMO := designs/harbour_tide_clock.toml
 
-.PHONY: demo test bench clean
+.PHONY: demo test bench lint clean
 
 $(VENV)/.installed: pyproject.toml
 	test -x $(PY) || $(PYTHON) -m venv $(VENV)
@@ -20,6 +20,11 @@ demo: $(VENV)/.installed
 
 test: $(VENV)/.installed
 	$(PY) -m pytest -q
+
+lint: $(VENV)/.installed
+	$(PY) -m pip install --quiet -e '.[dev]'
+	$(VENV)/bin/ruff format --check wheelgen tests benchmarks
+	$(VENV)/bin/ruff check wheelgen tests benchmarks
 
 bench: $(VENV)/.installed
 	for f in benchmarks/bench_*.py; do echo "== $$f"; $(PY) $$f || exit 1; done

@@ -504,12 +504,20 @@ def test_triangular_root_rounding_follows_the_form_and_the_cutter():
     # derived: the format's defaults (0.38 m involute, 0.1 m triangular); when milling,
     # the end mill leaves its own radius in the root, so the rounding is at least
     # cutter / 2 (issue rule, no source needed: it is the cutter's geometry).
-    tri = BASE.replace('teeth = 10\n', 'teeth = 10\nform = "triangular"\n', 1)
-    hand = loads_design(tri.replace('title = "Base"', 'title = "Base"\nprocess = "hand"'), "t.toml")
+    tri = BASE.replace("teeth = 10\n", 'teeth = 10\nform = "triangular"\n', 1)
+    hand = loads_design(
+        tri.replace('title = "Base"', 'title = "Base"\nprocess = "hand"'), "t.toml"
+    )
     assert hand.wheel("w2").root_radius == pytest.approx(0.1)
     assert hand.wheel("w1").root_radius == pytest.approx(0.38)
     milled = loads_design(tri + "\n[process]\ncutter = 0.8\n", "t.toml")
     assert milled.wheel("w2").root_radius == pytest.approx(0.4)  # 0.8 / 2 / module 1
-    too_small = tri.replace('form = "triangular"\n', 'form = "triangular"\nroot_radius = 0.2\n')
+    too_small = tri.replace(
+        'form = "triangular"\n', 'form = "triangular"\nroot_radius = 0.2\n'
+    )
     (message,) = problems_of(too_small + "\n[process]\ncutter = 0.8\n")
-    assert 'wheel "w2"' in message and "root_radius" in message and "cutter radius" in message
+    assert (
+        'wheel "w2"' in message
+        and "root_radius" in message
+        and "cutter radius" in message
+    )

@@ -191,7 +191,9 @@ def test_refuses_to_replace_a_folder_that_is_not_a_build(design, tmp_path):
     mine.mkdir()
     (mine / "letter.txt").write_text("keep me")
     with pytest.raises(UnsafeNameError, match="not an earlier wheelgen build"):
-        build_design(design, mine, BuildOptions(), findings=[], parts=[ArborPart("a", 3.0, 5.0)])
+        build_design(
+            design, mine, BuildOptions(), findings=[], parts=[ArborPart("a", 3.0, 5.0)]
+        )
     assert (mine / "letter.txt").read_text() == "keep me"
     assert sorted(p.name for p in tmp_path.iterdir()) == ["documents"]
 

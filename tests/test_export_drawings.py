@@ -157,7 +157,9 @@ def test_svg_outline_pitch_circle_and_labels(svg_root):
 def test_svg_marks_a_pin_standing_on_the_face(tmp_path):
     # derived: a pin at (8, 0) mm of diameter 1.5 mm is drawn where it stands, y up on paper
     part, prof = _profile(z=40, module=1.5)
-    path = write_svg(prof, tmp_path / "p.svg", part.name, 40, 1.5, pins=[(8.0, 3.0, 1.5)])
+    path = write_svg(
+        prof, tmp_path / "p.svg", part.name, 40, 1.5, pins=[(8.0, 3.0, 1.5)]
+    )
     root = ET.fromstring(path.read_text())
     mark = root.find(".//s:g[@id='pins']/s:circle", NS)
     assert float(mark.get("cx")) == pytest.approx(8.0)

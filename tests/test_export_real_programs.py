@@ -25,7 +25,8 @@ DESIGN = Path(__file__).parent / "data" / "two_stage.toml"
 def built(tmp_path_factory):
     out = tmp_path_factory.mktemp("real") / "two_stage"
     result = CliRunner().invoke(
-        main, ["build", str(DESIGN), "-o", str(out), "--formats", "stl,3mf", "--no-cache"]
+        main,
+        ["build", str(DESIGN), "-o", str(out), "--formats", "stl,3mf", "--no-cache"],
     )
     assert result.exit_code == 0, result.output
     return out
@@ -33,13 +34,18 @@ def built(tmp_path_factory):
 
 def _info(path: Path) -> dict[str, str]:
     done = subprocess.run(
-        ["prusa-slicer", "--info", str(path)], capture_output=True, text=True, timeout=300
+        ["prusa-slicer", "--info", str(path)],
+        capture_output=True,
+        text=True,
+        timeout=300,
     )
     assert done.returncode == 0, done.stderr[-2000:]
     return dict(re.findall(r"^(\w+) = (.+)$", done.stdout, flags=re.M))
 
 
-@pytest.mark.skipif(shutil.which("prusa-slicer") is None, reason="prusa-slicer not installed")
+@pytest.mark.skipif(
+    shutil.which("prusa-slicer") is None, reason="prusa-slicer not installed"
+)
 @pytest.mark.parametrize("fmt", ["stl", "3mf"])
 def test_slicer_reads_the_wheel_at_its_true_size(built, fmt):
     info = _info(built / fmt / f"wheel_a.{fmt}")
@@ -54,7 +60,10 @@ def test_slicer_reads_the_wheel_at_its_true_size(built, fmt):
 @pytest.mark.skipif(shutil.which("admesh") is None, reason="admesh not installed")
 def test_admesh_finds_a_closed_mesh(built):
     done = subprocess.run(
-        ["admesh", str(built / "stl" / "wheel_b.stl")], capture_output=True, text=True, timeout=120
+        ["admesh", str(built / "stl" / "wheel_b.stl")],
+        capture_output=True,
+        text=True,
+        timeout=120,
     )
     assert done.returncode == 0, done.stderr
     text = done.stdout

@@ -10,7 +10,6 @@ Truth used here:
 from __future__ import annotations
 
 import math
-import re
 import xml.etree.ElementTree as ET
 from pathlib import Path
 
@@ -25,7 +24,11 @@ from wheelgen.workshop.layout_drawing import axis_centres, layout_svg
 from wheelgen.workshop.motion_plot import deviation_curve, motion_plot_svg
 from wheelgen.workshop.part_drawing import part_svg
 from wheelgen.workshop.preview import preview_plan, preview_svg, uneven_arbors
-from wheelgen.workshop.train_diagram import train_columns, train_diagram_svg, train_links
+from wheelgen.workshop.train_diagram import (
+    train_columns,
+    train_diagram_svg,
+    train_links,
+)
 
 ROOT = Path(__file__).resolve().parent.parent
 DEMO = ROOT / "designs" / "harbour_tide_clock.toml"
@@ -74,7 +77,7 @@ def test_train_diagram_directions(demo) -> None:
     design, solution, _ = demo
     cols = train_columns(design)
     assert cols["main"] == 0 and cols["lay"] == 1 and cols["hours"] == 2
-    links = {(l.source, l.target, l.kind) for l in train_links(design)}
+    links = {(k.source, k.target, k.kind) for k in train_links(design)}
     assert ("main", "lay", "mesh") in links
     assert ("hours", "planet", "carrier") in links
     assert ("stud", "planet", "mesh") in links  # the fixed sun is the reaction member
@@ -158,4 +161,3 @@ def test_part_drawings_are_svg(demo) -> None:
         assert root.find(f"{SVG}title").text == part.name
         kinds.add(part.kind)
     assert kinds == {"wheel", "arbor", "sleeve"}
-

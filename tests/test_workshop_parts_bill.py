@@ -85,7 +85,9 @@ def test_wheel_area_lies_between_root_and_tip_circles() -> None:
     part = _wheel()
     data = gear_data(part.tooth)
     area = wheel_profile_area(part)
-    assert math.pi / 4 * data.root_diameter**2 < area < math.pi / 4 * data.tip_diameter**2
+    assert (
+        math.pi / 4 * data.root_diameter**2 < area < math.pi / 4 * data.tip_diameter**2
+    )
     # derived: teeth and spaces share the band between root and tip about equally, so
     # the area is near the circle of the mean of root and tip radii
     mean_r = (data.root_diameter + data.tip_diameter) / 4
@@ -128,4 +130,6 @@ def test_demo_bill_and_csv(tmp_path: Path) -> None:
             assert float(t["stock_inside_mm"]) == pytest.approx(part.inside, abs=5e-4)
         else:
             assert t["stock"] == "rod"
-            assert float(t["stock_outside_mm"]) == pytest.approx(part.diameter, abs=5e-4)
+            assert float(t["stock_outside_mm"]) == pytest.approx(
+                part.diameter, abs=5e-4
+            )

@@ -7,4 +7,11 @@ from .findings import Finding as Finding
 from .findings import findings_table as findings_table
 from .findings import has_errors as has_errors
 
-__all__ = ["Analysis", "analyse", "run_checks", "Finding", "findings_table", "has_errors"]
+__all__ = [
+    "Analysis",
+    "analyse",
+    "run_checks",
+    "Finding",
+    "findings_table",
+    "has_errors",
+]

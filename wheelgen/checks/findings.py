@@ -5,7 +5,14 @@ from __future__ import annotations
 from dataclasses import dataclass
 from typing import Any, Iterable, Literal
 
-__all__ = ["Finding", "Level", "LEVELS", "has_errors", "sort_findings", "findings_table"]
+__all__ = [
+    "Finding",
+    "Level",
+    "LEVELS",
+    "has_errors",
+    "sort_findings",
+    "findings_table",
+]
 
 Level = Literal["error", "warning", "note"]
 #: Levels from worst to mildest; an ``error`` stops export.
@@ -31,7 +38,9 @@ class Finding:
 
     def __post_init__(self) -> None:
         if self.level not in LEVELS:
-            raise ValueError(f"'level' must be one of {', '.join(LEVELS)}, got {self.level!r}")
+            raise ValueError(
+                f"'level' must be one of {', '.join(LEVELS)}, got {self.level!r}"
+            )
 
     def as_dict(self) -> dict[str, Any]:
         return {

@@ -11,7 +11,9 @@ from .findings import Finding
 __all__ = ["train_findings"]
 
 
-def train_findings(design: Design, solution: TrainSolution, targets: list[TargetResult]) -> list[Finding]:
+def train_findings(
+    design: Design, solution: TrainSolution, targets: list[TargetResult]
+) -> list[Finding]:
     out: list[Finding] = []
     for c in solution.conflicts:
         out.append(
@@ -53,7 +55,12 @@ def train_findings(design: Design, solution: TrainSolution, targets: list[Target
         if r.got_s is None:
             if r.arbor not in driven_by_nothing:
                 out.append(
-                    Finding("error", "target.missed", subject, f'arbor "{r.arbor}" does not turn, so it cannot have a period of {format_period(r.wanted_s or 0)}')
+                    Finding(
+                        "error",
+                        "target.missed",
+                        subject,
+                        f'arbor "{r.arbor}" does not turn, so it cannot have a period of {format_period(r.wanted_s or 0)}',
+                    )
                 )
             continue
         if not r.sense_ok:
@@ -68,7 +75,8 @@ def train_findings(design: Design, solution: TrainSolution, targets: list[Target
             )
         if not r.met and r.sense_ok:
             tol = (
-                f"{format_period(r.target.tolerance_s)}" if r.target.tolerance_s is not None
+                f"{format_period(r.target.tolerance_s)}"
+                if r.target.tolerance_s is not None
                 else f"{r.target.tolerance_ppm:g} ppm"
             )
             out.append(

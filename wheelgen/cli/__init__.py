@@ -15,7 +15,9 @@ from .. import __version__
 __all__ = ["main"]
 
 
-@click.group(context_settings={"help_option_names": ["-h", "--help"], "max_content_width": 100})
+@click.group(
+    context_settings={"help_option_names": ["-h", "--help"], "max_content_width": 100}
+)
 @click.version_option(__version__, prog_name="wheelgen")
 def main() -> None:
     """wheelgen: from a gear-train definition to checked parts and workshop sheets.
@@ -38,12 +40,17 @@ from .check import check_command  # noqa: E402  (commands register after the gro
 
 main.add_command(check_command)
 from .index import index_command  # noqa: E402
+
 main.add_command(index_command)
 from .ratio import ratio_command  # noqa: E402
+
 main.add_command(ratio_command)
 from .motion import motion_command  # noqa: E402
+
 main.add_command(motion_command)
 from .gear import gear_command  # noqa: E402
+
 main.add_command(gear_command)
 from .build import build_command  # noqa: E402
+
 main.add_command(build_command)

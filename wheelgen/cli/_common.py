@@ -11,12 +11,22 @@ import click
 
 from ..design import Design, DesignError, load_design
 
-__all__ = ["DEFAULT_DESIGN", "load_or_exit", "fail", "echo_json", "EXIT_OK", "EXIT_FINDINGS", "EXIT_INPUT"]
+__all__ = [
+    "DEFAULT_DESIGN",
+    "load_or_exit",
+    "fail",
+    "echo_json",
+    "EXIT_OK",
+    "EXIT_FINDINGS",
+    "EXIT_INPUT",
+]
 
 EXIT_OK, EXIT_FINDINGS, EXIT_INPUT = 0, 1, 2
 
 #: The bundled demo, used when a command is given no design.
-DEFAULT_DESIGN = Path(__file__).resolve().parents[2] / "designs" / "harbour_tide_clock.toml"
+DEFAULT_DESIGN = (
+    Path(__file__).resolve().parents[2] / "designs" / "harbour_tide_clock.toml"
+)
 
 
 def fail(message: str, code: int = EXIT_INPUT) -> NoReturn:

@@ -136,7 +136,10 @@ def build_command(
         parts = plan_parts(d) if not _blocked(findings, force) else ()
         if parts:
             bar = click.progressbar(
-                length=len(parts), label="building parts", file=sys.stderr, show_pos=True
+                length=len(parts),
+                label="building parts",
+                file=sys.stderr,
+                show_pos=True,
             )
             bar.__enter__()
         result = build_design(

@@ -16,7 +16,9 @@ __all__ = ["check_command"]
 
 @click.command("check")
 @click.argument("design", type=click.Path(dir_okay=False), required=False)
-@click.option("--json", "as_json", is_flag=True, help="Print one JSON object instead of tables.")
+@click.option(
+    "--json", "as_json", is_flag=True, help="Print one JSON object instead of tables."
+)
 def check_command(design: str | None, as_json: bool) -> None:
     """Check DESIGN: every arbor's exact rate, each target's verdict, and all findings.
 
@@ -34,7 +36,9 @@ def check_command(design: str | None, as_json: bool) -> None:
                 "name": a.name,
                 "turns_per_drive_turn": None if rate is None else str(rate),
                 "period_s": None if period is None else float(period),
-                "period": "still" if rate == 0 else ("-" if period is None else format_period(period)),
+                "period": "still"
+                if rate == 0
+                else ("-" if period is None else format_period(period)),
                 "sense": arbor_sense(d, rate),
             }
         )
@@ -56,7 +60,11 @@ def check_command(design: str | None, as_json: bool) -> None:
             {
                 "design": d.title,
                 "file": d.source,
-                "drive": {"arbor": d.drive.arbor, "period_s": float(d.drive.period_s), "sense": d.drive.sense},
+                "drive": {
+                    "arbor": d.drive.arbor,
+                    "period_s": float(d.drive.period_s),
+                    "sense": d.drive.sense,
+                },
                 "arbors": rows,
                 "targets": targets,
                 "findings": [f.as_dict() for f in result.findings],
@@ -66,10 +74,14 @@ def check_command(design: str | None, as_json: bool) -> None:
         sys.exit(code)
 
     click.echo(f"{d.title}  ({d.source})")
-    click.echo(f"drive: arbor {d.drive.arbor}, one turn in {format_period(d.drive.period_s)}, {d.drive.sense}")
+    click.echo(
+        f"drive: arbor {d.drive.arbor}, one turn in {format_period(d.drive.period_s)}, {d.drive.sense}"
+    )
     click.echo("")
     width = max(len(r["name"]) for r in rows)
-    click.echo(f"{'arbor':{width}}  {'turns per drive turn':>22}  {'period':>16}  sense")
+    click.echo(
+        f"{'arbor':{width}}  {'turns per drive turn':>22}  {'period':>16}  sense"
+    )
     for r in rows:
         rate = r["turns_per_drive_turn"] or "-"
         click.echo(f"{r['name']:{width}}  {rate:>22}  {r['period']:>16}  {r['sense']}")

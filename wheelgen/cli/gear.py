@@ -9,7 +9,6 @@ from typing import Any
 import click
 
 from ..design.loader import ROOT_RADIUS_BY_FORM
-
 from ..teeth.drawing import outline_svg
 from ..teeth.gear_data import GearData, gear_data
 from ..teeth.mesh_data import MeshData, mesh_data

@@ -19,7 +19,21 @@ from .periods import format_period as format_period
 from .periods import parse_period as parse_period
 
 __all__ = [
-    "DesignError", "Problem", "load_design", "loads_design", "Arbor", "Design", "Drive",
-    "Frame", "Mesh", "PinSlot", "Process", "Stock", "Target", "Wheel", "Where",
-    "format_period", "parse_period",
+    "DesignError",
+    "Problem",
+    "load_design",
+    "loads_design",
+    "Arbor",
+    "Design",
+    "Drive",
+    "Frame",
+    "Mesh",
+    "PinSlot",
+    "Process",
+    "Stock",
+    "Target",
+    "Wheel",
+    "Where",
+    "format_period",
+    "parse_period",
 ]

@@ -41,8 +41,19 @@ SAFE_NAME = re.compile(r"^[A-Za-z0-9_-]{1,64}$")
 #: Names the build uses for files of its own.
 RESERVED_NAMES = frozenset({"assembly", "manifest", "report", "parts", "cutting"})
 
-TOP_KEYS = ("design", "defaults", "process", "frame", "drive", "arbor", "wheel", "mesh",
-            "pinslot", "target", "stock")
+TOP_KEYS = (
+    "design",
+    "defaults",
+    "process",
+    "frame",
+    "drive",
+    "arbor",
+    "wheel",
+    "mesh",
+    "pinslot",
+    "target",
+    "stock",
+)
 
 # Per-wheel keys that [defaults] may also set: key -> (default, kind, check)
 _Check = Callable[[Any], str | None]
@@ -65,13 +76,17 @@ def _between(lo: float, hi: float, unit: str = "") -> _Check:
 
 def _choice(*options: str) -> _Check:
     def check(v: Any) -> str | None:
-        return None if v in options else "one of " + ", ".join(f"'{o}'" for o in options)
+        return (
+            None if v in options else "one of " + ", ".join(f"'{o}'" for o in options)
+        )
 
     return check
 
 
 def _spokes(v: Any) -> str | None:
-    return None if v == 0 or 3 <= v <= 8 else "0 (solid web) or a whole number from 3 to 8"
+    return (
+        None if v == 0 or 3 <= v <= 8 else "0 (solid web) or a whole number from 3 to 8"
+    )
 
 
 WHEEL_KEYS: dict[str, tuple[Any, str, _Check | None]] = {
@@ -100,7 +115,10 @@ WHEEL_KEYS: dict[str, tuple[Any, str, _Check | None]] = {
 #: inscribed circle at the root line).
 ROOT_RADIUS_BY_FORM = {"involute": 0.38, "triangular": 0.1}
 # Wheel field names that differ from the file's keys.
-_WHEEL_FIELD = {"pressure_angle": "pressure_angle_deg", "tooth_angle": "tooth_angle_deg"}
+_WHEEL_FIELD = {
+    "pressure_angle": "pressure_angle_deg",
+    "tooth_angle": "tooth_angle_deg",
+}
 
 PROCESS_KEYS: dict[str, tuple[str, _Check | None]] = {
     "nozzle": ("number", _positive),
@@ -112,7 +130,10 @@ PROCESS_KEYS: dict[str, tuple[str, _Check | None]] = {
     "min_module_hand": ("number", _positive),
     "min_backlash": ("number", _non_negative),
     "centre_tolerance": ("number", _positive),
-    "min_layers": ("integer", lambda v: None if 1 <= v <= 100 else "a whole number from 1 to 100"),
+    "min_layers": (
+        "integer",
+        lambda v: None if 1 <= v <= 100 else "a whole number from 1 to 100",
+    ),
 }
 
 #: Periods from a microsecond to a million years: beyond them a float cannot hold the
@@ -235,7 +256,11 @@ class _Loader:
         self.lines = _Lines(text)
         # Names of items already reported as broken: references to them are not
         # reported again as "does not exist".
-        self.broken: dict[str, set[str]] = {"arbor": set(), "wheel": set(), "pinslot": set()}
+        self.broken: dict[str, set[str]] = {
+            "arbor": set(),
+            "wheel": set(),
+            "pinslot": set(),
+        }
         self.arbor_tables = 0  # how many [[arbor]] tables the file has, broken or not
 
     # -- reporting -------------------------------------------------------------------
@@ -287,7 +312,9 @@ class _Loader:
         if kind == "integer" and isinstance(v, float) and v.is_integer():
             ok, v = True, int(v)
         if not ok:
-            self.problem(w, f"{key} = {_show(v)} ({_type_name(v)})", _expected(kind, check))
+            self.problem(
+                w, f"{key} = {_show(v)} ({_type_name(v)})", _expected(kind, check)
+            )
             return default
         if kind == "number":
             v = float(v)
@@ -315,7 +342,9 @@ class _Loader:
         for key in data:
             if key in known:
                 continue
-            close = difflib.get_close_matches(key, [k for k in required if k not in data], n=1, cutoff=0.5)
+            close = difflib.get_close_matches(
+                key, [k for k in required if k not in data], n=1, cutoff=0.5
+            )
             close = close or difflib.get_close_matches(key, unused, n=1, cutoff=0.6)
             hint = f"Did you mean '{close[0]}'?" if close else ""
             self.problem(
@@ -325,10 +354,16 @@ class _Loader:
                 hint,
             )
 
-    def table(self, doc: dict[str, Any], name: str, required: bool = False) -> dict[str, Any] | None:
+    def table(
+        self, doc: dict[str, Any], name: str, required: bool = False
+    ) -> dict[str, Any] | None:
         if name not in doc:
             if required:
-                self.problem(Where(self.file, f"[{name}]"), f"the table [{name}] is missing", f"a [{name}] table (required)")
+                self.problem(
+                    Where(self.file, f"[{name}]"),
+                    f"the table [{name}] is missing",
+                    f"a [{name}] table (required)",
+                )
             return None
         v = doc[name]
         if not isinstance(v, dict):
@@ -353,15 +388,25 @@ class _Loader:
             return []
         return v
 
-    def name_of(self, data: dict[str, Any], table: str, index: int) -> tuple[str | None, str]:
+    def name_of(
+        self, data: dict[str, Any], table: str, index: int
+    ) -> tuple[str | None, str]:
         """The item's name (or None) and how to call it in messages."""
         anon = f"the {_ordinal(index + 1)} [[{table}]]"
         raw = data.get("name")
         if raw is None:
-            self.problem(self.where(table, index, anon, "name"), "'name' is missing", "a name made of letters, digits, '-' and '_'")
+            self.problem(
+                self.where(table, index, anon, "name"),
+                "'name' is missing",
+                "a name made of letters, digits, '-' and '_'",
+            )
             return None, anon
         if not isinstance(raw, str):
-            self.problem(self.where(table, index, anon, "name"), f"name = {_show(raw)} ({_type_name(raw)})", "text: letters, digits, '-' and '_'")
+            self.problem(
+                self.where(table, index, anon, "name"),
+                f"name = {_show(raw)} ({_type_name(raw)})",
+                "text: letters, digits, '-' and '_'",
+            )
             return None, anon
         item = f'{table} "{raw}"'
         if not SAFE_NAME.match(raw):
@@ -403,7 +448,11 @@ class _Loader:
                 if isinstance(exc, RecursionError)
                 else "a number too long to read"
             )
-            self.problem(Where(self.file), f"the file is not usable TOML ({found})", "TOML syntax, see docs/format.md")
+            self.problem(
+                Where(self.file),
+                f"the file is not usable TOML ({found})",
+                "TOML syntax, see docs/format.md",
+            )
             raise DesignError(self.problems) from None
 
         self.unknown_keys(doc, TOP_KEYS, ("", 0, ""))
@@ -447,7 +496,14 @@ class _Loader:
         ctx = ("design", 0, "[design]")
         self.unknown_keys(t, ("title", "process"), ctx, required=("title",))
         title = self.value(t, "title", "string", ctx, required=True, default="")
-        process = self.value(t, "process", "string", ctx, default="mill", check=_choice("print", "mill", "hand"))
+        process = self.value(
+            t,
+            "process",
+            "string",
+            ctx,
+            default="mill",
+            check=_choice("print", "mill", "hand"),
+        )
         return title, process
 
     def defaults_table(self, doc: dict[str, Any]) -> dict[str, Any]:
@@ -473,8 +529,14 @@ class _Loader:
             if v is not None:
                 values[key] = v
         fit = values.get("fit")
-        if fit is not None and not re.match(r"^[A-Z]{1,2}\d{1,2}/[a-z]{1,2}\d{1,2}$", fit):
-            self.problem(self.where("process", 0, "[process]", "fit"), f'fit = "{fit}"', 'an ISO 286 fit such as "H7/g6", "H7/h6" or "H8/f7"')
+        if fit is not None and not re.match(
+            r"^[A-Z]{1,2}\d{1,2}/[a-z]{1,2}\d{1,2}$", fit
+        ):
+            self.problem(
+                self.where("process", 0, "[process]", "fit"),
+                f'fit = "{fit}"',
+                'an ISO 286 fit such as "H7/g6", "H7/h6" or "H8/f7"',
+            )
             values.pop("fit")
         return Process(kind=kind, **values)  # type: ignore[arg-type]
 
@@ -486,20 +548,41 @@ class _Loader:
         self.unknown_keys(t, ("plates", "thickness"), ctx)
         plates = self.pair_of_numbers(t, "plates", ctx, default=(0.0, 40.0))
         if plates[1] <= plates[0]:
-            self.problem(self.where("frame", 0, "[frame]", "plates"), f"plates = {list(plates)}", "[back, front] with front > back (mm)")
-        thickness = self.value(t, "thickness", "number", ctx, default=2.0, check=_positive)
+            self.problem(
+                self.where("frame", 0, "[frame]", "plates"),
+                f"plates = {list(plates)}",
+                "[back, front] with front > back (mm)",
+            )
+        thickness = self.value(
+            t, "thickness", "number", ctx, default=2.0, check=_positive
+        )
         return Frame(plates=plates, thickness=thickness)
 
-    def pair_of_numbers(self, t: dict[str, Any], key: str, ctx: tuple[str, int, str], default: Any = None) -> Any:
+    def pair_of_numbers(
+        self,
+        t: dict[str, Any],
+        key: str,
+        ctx: tuple[str, int, str],
+        default: Any = None,
+    ) -> Any:
         if key not in t:
             return default
         v = t[key]
         if (
             not isinstance(v, list)
             or len(v) != 2
-            or not all(isinstance(x, (int, float)) and not isinstance(x, bool) and math.isfinite(x) for x in v)
+            or not all(
+                isinstance(x, (int, float))
+                and not isinstance(x, bool)
+                and math.isfinite(x)
+                for x in v
+            )
         ):
-            self.problem(self.where(ctx[0], ctx[1], ctx[2], key), f"{key} = {_show(v)}", "two numbers in brackets, such as [0.0, 40.0] (mm)")
+            self.problem(
+                self.where(ctx[0], ctx[1], ctx[2], key),
+                f"{key} = {_show(v)}",
+                "two numbers in brackets, such as [0.0, 40.0] (mm)",
+            )
             return default
         return (float(v[0]), float(v[1]))
 
@@ -508,25 +591,46 @@ class _Loader:
         if t is None:
             return None
         ctx = ("drive", 0, "[drive]")
-        self.unknown_keys(t, ("arbor", "period", "sense"), ctx, required=("arbor", "period"))
+        self.unknown_keys(
+            t, ("arbor", "period", "sense"), ctx, required=("arbor", "period")
+        )
         arbor = self.value(t, "arbor", "string", ctx, required=True)
         period = self.period(t, "period", ctx, required=True)
-        sense = self.value(t, "sense", "string", ctx, default="ccw", check=_choice("ccw", "cw"))
+        sense = self.value(
+            t, "sense", "string", ctx, default="ccw", check=_choice("ccw", "cw")
+        )
         if arbor is None or period is None:
             return None
-        return Drive(arbor=arbor, period_s=period, sense=sense, where=self.where("drive", 0, "[drive]", "arbor"))
+        return Drive(
+            arbor=arbor,
+            period_s=period,
+            sense=sense,
+            where=self.where("drive", 0, "[drive]", "arbor"),
+        )
 
-    def period(self, t: dict[str, Any], key: str, ctx: tuple[str, int, str], required: bool = False) -> Fraction | None:
+    def period(
+        self,
+        t: dict[str, Any],
+        key: str,
+        ctx: tuple[str, int, str],
+        required: bool = False,
+    ) -> Fraction | None:
         raw = self.value(t, key, "string", ctx, required=required, check=_period_text)
         if raw is None:
             return None
         try:
             value = parse_period(raw)
         except PeriodError as exc:
-            self.problem(self.where(*ctx, key), f'{key} = "{raw}": {exc}', _PERIOD_ALLOWED)
+            self.problem(
+                self.where(*ctx, key), f'{key} = "{raw}": {exc}', _PERIOD_ALLOWED
+            )
             return None
         if not MIN_PERIOD_S <= value <= MAX_PERIOD_S:
-            self.problem(self.where(*ctx, key), f'{key} = "{raw}" is out of range', _PERIOD_ALLOWED)
+            self.problem(
+                self.where(*ctx, key),
+                f'{key} = "{raw}" is out of range',
+                _PERIOD_ALLOWED,
+            )
             return None
         return value
 
@@ -539,24 +643,44 @@ class _Loader:
             ctx = ("arbor", i, item)
             self.unknown_keys(t, known, ctx, required=("name",))
             at = self.pair_of_numbers(t, "at", ctx)
-            diameter = self.value(t, "diameter", "number", ctx, default=3.0, check=_positive)
+            diameter = self.value(
+                t, "diameter", "number", ctx, default=3.0, check=_positive
+            )
             around = self.value(t, "around", "string", ctx)
             fixed = self.value(t, "fixed", "bool", ctx, default=False)
             carrier = self.value(t, "carrier", "string", ctx)
             w = self.where("arbor", i, item)
             if around is not None and carrier is not None:
-                self.problem(self.where("arbor", i, item, "carrier"), "both 'around' and 'carrier'", "one of them: a sleeve follows the axis of the member it surrounds")
+                self.problem(
+                    self.where("arbor", i, item, "carrier"),
+                    "both 'around' and 'carrier'",
+                    "one of them: a sleeve follows the axis of the member it surrounds",
+                )
             if around is not None and at is not None:
-                self.problem(self.where("arbor", i, item, "at"), "both 'around' and 'at'", "no 'at' on a sleeve: it sits on the axis of the member it surrounds")
+                self.problem(
+                    self.where("arbor", i, item, "at"),
+                    "both 'around' and 'at'",
+                    "no 'at' on a sleeve: it sits on the axis of the member it surrounds",
+                )
             if carrier is not None and at is None:
-                self.problem(self.where("arbor", i, item, "carrier"), "a carried arbor without 'at'", "'at = [x, y]', its position in the carrier wheel's frame (mm)")
+                self.problem(
+                    self.where("arbor", i, item, "carrier"),
+                    "a carried arbor without 'at'",
+                    "'at = [x, y]', its position in the carrier wheel's frame (mm)",
+                )
             if carrier is not None and fixed:
-                self.problem(self.where("arbor", i, item, "fixed"), "a carried arbor that is also fixed", "'fixed' only on arbors held by the frame")
+                self.problem(
+                    self.where("arbor", i, item, "fixed"),
+                    "a carried arbor that is also fixed",
+                    "'fixed' only on arbors held by the frame",
+                )
             if name is not None:
                 out.append(Arbor(name, at, diameter, around, fixed, carrier, w))
         return out
 
-    def wheels(self, doc: dict[str, Any], defaults: dict[str, Any], proc: Process) -> list[Wheel]:
+    def wheels(
+        self, doc: dict[str, Any], defaults: dict[str, Any], proc: Process
+    ) -> list[Wheel]:
         out = []
         known = ("name", "arbor", "teeth", "height") + tuple(WHEEL_KEYS)
         for i, t in enumerate(self.tables(doc, "wheel")):
@@ -565,13 +689,23 @@ class _Loader:
             self.unknown_keys(t, known, ctx, required=("name", "arbor", "teeth"))
             arbor = self.value(t, "arbor", "string", ctx, required=True)
             teeth = self.value(
-                t, "teeth", "integer", ctx, required=True,
-                check=lambda v: None if MIN_TEETH <= v <= MAX_TEETH else f"a whole number from {MIN_TEETH} to {MAX_TEETH}",
+                t,
+                "teeth",
+                "integer",
+                ctx,
+                required=True,
+                check=lambda v: (
+                    None
+                    if MIN_TEETH <= v <= MAX_TEETH
+                    else f"a whole number from {MIN_TEETH} to {MAX_TEETH}"
+                ),
             )
             height = self.value(t, "height", "number", ctx, default=0.0)
             fields: dict[str, Any] = {}
             for key, (_, kind, check) in WHEEL_KEYS.items():
-                fields[_WHEEL_FIELD.get(key, key)] = self.value(t, key, kind, ctx, default=defaults[key], check=check)
+                fields[_WHEEL_FIELD.get(key, key)] = self.value(
+                    t, key, kind, ctx, default=defaults[key], check=check
+                )
             if name is None or arbor is None or teeth is None:
                 if name is not None:
                     self.broken["wheel"].add(name)
@@ -586,7 +720,9 @@ class _Loader:
                 least = proc.cutter / 2 / fields["module"]
                 given = fields["root_radius"]
                 if given is None:
-                    fields["root_radius"] = max(ROOT_RADIUS_BY_FORM["triangular"], least)
+                    fields["root_radius"] = max(
+                        ROOT_RADIUS_BY_FORM["triangular"], least
+                    )
                 elif given < least - 1e-12:
                     self.problem(
                         self.where("wheel", i, item, "root_radius"),
@@ -596,7 +732,16 @@ class _Loader:
                     )
             if fields["root_radius"] is None:
                 fields["root_radius"] = ROOT_RADIUS_BY_FORM.get(fields["form"], 0.38)
-            out.append(Wheel(name=name, arbor=arbor, teeth=teeth, height=height, where=self.where("wheel", i, item), **fields))
+            out.append(
+                Wheel(
+                    name=name,
+                    arbor=arbor,
+                    teeth=teeth,
+                    height=height,
+                    where=self.where("wheel", i, item),
+                    **fields,
+                )
+            )
         return out
 
     def meshes(self, doc: dict[str, Any]) -> list[Mesh]:
@@ -607,42 +752,100 @@ class _Loader:
             self.unknown_keys(t, ("pair", "bearing"), ctx, required=("pair",))
             pair = t.get("pair")
             if pair is None:
-                self.problem(self.where("mesh", i, item, "pair"), "'pair' is missing", 'two wheel names, such as pair = ["w1", "w2"]')
+                self.problem(
+                    self.where("mesh", i, item, "pair"),
+                    "'pair' is missing",
+                    'two wheel names, such as pair = ["w1", "w2"]',
+                )
                 continue
-            if not isinstance(pair, list) or len(pair) != 2 or not all(isinstance(p, str) for p in pair):
-                self.problem(self.where("mesh", i, item, "pair"), f"pair = {_show(pair)}", 'two wheel names, such as pair = ["w1", "w2"]')
+            if (
+                not isinstance(pair, list)
+                or len(pair) != 2
+                or not all(isinstance(p, str) for p in pair)
+            ):
+                self.problem(
+                    self.where("mesh", i, item, "pair"),
+                    f"pair = {_show(pair)}",
+                    'two wheel names, such as pair = ["w1", "w2"]',
+                )
                 continue
             item = f'the {_ordinal(i + 1)} [[mesh]] ("{pair[0]}"-"{pair[1]}")'
             ctx = ("mesh", i, item)
             if pair[0] == pair[1]:
-                self.problem(self.where("mesh", i, item, "pair"), f'wheel "{pair[0]}" meshes with itself', "two different wheels")
+                self.problem(
+                    self.where("mesh", i, item, "pair"),
+                    f'wheel "{pair[0]}" meshes with itself',
+                    "two different wheels",
+                )
                 continue
             bearing = self.value(t, "bearing", "number", ctx)
-            out.append(Mesh((pair[0], pair[1]), bearing, i + 1, self.where("mesh", i, item)))
+            out.append(
+                Mesh((pair[0], pair[1]), bearing, i + 1, self.where("mesh", i, item))
+            )
         return out
 
     def pinslots(self, doc: dict[str, Any]) -> list[PinSlot]:
         out = []
-        known = ("name", "pin", "slot", "radius", "offset", "bearing", "pin_diameter", "pin_part")
+        known = (
+            "name",
+            "pin",
+            "slot",
+            "radius",
+            "offset",
+            "bearing",
+            "pin_diameter",
+            "pin_part",
+        )
         for i, t in enumerate(self.tables(doc, "pinslot")):
             name, item = self.name_of(t, "pinslot", i)
             ctx = ("pinslot", i, item)
-            self.unknown_keys(t, known, ctx, required=("name", "pin", "slot", "radius", "offset"))
+            self.unknown_keys(
+                t, known, ctx, required=("name", "pin", "slot", "radius", "offset")
+            )
             pin = self.value(t, "pin", "string", ctx, required=True)
             slot = self.value(t, "slot", "string", ctx, required=True)
-            radius = self.value(t, "radius", "number", ctx, required=True, check=_positive)
-            offset = self.value(t, "offset", "number", ctx, required=True, check=_non_negative)
+            radius = self.value(
+                t, "radius", "number", ctx, required=True, check=_positive
+            )
+            offset = self.value(
+                t, "offset", "number", ctx, required=True, check=_non_negative
+            )
             bearing = self.value(t, "bearing", "number", ctx, default=0.0)
-            pin_d = self.value(t, "pin_diameter", "number", ctx, default=1.0, check=_positive)
-            part = self.value(t, "pin_part", "string", ctx, default="boss", check=_choice("boss", "separate"))
+            pin_d = self.value(
+                t, "pin_diameter", "number", ctx, default=1.0, check=_positive
+            )
+            part = self.value(
+                t,
+                "pin_part",
+                "string",
+                ctx,
+                default="boss",
+                check=_choice("boss", "separate"),
+            )
             if pin is not None and pin == slot:
-                self.problem(self.where("pinslot", i, item, "slot"), f'wheel "{pin}" is both pin and slot', "two different wheels")
+                self.problem(
+                    self.where("pinslot", i, item, "slot"),
+                    f'wheel "{pin}" is both pin and slot',
+                    "two different wheels",
+                )
                 pin = None
             if None in (name, pin, slot, radius, offset):
                 if name is not None:
                     self.broken["pinslot"].add(name)
                 continue
-            out.append(PinSlot(name, pin, slot, radius, offset, bearing, pin_d, part, self.where("pinslot", i, item)))
+            out.append(
+                PinSlot(
+                    name,
+                    pin,
+                    slot,
+                    radius,
+                    offset,
+                    bearing,
+                    pin_d,
+                    part,
+                    self.where("pinslot", i, item),
+                )
+            )
         return out
 
     def targets(self, doc: dict[str, Any]) -> list[Target]:
@@ -650,7 +853,12 @@ class _Loader:
         for i, t in enumerate(self.tables(doc, "target")):
             item = f"the {_ordinal(i + 1)} [[target]]"
             ctx = ("target", i, item)
-            self.unknown_keys(t, ("arbor", "period", "turns", "tolerance", "sense"), ctx, required=("arbor",))
+            self.unknown_keys(
+                t,
+                ("arbor", "period", "turns", "tolerance", "sense"),
+                ctx,
+                required=("arbor",),
+            )
             arbor = self.value(t, "arbor", "string", ctx, required=True)
             if arbor is not None:
                 item = f'the {_ordinal(i + 1)} [[target]] (arbor "{arbor}")'
@@ -659,15 +867,37 @@ class _Loader:
             turns = self.turns(t, ctx)
             if ("period" in t) == ("turns" in t):
                 self.problem(
-                    self.where("target", i, item, "turns" if "turns" in t else "period"),
-                    "both 'period' and 'turns'" if "period" in t else "neither 'period' nor 'turns'",
+                    self.where(
+                        "target", i, item, "turns" if "turns" in t else "period"
+                    ),
+                    "both 'period' and 'turns'"
+                    if "period" in t
+                    else "neither 'period' nor 'turns'",
                     "exactly one of them",
                 )
             tol_ppm, tol_s = self.tolerance(t, ctx)
-            sense = self.value(t, "sense", "string", ctx, default="either", check=_choice("cw", "ccw", "either"))
+            sense = self.value(
+                t,
+                "sense",
+                "string",
+                ctx,
+                default="either",
+                check=_choice("cw", "ccw", "either"),
+            )
             if arbor is None or (period is None and turns is None):
                 continue
-            out.append(Target(arbor, period, turns, tol_ppm, tol_s, sense, i + 1, self.where("target", i, item)))
+            out.append(
+                Target(
+                    arbor,
+                    period,
+                    turns,
+                    tol_ppm,
+                    tol_s,
+                    sense,
+                    i + 1,
+                    self.where("target", i, item),
+                )
+            )
         return out
 
     def turns(self, t: dict[str, Any], ctx: tuple[str, int, str]) -> Fraction | None:
@@ -686,14 +916,24 @@ class _Loader:
             self.problem(self.where(*ctx, "turns"), f"turns = {_show(raw)}", allowed)
             return None
         if value <= 0:
-            self.problem(self.where(*ctx, "turns"), f"turns = {_show(raw)}", allowed + " (use 'sense' for the direction)")
+            self.problem(
+                self.where(*ctx, "turns"),
+                f"turns = {_show(raw)}",
+                allowed + " (use 'sense' for the direction)",
+            )
             return None
         if not MIN_TURNS <= value <= MAX_TURNS:
-            self.problem(self.where(*ctx, "turns"), f"turns = {_show(raw)} is out of range", allowed + ", from 1e-12 to 1e12")
+            self.problem(
+                self.where(*ctx, "turns"),
+                f"turns = {_show(raw)} is out of range",
+                allowed + ", from 1e-12 to 1e12",
+            )
             return None
         return value
 
-    def tolerance(self, t: dict[str, Any], ctx: tuple[str, int, str]) -> tuple[float | None, Fraction | None]:
+    def tolerance(
+        self, t: dict[str, Any], ctx: tuple[str, int, str]
+    ) -> tuple[float | None, Fraction | None]:
         if "tolerance" not in t:
             return 1.0, None  # default: 1 ppm
         raw = t["tolerance"]
@@ -717,7 +957,9 @@ class _Loader:
                 zero = re.match(r"^\s*0+(\.0*)?\s*([a-z]+)\s*$", raw)
                 if zero and zero.group(2) in UNIT_SECONDS:
                     return None, Fraction(0)  # "0 s": the period must be exact
-        self.problem(self.where(*ctx, "tolerance"), f"tolerance = {_show(raw)}", allowed)
+        self.problem(
+            self.where(*ctx, "tolerance"), f"tolerance = {_show(raw)}", allowed
+        )
         return None, None
 
     def stock(self, doc: dict[str, Any]) -> list[Stock]:
@@ -725,12 +967,22 @@ class _Loader:
         for i, t in enumerate(self.tables(doc, "stock")):
             item = f"the {_ordinal(i + 1)} [[stock]]"
             ctx = ("stock", i, item)
-            self.unknown_keys(t, ("outside", "inside"), ctx, required=("outside", "inside"))
-            outside = self.value(t, "outside", "number", ctx, required=True, check=_positive)
-            inside = self.value(t, "inside", "number", ctx, required=True, check=_positive)
+            self.unknown_keys(
+                t, ("outside", "inside"), ctx, required=("outside", "inside")
+            )
+            outside = self.value(
+                t, "outside", "number", ctx, required=True, check=_positive
+            )
+            inside = self.value(
+                t, "inside", "number", ctx, required=True, check=_positive
+            )
             if outside is not None and inside is not None:
                 if inside >= outside:
-                    self.problem(self.where("stock", i, item, "inside"), f"inside = {inside:g} >= outside = {outside:g}", "an inside diameter smaller than the outside (mm)")
+                    self.problem(
+                        self.where("stock", i, item, "inside"),
+                        f"inside = {inside:g} >= outside = {outside:g}",
+                        "an inside diameter smaller than the outside (mm)",
+                    )
                     continue
                 out.append(Stock(outside, inside, self.where("stock", i, item)))
         return out
@@ -748,19 +1000,23 @@ class _Loader:
         by_arbor = {a.name: a for a in arbors}
         by_wheel = {w.name: w for w in wheels}
         seen: dict[str, Where | None] = {}
-        for kind, items in (("arbor", arbors), ("wheel", wheels), ("pinslot", pinslots)):
+        for items in (arbors, wheels, pinslots):
             for it in items:
                 if it.name in seen:
                     self.problem(
                         self.at_key(it.where, "name"),
                         f'the name "{it.name}" is used twice',
                         "names unique across arbors, wheels and pin-and-slot couplings",
-                        f"It is first used at {seen[it.name]}." if seen[it.name] else "",
+                        f"It is first used at {seen[it.name]}."
+                        if seen[it.name]
+                        else "",
                     )
                 else:
                     seen[it.name] = it.where
 
-        def ref(where: Where | None, key: str, name: str, pool: dict[str, Any], what: str) -> bool:
+        def ref(
+            where: Where | None, key: str, name: str, pool: dict[str, Any], what: str
+        ) -> bool:
             if name in pool:
                 return True
             if name in self.broken.get(what, ()):
@@ -770,13 +1026,18 @@ class _Loader:
             self.problem(
                 w,
                 f'{what} "{name}" does not exist',
-                f"the name of one of the {what}s: " + (", ".join(f'"{n}"' for n in pool) or "(none defined)"),
-                f"Did you mean \"{close[0]}\"?" if close else "",
+                f"the name of one of the {what}s: "
+                + (", ".join(f'"{n}"' for n in pool) or "(none defined)"),
+                f'Did you mean "{close[0]}"?' if close else "",
             )
             return False
 
         if not arbors and not self.arbor_tables:
-            self.problem(Where(self.file, "[[arbor]]"), "no [[arbor]] tables", "at least one arbor")
+            self.problem(
+                Where(self.file, "[[arbor]]"),
+                "no [[arbor]] tables",
+                "at least one arbor",
+            )
         for a in arbors:
             if a.around is not None:
                 ref(a.where, "around", a.around, by_arbor, "arbor")
@@ -790,9 +1051,15 @@ class _Loader:
         for p in pinslots:
             ref(p.where, "pin", p.pin, by_wheel, "wheel")
             ref(p.where, "slot", p.slot, by_wheel, "wheel")
-        if drive is not None and ref(drive.where, "arbor", drive.arbor, by_arbor, "arbor"):
+        if drive is not None and ref(
+            drive.where, "arbor", drive.arbor, by_arbor, "arbor"
+        ):
             if by_arbor[drive.arbor].fixed:
-                self.problem(self.at_key(drive.where, "arbor"), f'the drive arbor "{drive.arbor}" is fixed', "an arbor that can turn")
+                self.problem(
+                    self.at_key(drive.where, "arbor"),
+                    f'the drive arbor "{drive.arbor}" is fixed',
+                    "an arbor that can turn",
+                )
         for t in targets:
             ref(t.where, "arbor", t.arbor, by_arbor, "arbor")
         if self.problems:
@@ -820,11 +1087,14 @@ class _Loader:
             cur = parent(a)
             while cur is not None:
                 if cur in chain:
-                    loop = chain[chain.index(cur):] + [cur]
+                    loop = chain[chain.index(cur) :] + [cur]
                     if not bad.intersection(loop):
                         self.problem(
-                            self.at_key(a.where, "around" if a.around is not None else "carrier"),
-                            "a cycle of 'around'/'carrier': " + " -> ".join(f'"{n}"' for n in loop),
+                            self.at_key(
+                                a.where, "around" if a.around is not None else "carrier"
+                            ),
+                            "a cycle of 'around'/'carrier': "
+                            + " -> ".join(f'"{n}"' for n in loop),
                             "each arbor surrounds or rides on a member that does not, in turn, lead back to it",
                         )
                     bad.update(loop)
@@ -833,13 +1103,18 @@ class _Loader:
                 cur = parent(by_arbor[cur])
         if bad:
             return
+
         def axis(name: str) -> str:
             return _axis(by_arbor, name)
 
         for m in meshes:
             a, b = (by_wheel[n].arbor for n in m.pair)
             if a == b:
-                self.problem(self.at_key(m.where, "pair"), f'both wheels sit on arbor "{a}"', "wheels on two different arbors")
+                self.problem(
+                    self.at_key(m.where, "pair"),
+                    f'both wheels sit on arbor "{a}"',
+                    "wheels on two different arbors",
+                )
             elif axis(a) == axis(b):
                 # Coaxial members turn about one axis: their wheels cannot engage.
                 self.problem(
@@ -849,7 +1124,11 @@ class _Loader:
                 )
         for p in pinslots:
             if by_wheel[p.pin].arbor == by_wheel[p.slot].arbor:
-                self.problem(self.at_key(p.where, "slot"), f'pin wheel and slot wheel both sit on arbor "{by_wheel[p.pin].arbor}"', "wheels on two different arbors")
+                self.problem(
+                    self.at_key(p.where, "slot"),
+                    f'pin wheel and slot wheel both sit on arbor "{by_wheel[p.pin].arbor}"',
+                    "wheels on two different arbors",
+                )
         self.check_placement(by_arbor, by_wheel, meshes, pinslots)
 
     def check_placement(
@@ -860,6 +1139,7 @@ class _Loader:
         pinslots: list[PinSlot],
     ) -> None:
         """Every arbor must be placeable: by 'at', by 'around', or by a bearing from a placed one."""
+
         def axis(name: str) -> str:
             return _axis(by_arbor, name)
 
@@ -898,9 +1178,25 @@ def load_design(path: str | Path) -> Design:
     try:
         raw = p.read_bytes()
     except OSError as exc:
-        raise DesignError([Problem(Where(str(p)), f"the file cannot be read ({exc.strerror or exc})", "a readable TOML file")]) from None
+        raise DesignError(
+            [
+                Problem(
+                    Where(str(p)),
+                    f"the file cannot be read ({exc.strerror or exc})",
+                    "a readable TOML file",
+                )
+            ]
+        ) from None
     try:
         text = raw.decode("utf-8")
     except UnicodeDecodeError as exc:
-        raise DesignError([Problem(Where(str(p)), f"the file is not UTF-8 text (byte {exc.start})", "a UTF-8 TOML file")]) from None
+        raise DesignError(
+            [
+                Problem(
+                    Where(str(p)),
+                    f"the file is not UTF-8 text (byte {exc.start})",
+                    "a UTF-8 TOML file",
+                )
+            ]
+        ) from None
     return loads_design(text, str(p))

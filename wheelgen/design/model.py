@@ -68,8 +68,12 @@ class Process:
     min_wall: float | None = None  # thinnest sleeve wall; None = the process default
     min_module_hand: float = 0.5  # hand: smallest module still filed by hand
     min_layers: int = 4  # print: face width at least this many layers
-    min_backlash: float | None = None  # mm the process holds in a mesh; None = its default
-    centre_tolerance: float | None = None  # mm a placed centre may be off; None = default
+    min_backlash: float | None = (
+        None  # mm the process holds in a mesh; None = its default
+    )
+    centre_tolerance: float | None = (
+        None  # mm a placed centre may be off; None = default
+    )
 
     @property
     def wall_minimum(self) -> float:
@@ -125,9 +129,13 @@ class Wheel:
     backlash: float = 0.05
     addendum: float = 1.0  # x module
     dedendum: float = 1.25  # x module
-    root_radius: float = 0.38  # x module (rack tip radius for involute, root rounding for triangular)
+    root_radius: float = (
+        0.38  # x module (rack tip radius for involute, root rounding for triangular)
+    )
     tip_radius: float = 0.0  # x module (triangular tip rounding)
-    bore: float | None = None  # None: the arbor's (or sleeve's) outside diameter plus the fit
+    bore: float | None = (
+        None  # None: the arbor's (or sleeve's) outside diameter plus the fit
+    )
     seat: Seat = "round"
     spokes: int = 0
     rim: float | None = None  # rim width below the root circle when spoked (mm)

@@ -35,16 +35,18 @@ def parse_period(text: str) -> Fraction:
     The period must be positive.
     """
     if not isinstance(text, str):
-        raise PeriodError(f"expected a string such as \"27.3 d\", got {text!r}")
+        raise PeriodError(f'expected a string such as "27.3 d", got {text!r}')
     match = _PERIOD.match(text)
     if match is None:
         raise PeriodError(
-            f"{text!r} is not '<number> <unit>' (for example \"1 d\" or \"27.321661 d\")"
+            f'{text!r} is not \'<number> <unit>\' (for example "1 d" or "27.321661 d")'
         )
     number, unit = match.groups()
     if len(number) > _MAX_DIGITS:
         # int() refuses more than 4300 digits with a plain ValueError; no period needs 40
-        raise PeriodError(f"{text[:20]!r}... has more than {_MAX_DIGITS} characters in its number")
+        raise PeriodError(
+            f"{text[:20]!r}... has more than {_MAX_DIGITS} characters in its number"
+        )
     exponent = re.search(r"[eE]([+-]?\d+)", number)
     # Fraction("1e999999999") would build a huge integer first: refuse silly exponents.
     if exponent is not None and abs(int(exponent.group(1))) > _MAX_EXPONENT:

@@ -16,10 +16,9 @@ built, so a fully cached rebuild never pays cadquery's start-up.
 
 from __future__ import annotations
 
-import math
-
 import hashlib
 import json
+import math
 import multiprocessing
 import shutil
 import sys
@@ -211,7 +210,9 @@ def _write_svg(w: _PartWork, path: Path) -> None:
 
     pins = []
     pin = w.part.pin
-    if pin is not None and not pin.hole_only:  # a through hole is drawn as a hole already
+    if (
+        pin is not None and not pin.hole_only
+    ):  # a through hole is drawn as a hole already
         a = math.radians(pin.angle_deg)
         pins.append((pin.radius * math.cos(a), pin.radius * math.sin(a), pin.diameter))
     write_svg(
@@ -410,7 +411,7 @@ def build_design(
                 _build_into_cache(p, options, cache_root)
                 if progress is not None:
                     progress(p.name)
-        for p, k in zip(parts, keys):
+        for k in keys:
             for rel in cache.files(k):
                 shutil.copyfile(cache.entry(k) / rel, stage.path(rel))
         if "step" in options.formats and parts:

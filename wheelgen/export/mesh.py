@@ -225,7 +225,7 @@ def _fast_mesh(shape: TopoDS_Shape, tolerance: float, angular_deg: float) -> Mes
     changed = True
     while changed:
         changed = False
-        for fi, (direction, curved) in enumerate(info):
+        for fi, (_direction, curved) in enumerate(info):
             if strip[fi] and not all(
                 any(not strip[o] for o in owners[ei] if o != fi) for ei, _ in curved
             ):

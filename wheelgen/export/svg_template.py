@@ -8,9 +8,8 @@ printout with a rule before cutting. Everything is plain text written in a fixed
 
 from __future__ import annotations
 
-from pathlib import Path
-
 from collections.abc import Sequence
+from pathlib import Path
 
 import numpy as np
 

@@ -25,7 +25,14 @@ from fractions import Fraction
 
 from ..design.model import Design
 
-__all__ = ["Equation", "Conflict", "TrainSolution", "solve_rates", "axis_root", "mesh_frame"]
+__all__ = [
+    "Equation",
+    "Conflict",
+    "TrainSolution",
+    "solve_rates",
+    "axis_root",
+    "mesh_frame",
+]
 
 
 @dataclass(frozen=True, slots=True)
@@ -108,11 +115,17 @@ def mesh_frame(design: Design, arbor_a: str, arbor_b: str) -> tuple[bool, str | 
 
 
 def _equations(design: Design) -> tuple[list[Equation], list[str]]:
-    eqs: list[Equation] = [Equation(((design.drive.arbor, Fraction(1)),), Fraction(1), "the drive")]
+    eqs: list[Equation] = [
+        Equation(((design.drive.arbor, Fraction(1)),), Fraction(1), "the drive")
+    ]
     bad: list[str] = []
     for a in design.arbors:
         if a.fixed:
-            eqs.append(Equation(((a.name, Fraction(1)),), Fraction(0), f'fixed arbor "{a.name}"'))
+            eqs.append(
+                Equation(
+                    ((a.name, Fraction(1)),), Fraction(0), f'fixed arbor "{a.name}"'
+                )
+            )
     for m in design.meshes:
         wa, wb = design.wheel(m.pair[0]), design.wheel(m.pair[1])
         ok, frame = mesh_frame(design, wa.arbor, wb.arbor)
@@ -125,10 +138,20 @@ def _equations(design: Design) -> tuple[list[Equation], list[str]]:
         coeffs[wb.arbor] = coeffs.get(wb.arbor, Fraction(0)) + wb.teeth
         if frame is not None:
             coeffs[frame] = coeffs.get(frame, Fraction(0)) - (wa.teeth + wb.teeth)
-        eqs.append(Equation(tuple((k, v) for k, v in coeffs.items() if v != 0), Fraction(0), label))
+        eqs.append(
+            Equation(
+                tuple((k, v) for k, v in coeffs.items() if v != 0), Fraction(0), label
+            )
+        )
     for p in design.pinslots:
         a, b = design.wheel(p.pin).arbor, design.wheel(p.slot).arbor
-        eqs.append(Equation(((a, Fraction(1)), (b, Fraction(-1))), Fraction(0), f'pin-and-slot "{p.name}"'))
+        eqs.append(
+            Equation(
+                ((a, Fraction(1)), (b, Fraction(-1))),
+                Fraction(0),
+                f'pin-and-slot "{p.name}"',
+            )
+        )
     return eqs, bad
 
 
@@ -139,7 +162,12 @@ class _Row:
     sources: frozenset[int]
 
 
-def _reduce(rows: dict[str, _Row], coeffs: dict[str, Fraction], rhs: Fraction, sources: frozenset[int]) -> _Row:
+def _reduce(
+    rows: dict[str, _Row],
+    coeffs: dict[str, Fraction],
+    rhs: Fraction,
+    sources: frozenset[int],
+) -> _Row:
     coeffs = dict(coeffs)
     for pivot, row in rows.items():
         c = coeffs.get(pivot)
@@ -165,7 +193,9 @@ def _rate_from(eqs: list[Equation], use: set[int], arbor: str) -> Fraction | Non
     return None if rates is None else rates.get(arbor)
 
 
-def _shortest(eqs: list[Equation], use: set[int], arbor: str, keep: int | None) -> set[int]:
+def _shortest(
+    eqs: list[Equation], use: set[int], arbor: str, keep: int | None
+) -> set[int]:
     """Drop equations (last first) while the rest still fix the arbor's rate: one path."""
     path = set(use)
     for j in sorted(use, reverse=True):
@@ -181,7 +211,9 @@ def _add(rows: dict[str, _Row], eq: Equation, index: int) -> _Row | None:
         return row if row.rhs != 0 else None
     pivot = min(row.coeffs)  # deterministic choice
     scale = row.coeffs[pivot]
-    row = _Row({k: v / scale for k, v in row.coeffs.items()}, row.rhs / scale, row.sources)
+    row = _Row(
+        {k: v / scale for k, v in row.coeffs.items()}, row.rhs / scale, row.sources
+    )
     for other in rows.values():
         c = other.coeffs.get(pivot)
         if c:
@@ -211,7 +243,9 @@ def solve_rates(design: Design) -> TrainSolution:
     return TrainSolution(rates, tuple(conflicts), undriven, tuple(bad))
 
 
-def _explain(design: Design, eqs: list[Equation], index: int, others: frozenset[int]) -> Conflict:
+def _explain(
+    design: Design, eqs: list[Equation], index: int, others: frozenset[int]
+) -> Conflict:
     """Describe a contradiction as two paths that give one arbor two different rates.
 
     ``others`` are the (consistent) equations the contradicting row came from. Path one
@@ -237,8 +271,18 @@ def _explain(design: Design, eqs: list[Equation], index: int, others: frozenset[
             rate_two = _rate_from(eqs, everything - {cut}, target)
             if rate_two is not None and rate_two != earlier[target]:
                 two = _shortest(eqs, everything - {cut}, target, index)
-                return Conflict(target, earlier[target], labels(one), _rate_from(eqs, two, target), labels(two))
+                return Conflict(
+                    target,
+                    earlier[target],
+                    labels(one),
+                    _rate_from(eqs, two, target),
+                    labels(two),
+                )
         coeff = dict(eq.coeffs)[target]
         implied = (eq.rhs - sum(c * earlier[k] for k, c in rest)) / coeff
-        return Conflict(target, earlier[target], labels(set(others)), implied, (eq.label,))
-    return Conflict(names[0] if names else "?", None, labels(set(others)), None, (eq.label,))
+        return Conflict(
+            target, earlier[target], labels(set(others)), implied, (eq.label,)
+        )
+    return Conflict(
+        names[0] if names else "?", None, labels(set(others)), None, (eq.label,)
+    )

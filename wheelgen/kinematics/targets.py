@@ -24,7 +24,9 @@ class TargetResult:
     wanted_turns: Fraction  # turns per drive turn, magnitude
     got_turns: Fraction | None  # signed turns per drive turn
     error_ppm: float | None  # (got period - wanted period) / wanted period * 1e6
-    drift_deg_per_year: float | None  # got angle - wanted angle after one year (365.25 d)
+    drift_deg_per_year: (
+        float | None
+    )  # got angle - wanted angle after one year (365.25 d)
     sense_ok: bool
     met: bool
 
@@ -79,7 +81,13 @@ def evaluate_targets(design: Design, solution: TrainSolution) -> list[TargetResu
                 tol = t.tolerance_ppm if t.tolerance_ppm is not None else 1.0
                 # exact comparison: |got - wanted| * 1e6 <= tol * wanted; str() so that
                 # "0.1 ppm" is 1/10, not the nearest binary float
-                within = abs(got_s - wanted_s) * 1_000_000 <= Fraction(str(tol)) * wanted_s
+                within = (
+                    abs(got_s - wanted_s) * 1_000_000 <= Fraction(str(tol)) * wanted_s
+                )
             met = within and sense_ok
-        out.append(TargetResult(t, wanted_s, got_s, wanted_turns, rate, error_ppm, drift, sense_ok, met))
+        out.append(
+            TargetResult(
+                t, wanted_s, got_s, wanted_turns, rate, error_ppm, drift, sense_ok, met
+            )
+        )
     return out

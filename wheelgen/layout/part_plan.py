@@ -76,7 +76,9 @@ class WheelPart:
     round_radius: float = 0.0  # smallest inside corner radius (mill: cutter radius)
     slot: SlotCut | None = None
     pin: PinBoss | None = None
-    holes: tuple[tuple[float, float, float], ...] = ()  # extra through holes (x, y, diameter)
+    holes: tuple[
+        tuple[float, float, float], ...
+    ] = ()  # extra through holes (x, y, diameter)
     placement: Placement = Placement()
     kind: Literal["wheel"] = "wheel"
 

@@ -121,7 +121,7 @@ def pin_boss(design: Design, pinslot: PinSlot) -> PinBoss:
 
 
 def pin_part(
-    design: Design, pinslot: PinSlot, wheel_placement: Placement = Placement()
+    design: Design, pinslot: PinSlot, wheel_placement: Placement | None = None
 ) -> PinPart:
     """The separate pin (``pin_part = "separate"``), through the pin wheel and the slot.
 
@@ -136,6 +136,8 @@ def pin_part(
         )
     boss = pin_boss(design, pinslot)
     face = design.wheel(pinslot.pin).face_width
+    if wheel_placement is None:
+        wheel_placement = Placement()
     turn = math.radians(wheel_placement.angle_deg + boss.angle_deg)
     where = Placement(
         x=wheel_placement.x + boss.radius * math.cos(turn),

@@ -16,8 +16,8 @@ from typing import Literal
 
 import numpy as np
 
-from .part_plan import WheelPart
 from ..teeth.outline import Segment, SegmentKind, WheelOutline
+from .part_plan import WheelPart
 
 __all__ = [
     "Hole",

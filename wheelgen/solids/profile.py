@@ -17,8 +17,8 @@ from OCP.BRepBuilderAPI import BRepBuilderAPI_MakeFace, BRepBuilderAPI_MakeWire
 from OCP.BRepPrimAPI import BRepPrimAPI_MakePrism
 from OCP.gp import gp_Dir, gp_Pln, gp_Pnt, gp_Vec
 
-from ..teeth.outline import Segment
 from ..layout.wheel_profile import Hole
+from ..teeth.outline import Segment
 
 __all__ = [
     "CadBuildError",

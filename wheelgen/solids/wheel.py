@@ -15,8 +15,14 @@ from OCP.BRepAlgoAPI import BRepAlgoAPI_Cut, BRepAlgoAPI_Fuse
 from OCP.BRepCheck import BRepCheck_Analyzer
 
 from ..layout.part_plan import WheelPart
+from ..layout.wheel_profile import (
+    Hole,
+    PlateProfile,
+    cross_pin_diameter,
+    plate_profile,
+    seat_extent,
+)
 from ..teeth.outline import WheelOutline
-from ..layout.wheel_profile import Hole, PlateProfile, cross_pin_diameter, plate_profile, seat_extent
 from .profile import CadBuildError, chain_wire, hole_wire, holed_face, prism
 
 __all__ = ["check_solid", "make_wheel", "wheel_from_profile"]

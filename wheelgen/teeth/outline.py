@@ -38,11 +38,17 @@ class Segment:
             raise ValueError(f"'points' must be an (n, 2) array, got shape {pts.shape}")
         need = {"line": 2, "arc": 3, "spline": 2}
         if self.kind not in need:
-            raise ValueError(f"'kind' must be one of 'line', 'arc', 'spline', got {self.kind!r}")
+            raise ValueError(
+                f"'kind' must be one of 'line', 'arc', 'spline', got {self.kind!r}"
+            )
         if self.kind in ("line", "arc") and len(pts) != need[self.kind]:
-            raise ValueError(f"a {self.kind} needs exactly {need[self.kind]} points, got {len(pts)}")
+            raise ValueError(
+                f"a {self.kind} needs exactly {need[self.kind]} points, got {len(pts)}"
+            )
         if len(pts) < need[self.kind]:
-            raise ValueError(f"a {self.kind} needs at least {need[self.kind]} points, got {len(pts)}")
+            raise ValueError(
+                f"a {self.kind} needs at least {need[self.kind]} points, got {len(pts)}"
+            )
         pts.setflags(write=False)
         object.__setattr__(self, "points", pts)
 
@@ -85,10 +91,16 @@ def _arc_polyline(p: np.ndarray, chord_tol: float) -> np.ndarray:
     if (a1 - a0) % (2 * math.pi) > sweep:
         sweep -= 2 * math.pi
     # chord error of a step dt is r (1 - cos(dt/2))
-    step = 2 * math.acos(max(-1.0, 1 - chord_tol / radius)) if chord_tol < radius else math.pi / 2
+    step = (
+        2 * math.acos(max(-1.0, 1 - chord_tol / radius))
+        if chord_tol < radius
+        else math.pi / 2
+    )
     n = max(2, int(math.ceil(abs(sweep) / step)) + 1)
     t = a0 + np.linspace(0.0, sweep, n)
-    pts = np.column_stack((centre[0] + radius * np.cos(t), centre[1] + radius * np.sin(t)))
+    pts = np.column_stack(
+        (centre[0] + radius * np.cos(t), centre[1] + radius * np.sin(t))
+    )
     pts[0], pts[-1] = p[0], p[2]
     return pts
 
@@ -100,8 +112,12 @@ def circle_through(
     d = 2 * (a[0] * (b[1] - c[1]) + b[0] * (c[1] - a[1]) + c[0] * (a[1] - b[1]))
     if abs(d) < 1e-15:
         return a, None
-    ux = ((a @ a) * (b[1] - c[1]) + (b @ b) * (c[1] - a[1]) + (c @ c) * (a[1] - b[1])) / d
-    uy = ((a @ a) * (c[0] - b[0]) + (b @ b) * (a[0] - c[0]) + (c @ c) * (b[0] - a[0])) / d
+    ux = (
+        (a @ a) * (b[1] - c[1]) + (b @ b) * (c[1] - a[1]) + (c @ c) * (a[1] - b[1])
+    ) / d
+    uy = (
+        (a @ a) * (c[0] - b[0]) + (b @ b) * (a[0] - c[0]) + (c @ c) * (b[0] - a[0])
+    ) / d
     centre = np.array([ux, uy])
     return centre, float(np.hypot(*(a - centre)))
 

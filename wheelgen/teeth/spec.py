@@ -9,6 +9,8 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
+from .outline import WheelOutline
+
 __all__ = ["FORMS", "ToothSpec", "outline_for"]
 
 #: Tooth forms we can generate.
@@ -88,6 +90,3 @@ def outline_for(spec: ToothSpec) -> WheelOutline:
     from .triangular import triangular_outline
 
     return triangular_outline(spec)
-
-
-from .outline import WheelOutline

@@ -225,14 +225,18 @@ def preview_svg(
             even = full[0] + plan.mean_rates_deg_s[arbor] * plan.times_s
             if relative_to is not None:
                 even = even - plan.angles_deg.get(relative_to, 0.0)
-            reach = max((w.pitch_diameter / 2 for w in design.wheels_on(arbor)), default=fs)
+            reach = max(
+                (w.pitch_diameter / 2 for w in design.wheels_on(arbor)), default=fs
+            )
             out.append(
                 f'<g><line x1="{fmt(cx)}" y1="{fmt(-cy)}" x2="{fmt(cx + 0.9 * reach)}" '
                 f'y2="{fmt(-cy)}" stroke="{cols[arbor]}" stroke-opacity="0.45" '
                 f'stroke-width="{fmt(fs / 2.5)}" stroke-dasharray="{fmt(fs / 2)} '
                 f'{fmt(fs / 3)}"/>{_rotation(even, cx, cy, plan, key_times)}</g>'
             )
-        out.append("<g>" + "".join(body) + _rotation(ang, cx, cy, plan, key_times) + "</g>")
+        out.append(
+            "<g>" + "".join(body) + _rotation(ang, cx, cy, plan, key_times) + "</g>"
+        )
         return out
 
     out = [
@@ -283,4 +287,3 @@ def preview_svg(
     )
     out.append("</svg>")
     return "\n".join(out)
-

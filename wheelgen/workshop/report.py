@@ -22,7 +22,12 @@ from ..checks.findings import Finding, has_errors, sort_findings
 from ..design.model import Design
 from ..design.periods import format_period
 from ..kinematics.rates import TrainSolution, solve_rates
-from ..kinematics.targets import TargetResult, arbor_period, arbor_sense, evaluate_targets
+from ..kinematics.targets import (
+    TargetResult,
+    arbor_period,
+    arbor_sense,
+    evaluate_targets,
+)
 from ..layout.drilling import drilling_svg, plate_holes
 from ..layout.placement import arbor_positions
 from .cutting import CuttingRow, cutting_rows, indexing_text
@@ -102,7 +107,9 @@ def _num(value: float | None, digits: int = 3) -> str:
     return "" if value is None else f"{value:.{digits}f}"
 
 
-def _table(head: Sequence[str], rows: Sequence[Sequence[str]], numeric: set[int]) -> str:
+def _table(
+    head: Sequence[str], rows: Sequence[Sequence[str]], numeric: set[int]
+) -> str:
     """An HTML table; cells are already escaped HTML; ``numeric`` columns align right."""
     out = ["<table><thead><tr>"]
     out += [f"<th>{h}</th>" for h in head]
@@ -122,8 +129,11 @@ def _job(design: Design, parts: Sequence[Any], findings: Sequence[Finding]) -> s
         ("Design file", Path(design.source).name if design.source else design.name),
         ("SHA-256 of the file", design.sha256 or "not recorded"),
         ("Made by", design.process.kind),
-        ("Drive", f"arbor {design.drive.arbor}, one turn in "
-         f"{format_period(design.drive.period_s)}, {design.drive.sense}"),
+        (
+            "Drive",
+            f"arbor {design.drive.arbor}, one turn in "
+            f"{format_period(design.drive.period_s)}, {design.drive.sense}",
+        ),
         ("Parts", str(len(parts))),
         ("Written by", f"wheelgen {__version__}"),
     ]
@@ -145,8 +155,11 @@ def _arbor_table(design: Design, solution: TrainSolution) -> str:
         rate = solution.rate(a.name)
         period = arbor_period(design, rate)
         where = (
-            f"around {a.around}" if a.around else
-            f"carried on {a.carrier}" if a.carrier else "on the plates"
+            f"around {a.around}"
+            if a.around
+            else f"carried on {a.carrier}"
+            if a.carrier
+            else "on the plates"
         )
         rows.append(
             [
@@ -176,7 +189,10 @@ def _findings(findings: Sequence[Finding]) -> str:
     ]
     if not rows:
         return "<p>No findings: every check passed.</p>"
-    counts = {lvl: sum(1 for f in findings if f.level == lvl) for lvl in ("error", "warning", "note")}
+    counts = {
+        lvl: sum(1 for f in findings if f.level == lvl)
+        for lvl in ("error", "warning", "note")
+    }
     summary = (
         f"<p>{counts['error']} error(s), {counts['warning']} warning(s), "
         f"{counts['note']} note(s).</p>"
@@ -195,7 +211,11 @@ def _targets(targets: Sequence[TargetResult]) -> str:
             tol = format_period(t.tolerance_s)
         else:
             tol = f"{t.tolerance_ppm if t.tolerance_ppm is not None else 1.0:g} ppm"
-        verdict = '<span class="met">met</span>' if r.met else '<span class="unmet">NOT met</span>'
+        verdict = (
+            '<span class="met">met</span>'
+            if r.met
+            else '<span class="unmet">NOT met</span>'
+        )
         rows.append(
             [
                 _e(t.arbor),
@@ -203,14 +223,24 @@ def _targets(targets: Sequence[TargetResult]) -> str:
                 _e("" if r.got_s is None else format_period(r.got_s, 9)),
                 _e("" if r.error_ppm is None else f"{r.error_ppm:+.3f}"),
                 _e(tol),
-                _e("" if r.drift_deg_per_year is None else f"{r.drift_deg_per_year:+.3f}"),
+                _e(
+                    ""
+                    if r.drift_deg_per_year is None
+                    else f"{r.drift_deg_per_year:+.3f}"
+                ),
                 _e(f"{t.sense}, {'ok' if r.sense_ok else 'wrong'}"),
                 verdict,
             ]
         )
     head = [
-        "arbor", "wanted period", "period of the train", "error (ppm)", "tolerance",
-        "drift (deg per year)", "sense wanted", "verdict",
+        "arbor",
+        "wanted period",
+        "period of the train",
+        "error (ppm)",
+        "tolerance",
+        "drift (deg per year)",
+        "sense wanted",
+        "verdict",
     ]
     return _table(head, rows, {3, 5})
 
@@ -233,7 +263,9 @@ def _motion(design: Design, plan: PreviewPlan | None) -> str:
     return "".join(out)
 
 
-def _preview(design: Design, positions: dict[str, tuple[float, float]], plan: PreviewPlan | None) -> str:
+def _preview(
+    design: Design, positions: dict[str, tuple[float, float]], plan: PreviewPlan | None
+) -> str:
     if plan is None:
         return "<p>No arbor turns: there is nothing to animate.</p>"
     svg = preview_svg(design, positions, plan)
@@ -275,16 +307,27 @@ def _parts(parts: Sequence[Any], bill: Sequence[BillRow]) -> str:
         )
     rows = [
         [
-            _e(r.part), _e(r.kind), _e(r.quantity), _e(r.stock_text),
-            _e(f"{r.diameter:.2f}"), _e(f"{r.length:.2f}"),
-            _e(f"{r.volume / 1000:.3f}"), _e(r.note),
+            _e(r.part),
+            _e(r.kind),
+            _e(r.quantity),
+            _e(r.stock_text),
+            _e(f"{r.diameter:.2f}"),
+            _e(f"{r.length:.2f}"),
+            _e(f"{r.volume / 1000:.3f}"),
+            _e(r.note),
         ]
         for r in bill
     ]
     total = sum(r.volume for r in bill) / 1000
     head = [
-        "part", "kind", "qty", "stock", "overall diameter (mm)", "length (mm)",
-        "volume (cm\u00b3)", "note",
+        "part",
+        "kind",
+        "qty",
+        "stock",
+        "overall diameter (mm)",
+        "length (mm)",
+        "volume (cm\u00b3)",
+        "note",
     ]
     return (
         f'<div class="parts">{"".join(figs)}</div>'
@@ -311,28 +354,44 @@ def _cutting(rows: Sequence[CuttingRow]) -> str:
         )
         out.append(
             [
-                _e(r.wheel), _e(r.teeth), _e(f"{r.module:g}"), _e(r.form),
-                _e(f"{r.angle_deg:g}"), _e(f"{r.shift:g}"), _e(f"{r.face_width:g}"),
-                _e(_num(r.blank_diameter)), _e(_num(r.full_depth)), _e(cutter),
-                _e(indexing_text(r.indexing)), _e(span), _e(pins),
+                _e(r.wheel),
+                _e(r.teeth),
+                _e(f"{r.module:g}"),
+                _e(r.form),
+                _e(f"{r.angle_deg:g}"),
+                _e(f"{r.shift:g}"),
+                _e(f"{r.face_width:g}"),
+                _e(_num(r.blank_diameter)),
+                _e(_num(r.full_depth)),
+                _e(cutter),
+                _e(indexing_text(r.indexing)),
+                _e(span),
+                _e(pins),
             ]
         )
     head = [
-        "wheel", "teeth", "module", "form", "angle (deg)", "shift x", "face (mm)",
-        "blank \u00d8 (mm)", "full depth (mm)", "form cutter", "indexing",
-        "span W<sub>k</sub> (mm) over k teeth", "over pins (mm)",
+        "wheel",
+        "teeth",
+        "module",
+        "form",
+        "angle (deg)",
+        "shift x",
+        "face (mm)",
+        "blank \u00d8 (mm)",
+        "full depth (mm)",
+        "form cutter",
+        "indexing",
+        "span W<sub>k</sub> (mm) over k teeth",
+        "over pins (mm)",
     ]
-    notes = [
-        f"<li>{_e(r.wheel)}: {_e(w)}</li>" for r in rows for w in r.warnings
-    ]
+    notes = [f"<li>{_e(r.wheel)}: {_e(w)}</li>" for r in rows for w in r.warnings]
     extra = f"<ul>{''.join(notes)}</ul>" if notes else ""
     return (
         _table(head, out, {1, 2, 5, 6, 7, 8, 11, 12})
         + "<p>Indexing: <i>t turns + h/c</i> is t whole crank turns plus h hole spaces "
         "on the c-hole circle. Form cutters use the diametral-pitch set numbering "
         "(No. 1 for the most teeth); the tooth range is given because some module "
-        "sets number the other way round.</p>"
-        + extra
+        "sets number the other way round.</p>" + extra
     )
 
 
@@ -348,18 +407,29 @@ def _drilling(design: Design, unchecked: bool) -> str:
         holes = plate_holes(design, plate)
         rows = [
             [
-                _e(h.number), _e(h.member), _e(f"{h.x:.4f}"), _e(f"{h.y:.4f}"),
-                _e(f"{h.nominal:.3f}"), _e(h.fit),
-                _e(f"{h.low:.4f} to {h.high:.4f}"), _e(h.role),
+                _e(h.number),
+                _e(h.member),
+                _e(f"{h.x:.4f}"),
+                _e(f"{h.y:.4f}"),
+                _e(f"{h.nominal:.3f}"),
+                _e(h.fit),
+                _e(f"{h.low:.4f} to {h.high:.4f}"),
+                _e(h.role),
             ]
             for h in holes
         ]
         head = [
-            "hole", "holds", "X (mm)", "Y (mm)", "nominal Ø (mm)", "fit",
-            "limits Ø (mm)", "role",
+            "hole",
+            "holds",
+            "X (mm)",
+            "Y (mm)",
+            "nominal Ø (mm)",
+            "fit",
+            "limits Ø (mm)",
+            "role",
         ]
         svg = drilling_svg(design, plate, unchecked)
-        svg = svg[svg.index("<svg"):]  # inline: no XML declaration inside HTML
+        svg = svg[svg.index("<svg") :]  # inline: no XML declaration inside HTML
         out.append(
             f"<h3>{_e(plate.capitalize())} plate</h3>"
             + (_table(head, rows, {0, 2, 3, 4}) if rows else "<p>No holes.</p>")

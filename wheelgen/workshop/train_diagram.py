@@ -152,7 +152,7 @@ def train_diagram_svg(design: Design, solution: TrainSolution) -> str:
         f'viewBox="0 0 {fmt(total_w)} {fmt(total_h)}" width="{fmt(total_w)}" '
         f'font-family="sans-serif" font-size="{fmt(_FONT)}">',
         "<title>Train diagram</title>",
-        "<defs><marker id=\"wg-train-arrow\" viewBox=\"0 0 10 10\" refX=\"10\" refY=\"5\" "
+        '<defs><marker id="wg-train-arrow" viewBox="0 0 10 10" refX="10" refY="5" '
         'markerWidth="7" markerHeight="7" orient="auto-start-reverse">'
         '<path d="M0,0L10,5L0,10z" fill="#333"/></marker></defs>',
     ]
@@ -173,7 +173,11 @@ def train_diagram_svg(design: Design, solution: TrainSolution) -> str:
         c1 = x1 - (bend if x1 > x0 else -bend)
         if cols[link.source] == cols[link.target]:
             c0, c1 = x0 + 60, x1 + 60
-        dash = {"mesh": "", "pinslot": ' stroke-dasharray="6 4"', "carrier": ' stroke-dasharray="2 3"'}
+        dash = {
+            "mesh": "",
+            "pinslot": ' stroke-dasharray="6 4"',
+            "carrier": ' stroke-dasharray="2 3"',
+        }
         out.append(
             f'<path d="M{fmt(x0)},{fmt(y0)} C{fmt(c0)},{fmt(y0)} {fmt(c1)},{fmt(y1)} '
             f'{fmt(x1)},{fmt(y1)}" fill="none" stroke="#333" stroke-width="1.3"'
