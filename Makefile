@@ -25,6 +25,7 @@ lint: $(VENV)/.installed
 	$(PY) -m pip install --quiet -e '.[dev]'
 	$(VENV)/bin/ruff format --check wheelgen tests benchmarks
 	$(VENV)/bin/ruff check wheelgen tests benchmarks
+	$(VENV)/bin/mypy
 
 bench: $(VENV)/.installed
 	for f in benchmarks/bench_*.py; do echo "== $$f"; $(PY) $$f || exit 1; done

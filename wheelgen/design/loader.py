@@ -538,7 +538,7 @@ class _Loader:
                 'an ISO 286 fit such as "H7/g6", "H7/h6" or "H8/f7"',
             )
             values.pop("fit")
-        return Process(kind=kind, **values)  # type: ignore[arg-type]
+        return Process(kind=kind, **values)  # type: ignore[arg-type]  # checked by _choice above
 
     def frame_table(self, doc: dict[str, Any]) -> Frame | None:
         t = self.table(doc, "frame")
@@ -829,7 +829,8 @@ class _Loader:
                     "two different wheels",
                 )
                 pin = None
-            if None in (name, pin, slot, radius, offset):
+            # 'name is None' spelled out so that type checkers narrow it to str below
+            if name is None or None in (pin, slot, radius, offset):
                 if name is not None:
                     self.broken["pinslot"].add(name)
                 continue
@@ -1108,18 +1109,18 @@ class _Loader:
             return _axis(by_arbor, name)
 
         for m in meshes:
-            a, b = (by_wheel[n].arbor for n in m.pair)
-            if a == b:
+            arbor_a, arbor_b = (by_wheel[n].arbor for n in m.pair)
+            if arbor_a == arbor_b:
                 self.problem(
                     self.at_key(m.where, "pair"),
-                    f'both wheels sit on arbor "{a}"',
+                    f'both wheels sit on arbor "{arbor_a}"',
                     "wheels on two different arbors",
                 )
-            elif axis(a) == axis(b):
+            elif axis(arbor_a) == axis(arbor_b):
                 # Coaxial members turn about one axis: their wheels cannot engage.
                 self.problem(
                     self.at_key(m.where, "pair"),
-                    f'arbors "{a}" and "{b}" share one axis (one is a sleeve around the other)',
+                    f'arbors "{arbor_a}" and "{arbor_b}" share one axis (one is a sleeve around the other)',
                     "wheels on arbors with different axes",
                 )
         for p in pinslots:

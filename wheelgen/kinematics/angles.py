@@ -239,9 +239,9 @@ def angle_model(design: Design) -> AngleModel:
             done.add(c.pinslot.name)
             pending.remove(c)
     # Arbors whose angle involves a coupling we could not evaluate are not driven.
-    for a in list(rates):
-        if any(k not in done and v != 0 for k, v in terms[a].items()):
-            del rates[a], terms[a]
+    for arbor_name in list(rates):
+        if any(k not in done and v != 0 for k, v in terms[arbor_name].items()):
+            del rates[arbor_name], terms[arbor_name]
     return AngleModel(rates, terms, tuple(ordered))
 
 

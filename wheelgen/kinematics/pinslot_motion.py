@@ -27,6 +27,8 @@ not wrapped); lengths in mm.
 
 from __future__ import annotations
 
+from typing import cast
+
 import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
@@ -44,6 +46,7 @@ __all__ = [
 ]
 
 FloatArray = NDArray[np.float64]
+# numpy's stubs type ufunc results as Any: cast(FloatArray, ...) below only tells mypy.
 
 
 def check_offset(radius: float, offset: float) -> None:
@@ -72,7 +75,10 @@ def deviation_from_pin_deg(
     u = np.radians(np.asarray(u_deg, dtype=float))
     # atan2 of the cross and dot product of the two radii (A->pin, B->pin): smooth, and
     # the denominator r - e cos u stays positive for e < r, so no branch jumps.
-    return np.degrees(np.arctan2(offset * np.sin(u), radius - offset * np.cos(u)))
+    return cast(
+        FloatArray,
+        np.degrees(np.arctan2(offset * np.sin(u), radius - offset * np.cos(u))),
+    )
 
 
 def deviation_from_slot_deg(
@@ -85,7 +91,7 @@ def deviation_from_slot_deg(
     """
     check_offset(radius, offset)
     psi = np.radians(np.asarray(psi_deg, dtype=float))
-    return np.degrees(np.arcsin((offset / radius) * np.sin(psi)))
+    return cast(FloatArray, np.degrees(np.arcsin((offset / radius) * np.sin(psi))))
 
 
 def slot_angle_deg(
@@ -143,7 +149,10 @@ def speed_ratio(u_deg: ArrayLike, radius: float, offset: float) -> FloatArray:
     check_offset(radius, offset)
     u = np.radians(np.asarray(u_deg, dtype=float))
     r, e = radius, offset
-    return r * (r - e * np.cos(u)) / (r * r + e * e - 2.0 * r * e * np.cos(u))
+    return cast(
+        FloatArray,
+        r * (r - e * np.cos(u)) / (r * r + e * e - 2.0 * r * e * np.cos(u)),
+    )
 
 
 def transmission_angle_deg(
@@ -168,4 +177,4 @@ def pin_distance(u_deg: ArrayLike, radius: float, offset: float) -> FloatArray:
     u = np.radians(np.asarray(u_deg, dtype=float))
     x = radius * np.cos(u) - offset
     y = radius * np.sin(u)
-    return np.hypot(x, y)
+    return cast(FloatArray, np.hypot(x, y))

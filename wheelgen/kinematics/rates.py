@@ -144,10 +144,10 @@ def _equations(design: Design) -> tuple[list[Equation], list[str]]:
             )
         )
     for p in design.pinslots:
-        a, b = design.wheel(p.pin).arbor, design.wheel(p.slot).arbor
+        pin_arbor, slot_arbor = design.wheel(p.pin).arbor, design.wheel(p.slot).arbor
         eqs.append(
             Equation(
-                ((a, Fraction(1)), (b, Fraction(-1))),
+                ((pin_arbor, Fraction(1)), (slot_arbor, Fraction(-1))),
                 Fraction(0),
                 f'pin-and-slot "{p.name}"',
             )

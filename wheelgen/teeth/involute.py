@@ -8,6 +8,7 @@ from __future__ import annotations
 import math
 
 import numpy as np
+from numpy.typing import NDArray
 
 __all__ = [
     "inverse_involute_deg",
@@ -15,6 +16,8 @@ __all__ = [
     "involute_points",
     "involute_polar",
 ]
+
+FloatArray = NDArray[np.float64]
 
 
 def involute_function(alpha_deg: float) -> float:
@@ -59,7 +62,7 @@ def inverse_involute_deg(value: float) -> float:
 
 def involute_points(
     base_radius: float, roll_from_deg: float, roll_to_deg: float, count: int = 24
-) -> np.ndarray:
+) -> FloatArray:
     """Points on one involute flank: a ``(count, 2)`` array of x, y in mm.
 
     The involute starts on the base circle (``base_radius`` mm) on +X and unwinds
@@ -74,8 +77,8 @@ def involute_points(
 
 
 def involute_polar(
-    base_radius: float, start_angle_rad: float, roll_rad: np.ndarray, sense: int = 1
-) -> np.ndarray:
+    base_radius: float, start_angle_rad: float, roll_rad: FloatArray, sense: int = 1
+) -> FloatArray:
     """Exact involute points (mm) for roll angles ``roll_rad`` (radians, >= 0).
 
     The involute leaves the base circle at polar angle ``start_angle_rad`` and turns

@@ -9,11 +9,15 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass, field
-from typing import Iterator, Literal
+from typing import Iterator, Literal, cast
 
 import numpy as np
+from numpy.typing import NDArray
 
 __all__ = ["Segment", "WheelOutline", "SegmentKind", "circle_through"]
+
+FloatArray = NDArray[np.float64]
+# numpy's stubs type indexing as Any: cast(FloatArray, ...) below only tells mypy.
 
 SegmentKind = Literal["line", "arc", "spline"]
 
@@ -30,7 +34,7 @@ class Segment:
     """
 
     kind: SegmentKind
-    points: np.ndarray
+    points: FloatArray
 
     def __post_init__(self) -> None:
         pts = np.asarray(self.points, dtype=float)
@@ -53,19 +57,19 @@ class Segment:
         object.__setattr__(self, "points", pts)
 
     @property
-    def start(self) -> np.ndarray:
-        return self.points[0]
+    def start(self) -> FloatArray:
+        return cast(FloatArray, self.points[0])
 
     @property
-    def end(self) -> np.ndarray:
-        return self.points[-1]
+    def end(self) -> FloatArray:
+        return cast(FloatArray, self.points[-1])
 
     def rotated(self, angle_deg: float) -> "Segment":
         a = math.radians(angle_deg)
         rot = np.array([[math.cos(a), -math.sin(a)], [math.sin(a), math.cos(a)]])
         return Segment(self.kind, self.points @ rot.T)
 
-    def polyline(self, chord_tol: float) -> np.ndarray:
+    def polyline(self, chord_tol: float) -> FloatArray:
         """Points along the segment (start and end included) with chord error <= ``chord_tol`` mm.
 
         Splines are sampled on the chord-length cubic spline (not-a-knot) through their
@@ -81,7 +85,7 @@ class Segment:
         return _spline_polyline(self.points, chord_tol)
 
 
-def _arc_polyline(p: np.ndarray, chord_tol: float) -> np.ndarray:
+def _arc_polyline(p: FloatArray, chord_tol: float) -> FloatArray:
     centre, radius = circle_through(p[0], p[1], p[2])
     if radius is None:
         return p[[0, 2]].copy()
@@ -106,8 +110,8 @@ def _arc_polyline(p: np.ndarray, chord_tol: float) -> np.ndarray:
 
 
 def circle_through(
-    a: np.ndarray, b: np.ndarray, c: np.ndarray
-) -> tuple[np.ndarray, float | None]:
+    a: FloatArray, b: FloatArray, c: FloatArray
+) -> tuple[FloatArray, float | None]:
     """Centre (mm) and radius of the circle through three points; radius None if collinear."""
     d = 2 * (a[0] * (b[1] - c[1]) + b[0] * (c[1] - a[1]) + c[0] * (a[1] - b[1]))
     if abs(d) < 1e-15:
@@ -122,7 +126,7 @@ def circle_through(
     return centre, float(np.hypot(*(a - centre)))
 
 
-def _spline_polyline(p: np.ndarray, chord_tol: float) -> np.ndarray:
+def _spline_polyline(p: FloatArray, chord_tol: float) -> FloatArray:
     # A C2 cubic spline through the exact points, parametrised by chord length with
     # not-a-knot ends (what a CAD kernel's interpolating B-spline does, within its end
     # conditions). Each span is cut so that its chord sagitta |S''| h^2 / 8 stays
@@ -153,7 +157,7 @@ def _spline_polyline(p: np.ndarray, chord_tol: float) -> np.ndarray:
     return np.vstack((pts, p[-1:]))
 
 
-def _second_derivatives(p: np.ndarray, h: np.ndarray) -> np.ndarray:
+def _second_derivatives(p: FloatArray, h: FloatArray) -> FloatArray:
     """Second derivatives at the knots of the not-a-knot cubic through ``p``."""
     n = len(p)
     if n == 3:
@@ -171,7 +175,8 @@ def _second_derivatives(p: np.ndarray, h: np.ndarray) -> np.ndarray:
     rhs[1:-1] = 6 * (slopes[1:] - slopes[:-1])
     a[0, :3] = [h[1], -(h[0] + h[1]), h[0]]
     a[-1, -3:] = [h[-1], -(h[-2] + h[-1]), h[-2]]
-    return np.linalg.solve(a, rhs)
+    # the stubs widen the result to floating[Any]; both inputs are float64
+    return cast(FloatArray, np.linalg.solve(a, rhs))
 
 
 @dataclass(frozen=True, slots=True, eq=False)
@@ -212,12 +217,12 @@ class WheelOutline:
             for seg in self.tooth:
                 yield seg if k == 0 else seg.rotated(angle)
 
-    def tooth_polyline(self, chord_tol: float = 0.001) -> np.ndarray:
+    def tooth_polyline(self, chord_tol: float = 0.001) -> FloatArray:
         """One tooth as points in mm, first point included, last point excluded."""
         parts = [seg.polyline(chord_tol)[:-1] for seg in self.tooth]
         return np.vstack(parts)
 
-    def polyline(self, chord_tol: float = 0.001) -> np.ndarray:
+    def polyline(self, chord_tol: float = 0.001) -> FloatArray:
         """The whole closed outline as an ``(n, 2)`` array in mm (not repeating the first point)."""
         one = self.tooth_polyline(chord_tol)
         a = np.radians(np.arange(self.teeth) * self.pitch_angle_deg)
