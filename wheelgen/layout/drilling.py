@@ -20,9 +20,9 @@ import io
 import math
 from collections.abc import Sequence
 from dataclasses import dataclass
+from html import escape  # light: xml.sax.saxutils pulls in urllib and http
 from pathlib import Path
 from typing import Any
-from xml.sax.saxutils import escape
 
 from ..checks.findings import has_errors
 from ..design.model import Design

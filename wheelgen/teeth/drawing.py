@@ -7,7 +7,7 @@ the front.
 
 from __future__ import annotations
 
-from xml.sax.saxutils import escape
+from html import escape  # light: xml.sax.saxutils pulls in urllib and http
 
 from .outline import WheelOutline
 
