@@ -374,3 +374,21 @@ def test_axes_inside_the_base_circles():
     found = _mesh(ToothSpec(20, 1.0), ToothSpec(40, 1.0), centre_distance=25.0)
     assert [(f.level, f.check) for f in found] == [("error", "mesh.centre_distance")]
     assert SUBJECT in found[0].message
+
+
+def test_jam_advice_names_the_backlash_that_frees_the_pair():
+    # derived: the advised extra play is the overlap arc on the driven pitch circle;
+    # adding it (split half per wheel, as the design's backlash is) must free the mesh
+    import re
+
+    def pair(thinning):
+        return [
+            ToothSpec(z, 1.0, form="triangular", addendum=0.6, thinning=thinning)
+            for z in (20, 60)
+        ]
+
+    (jam,) = _only(_mesh(*pair(0.05)), "mesh.jam")
+    extra = float(re.search(r"by at least ([0-9.]+) mm", jam.advice).group(1))
+    assert extra > 0
+    freed = _mesh(*pair(0.05 + extra / 2 + 0.005))
+    assert "mesh.jam" not in _ids(freed)

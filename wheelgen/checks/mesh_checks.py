@@ -541,6 +541,12 @@ def _clearance_from_outlines(
     return out
 
 
+def _jam_backlash(sim: MeshSimulation, driven: ToothSpec) -> float:
+    """Extra circumferential play (mm) on the driven pitch circle that frees a jam."""
+    # derived: the arc of the overlap angle on the pitch circle, r = m z / 2
+    return -sim.min_play_deg * math.pi / 180.0 * driven.module * driven.teeth / 2.0
+
+
 def _simulation_findings(
     sim: MeshSimulation,
     spec1: ToothSpec,
@@ -560,7 +566,9 @@ def _simulation_findings(
                 "the pair jams",
                 measured=f"play {sim.min_play_deg:.4f} deg at the driven wheel",
                 limit="0 deg",
-                advice="move the axes apart or thin the teeth (backlash)",
+                advice="move the axes apart, or thin the teeth: raise 'backlash' by at "
+                f"least {_mm(_jam_backlash(sim, spec2))} (the overlap, measured on the "
+                "driven wheel's pitch circle)",
             )
         )
         return out
