@@ -147,3 +147,16 @@ def test_csv_round_trip(tmp_path: Path) -> None:
             assert float(t["over_pins_mm"]) == pytest.approx(r.over_pins, abs=5e-5)
             assert float(t["span_width_mm"]) == pytest.approx(r.span_width, abs=5e-5)
             assert int(t["span_teeth_k"]) == r.span_teeth
+
+
+def test_cutter_notes_for_small_and_shifted_wheels() -> None:
+    # Rose 1887 (check-values §10): the 8-cutter set starts at 12 teeth (No. 8)
+    (small,) = cutting_rows([_wheel(11, shift=0.4)])
+    assert small.cutter_number is None
+    assert any("no cutter of the 8-cutter set" in w for w in small.warnings)
+    assert any("profile shift x = +0.4" in w for w in small.warnings)
+    (plain,) = cutting_rows([_wheel(40)])
+    assert not any("cutter" in w or "shift" in w for w in plain.warnings)
+    sheet = list(csv.DictReader(io.StringIO(cutting_csv([small, plain]))))
+    assert "no cutter" in sheet[0]["notes"] and sheet[1]["notes"] == ""
+    assert list(sheet[0]) == list(CUTTING_COLUMNS)

@@ -82,6 +82,7 @@ CUTTING_COLUMNS: tuple[str, ...] = (
     "span_width_mm",
     "pin_diameter_mm",
     "over_pins_mm",
+    "notes",
 )
 
 
@@ -115,10 +116,30 @@ def cutting_rows(parts: Sequence[Any]) -> tuple[CuttingRow, ...]:
                 span_width=data.span_width,
                 pin_diameter=data.pin_diameter,
                 over_pins=data.over_pins,
-                warnings=tuple(data.warnings),
+                warnings=tuple(data.warnings) + _cutter_notes(spec, data.cutter_number),
             )
         )
     return tuple(rows)
+
+
+def _cutter_notes(spec: Any, number: int | None) -> tuple[str, ...]:
+    """What a machinist with a set of 8 involute form cutters must know for ``spec``."""
+    if spec.form != "involute":
+        return ()
+    notes = []
+    if number is None:
+        notes.append(
+            f"no cutter of the 8-cutter set is made for {spec.teeth} teeth (No. 8 starts "
+            "at 12): use a cutter ground for this count, or profile-cut from the DXF"
+        )
+    if spec.shift != 0:
+        notes.append(
+            f"profile shift x = {spec.shift:+g}: form cutters are made for unshifted "
+            "teeth and give this tooth only approximately; generate it (hob or shaper) "
+            "or profile-cut it from the DXF, and check it with the span and over-pins "
+            "sizes given here, which include the shift"
+        )
+    return tuple(notes)
 
 
 def indexing_text(plan: IndexPlan) -> str:
@@ -163,6 +184,7 @@ def _csv_row(row: CuttingRow) -> list[str]:
         _num(row.span_width),
         _num(row.pin_diameter, 3),
         _num(row.over_pins),
+        "; ".join(row.warnings),
     ]
 
 
