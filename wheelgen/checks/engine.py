@@ -1,9 +1,9 @@
 """Run every check on a design and gather the findings in one list.
 
 Each check is a function ``(design, analysis) -> list[Finding]`` registered in
-:data:`DESIGN_CHECKS`; :func:`analyse` runs them all, after the exact kinematics.
+:func:`design_checks`; :func:`analyse` runs them all, after the exact kinematics.
 Adding a check: write the function in its own module under ``wheelgen/checks`` and add it
-to the tuple below. Nothing here imports the CAD kernel.
+to the tuple :func:`design_checks` returns. Nothing here imports the CAD kernel.
 """
 
 from __future__ import annotations
@@ -17,7 +17,7 @@ from ..kinematics.targets import TargetResult, evaluate_targets
 from .findings import Finding, sort_findings
 from .train import train_findings
 
-__all__ = ["Analysis", "analyse", "run_checks", "DESIGN_CHECKS", "DesignCheck"]
+__all__ = ["Analysis", "analyse", "run_checks", "design_checks", "DesignCheck"]
 
 
 @dataclass(frozen=True)
@@ -49,20 +49,18 @@ def _process(design: Design, analysis: Analysis) -> list[Finding]:
 
     try:
         bores = {p.name: p.bore for p in plan_parts(design) if p.kind == "wheel"}
-    except Exception:  # noqa: BLE001  (a layout that cannot be made is reported by the layout check)
+    except ValueError:  # a layout that cannot be made: the layout check reports it
         bores = None
     return design_process_checks(design, bores)
 
 
-def _registered() -> tuple[DesignCheck, ...]:
+def design_checks() -> tuple[DesignCheck, ...]:
+    """Every registered check, in the order they run."""
     # Imported here so that each check module may import the engine's types.
     from ..layout import layout_findings
     from .pinslot_checks import pinslot_findings
 
     return (_train, _meshes, _process, layout_findings, pinslot_findings)
-
-
-DESIGN_CHECKS: tuple[DesignCheck, ...] = ()
 
 
 def analyse(design: Design) -> Analysis:
@@ -71,7 +69,7 @@ def analyse(design: Design) -> Analysis:
     targets = evaluate_targets(design, solution)
     base = Analysis(design, solution, targets)
     findings: list[Finding] = []
-    for check in _registered() + DESIGN_CHECKS:
+    for check in design_checks():
         findings.extend(check(design, base))
     return Analysis(design, solution, targets, sort_findings(findings))
 
