@@ -10,7 +10,7 @@ from typing import Any
 
 from ..checks.findings import Finding
 from ..design.model import Design
-from .collisions import Clash, find_clashes
+from .collisions import Clash, PinClash, find_clashes, find_pin_clashes
 from .placement import LOOP_TOLERANCE
 from .plan import Layout, plan_layout
 from .stacking import wheel_extent
@@ -125,6 +125,7 @@ def findings_for_layout(layout: Layout, rates: dict[str, Any]) -> list[Finding]:
             )
         )
     out.extend(_clash_findings(find_clashes(layout, rates)))
+    out.extend(_pin_findings(find_pin_clashes(layout, rates)))
     out.extend(_face_findings(design))
     out.extend(_plate_findings(design))
     out.extend(_bore_findings(layout))
@@ -160,6 +161,49 @@ def _clash_findings(clashes: list[Clash]) -> list[Finding]:
             )
         )
     return out
+
+
+def _pin_findings(clashes: list[PinClash]) -> list[Finding]:
+    """``layout.pin_collision``: a body in the ring a coupling's pin sweeps."""
+    worst: dict[tuple[str, str], PinClash] = {}
+    for c in clashes:
+        b = c.body
+        key = (c.sweep.pinslot, f"wheel {b.wheel}" if b.kind == "teeth" else b.label)
+        if key not in worst or c.depth > worst[key].depth:
+            worst[key] = c
+    out = []
+    for (pin, other), c in worst.items():
+        s = c.sweep
+        out.append(
+            Finding(
+                "error",
+                "layout.pin_collision",
+                f"pin of {pin} / {other}",
+                f'the pin of "{pin}" on wheel "{s.pin_wheel}" sweeps radii'
+                f" {s.inner:g} to {s.outer:g} mm about its axis; {c.body.label} reaches"
+                f" {_mm(c.depth)} into that ring between heights {c.z0:g} and"
+                f" {c.z1:g} mm",
+                _mm(c.depth),
+                "0 mm",
+                _pin_advice(c, other),
+            )
+        )
+    return out
+
+
+def _pin_advice(c: PinClash, other: str) -> str:
+    s, b = c.sweep, c.body
+    if b.kind == "teeth":
+        return (
+            f"move {other} (height) out of heights {s.z0:g} to {s.z1:g} mm, or its"
+            " axis away from the pin's path"
+        )
+    if b.wheel is not None:
+        return f"a smaller or shorter hub on wheel {b.wheel}, or move the pin (radius)"
+    return (
+        f"move the axis of {other} away from the pin's path, make it thinner, or move"
+        " the pin (radius)"
+    )
 
 
 def _face_findings(design: Design) -> list[Finding]:

@@ -13,6 +13,13 @@ section. Two bodies on different axes whose z-ranges overlap are compared in the
 
 Meshing pairs are left out (their teeth interlock by design), as are a carried arbor and
 the wheel that carries it, and members of one coaxial group (see hidden seats).
+
+The pin of a pin-and-slot coupling turns with its wheel, so it sweeps a ring about the
+pin wheel's axis (radii ``r - d/2`` to ``r + d/2``) from that wheel's front face to the
+pin's end (:func:`find_pin_clashes`). Every body in that z-range on any axis, the
+coaxial ones included, is compared with the ring in the same two steps, by the range
+of its distances from the pin's axis; only the coupling's slot wheel is left out (the
+pin runs in its slot).
 """
 
 from __future__ import annotations
@@ -24,9 +31,10 @@ from functools import lru_cache
 
 import numpy as np
 
-from ..design.model import Design
+from ..design.model import Design, PinSlot
 from ..kinematics.rates import axis_root
 from ..teeth.spec import ToothSpec, outline_for
+from .pinslot_geometry import pin_boss
 from .placement import tooth_spec
 from .plan import Layout
 
@@ -34,8 +42,12 @@ __all__ = [
     "CONTACT_TOLERANCE",
     "Body",
     "Clash",
+    "PinClash",
+    "PinSweep",
     "bodies",
     "find_clashes",
+    "find_pin_clashes",
+    "pin_sweeps",
     "nominal_tip_radius",
     "outline_radius",
 ]
@@ -223,17 +235,10 @@ def _depth(
     pa = np.array(layout.placing.positions[a.axis])
     pb = np.array(layout.placing.positions[b.axis])
     fa, fb = _frame(design, a.axis), _frame(design, b.axis)
-    fixed_distance = True
-    if (
-        fa == fb
-        or fa is not None
-        and axis_root(design, fa) == b.axis
-        or fb is not None
-        and axis_root(design, fb) == a.axis
-    ):
+    fixed_distance = _fixed_distance(design, a.axis, b.axis)
+    if fixed_distance:
         d = float(np.hypot(*(pa - pb)))
     else:
-        fixed_distance = False
         d = _nearest_approach(layout, a.axis, b.axis)
     if a.radius + b.radius - d <= CONTACT_TOLERANCE:
         return a.radius + b.radius - d
@@ -259,6 +264,18 @@ def _depth(
     return ra + rb - d
 
 
+def _fixed_distance(design: Design, a: str, b: str) -> bool:
+    """Do axis roots ``a`` and ``b`` keep one distance however the carriers turn?"""
+    fa, fb = _frame(design, a), _frame(design, b)
+    return (
+        fa == fb
+        or fa is not None
+        and axis_root(design, fa) == b
+        or fb is not None
+        and axis_root(design, fb) == a
+    )
+
+
 def _swept(design: Design, body: Body) -> float:
     """Radius (mm) of the disc a body sweeps when it turns: its outline's largest."""
     if body.kind != "teeth" or body.wheel is None:
@@ -281,6 +298,11 @@ def _still(
 
 def _nearest_approach(layout: Layout, a: str, b: str) -> float:
     """Smallest distance (mm) between two axes when at least one circles a carrier."""
+    return _approach(layout, a, b)[0]
+
+
+def _approach(layout: Layout, a: str, b: str) -> tuple[float, float]:
+    """Smallest and largest distance (mm) between two axes that circle carriers."""
     design = layout.design
     pos = layout.placing.positions
 
@@ -293,9 +315,135 @@ def _nearest_approach(layout: Layout, a: str, b: str) -> float:
 
     ca, ea = centre(a)
     cb, eb = centre(b)
+    apart = float(np.hypot(*(ca - cb)))
+    far = apart + ea + eb
     if eb == 0.0:
-        return abs(float(np.hypot(*(cb - ca))) - ea)
+        return abs(apart - ea), far
     if ea == 0.0:
-        return abs(float(np.hypot(*(ca - cb))) - eb)
+        return abs(apart - eb), far
     # both circle (different) carriers: the conservative nearest approach
-    return max(0.0, float(np.hypot(*(ca - cb))) - ea - eb)
+    return max(0.0, apart - ea - eb), far
+
+
+@dataclass(frozen=True, slots=True)
+class PinSweep:
+    """The ring a coupling's pin sweeps about its wheel's axis (mm).
+
+    Radii ``inner`` to ``outer`` about axis root ``axis``, from ``z0`` (the pin wheel's
+    front face) to ``z1`` (the pin's end).
+    """
+
+    pinslot: str
+    pin_wheel: str
+    slot_wheel: str
+    axis: str
+    member: str
+    inner: float
+    outer: float
+    z0: float
+    z1: float
+
+
+@dataclass(frozen=True, slots=True)
+class PinClash:
+    """A body that reaches ``depth`` mm into a pin's ring between ``z0`` and ``z1``."""
+
+    sweep: PinSweep
+    body: Body
+    depth: float
+    z0: float
+    z1: float
+
+
+def pin_sweeps(layout: Layout) -> list[PinSweep]:
+    """The ring of every placed pin-and-slot coupling whose sizes can be worked out.
+
+    A coupling whose offset or stacking is impossible is left out: the pin-and-slot
+    checks (``pinslot.offset``, ``pinslot.stacking``) report it.
+    """
+    design = layout.design
+    out = []
+    for p in design.pinslots:
+        wheel = design.wheel(p.pin)
+        if layout.position(wheel.arbor) is None:
+            continue
+        try:
+            boss = pin_boss(design, p)
+        except ValueError:
+            continue
+        front = wheel.height + wheel.face_width
+        out.append(_sweep(design, p, boss.radius, boss.diameter, front, boss.length))
+    return out
+
+
+def _sweep(
+    design: Design, p: PinSlot, r: float, d: float, front: float, length: float
+) -> PinSweep:
+    member = design.wheel(p.pin).arbor
+    return PinSweep(
+        p.name, p.pin, p.slot, axis_root(design, member), member,
+        r - d / 2, r + d / 2, front, front + length,
+    )  # fmt: skip
+
+
+def find_pin_clashes(
+    layout: Layout, rates: dict[str, Fraction | None]
+) -> list[PinClash]:
+    """Every body that meets a pin's swept ring (mm); ``rates`` per arbor.
+
+    The coupling's own slot wheel is left out; its arbor is not (the pin must clear it
+    where it carries the slot wheel, inside the pin's z-range).
+    """
+    items = bodies(layout)
+    clashes: list[PinClash] = []
+    for sweep in pin_sweeps(layout):
+        for body in items:
+            if body.kind == "teeth" and body.wheel == sweep.slot_wheel:
+                continue
+            z0, z1 = max(sweep.z0, body.z0), min(sweep.z1, body.z1)
+            if z1 - z0 <= CONTACT_TOLERANCE:
+                continue
+            depth = _ring_depth(layout, rates, sweep, body)
+            if depth > CONTACT_TOLERANCE:
+                clashes.append(PinClash(sweep, body, depth, z0, z1))
+    return clashes
+
+
+def _ring_overlap(sweep: PinSweep, near: float, far: float) -> float:
+    """Depth (mm) of a body in the ring; <= 0 if apart.
+
+    The body's distances from the pin's axis run from ``near`` to ``far`` (mm); the
+    depth is the smaller radial move that clears the ring, inwards or outwards.
+    """
+    return min(sweep.outer - max(near, 0.0), far - sweep.inner)
+
+
+def _ring_depth(
+    layout: Layout, rates: dict[str, Fraction | None], sweep: PinSweep, body: Body
+) -> float:
+    design = layout.design
+    pa = np.array(layout.placing.positions[sweep.axis])
+    pb = np.array(layout.placing.positions[body.axis])
+    fixed_distance = _fixed_distance(design, sweep.axis, body.axis)
+    if fixed_distance:
+        near = far = float(np.hypot(*(pa - pb)))
+    else:
+        near, far = _approach(layout, sweep.axis, body.axis)
+    depth = _ring_overlap(sweep, near - body.radius, far + body.radius)
+    if depth <= CONTACT_TOLERANCE:
+        return depth
+    swept = _swept(design, body)
+    depth = _ring_overlap(sweep, near - swept, far + swept)
+    if depth <= CONTACT_TOLERANCE or not fixed_distance:
+        return depth
+    # a wheel standing still relative to the pin's axis keeps its exact outline: its
+    # distances from that axis run from the polygon's (0 if it holds the axis) to its
+    # farthest vertex's
+    fa, fb = _frame(design, sweep.axis), _frame(design, body.axis)
+    frame = fa if fa == fb else (fa if fa is not None else fb)
+    if body.wheel is None or not _still(body, rates, _rate(rates, frame)):
+        return depth
+    poly = _polyline(tooth_spec(design.wheel(body.wheel))) + pb
+    outline_near = _signed_distance(pa, poly)
+    outline_far = float(np.max(np.hypot(*(poly - pa).T)))
+    return _ring_overlap(sweep, outline_near, outline_far)

@@ -7,7 +7,8 @@ hub_length`` (the hub stands on the front face). The rules:
   in each. Two plate-mounted axes closer than their radii (the offset axes of a
   pin-and-slot coupling) cannot both do so: the one whose wheels lie further back runs
   from the back plate to its last wheel, the other from its first wheel to the front
-  plate, each held by one plate.
+  plate, each held by one plate. The two axes of a pin-and-slot coupling are always
+  split so, whatever their offset.
 - A carried arbor spans its wheels and the carrier wheel, in which it turns.
 - A sleeve spans its own wheel seats and everything around it: an outer tube rides on
   the inner one, so inner tubes are longer and every seat must lie outside the tubes
@@ -27,6 +28,7 @@ from dataclasses import dataclass
 
 from ..design.model import Design
 from ..design.model import Seat as SeatShape
+from ..kinematics.rates import axis_root
 from .sleeves import SleeveSize, coaxial_groups, member_outside
 
 __all__ = [
@@ -213,11 +215,24 @@ def stack_axes(
         for root, members in groups.items()
     }
     mounted = [r for r in groups if design.arbor(r).carrier is None and r in positions]
+    # The two axes of a pin-and-slot coupling are always split, whatever their offset:
+    # the pin wheel reaches across the slot wheel's axis (its radius is more than the
+    # pin radius, which is more than the offset), so a shaft running plate to plate on
+    # either axis would pass through the other wheel.
+    coupled = {
+        frozenset(
+            (
+                axis_root(design, design.wheel(p.pin).arbor),
+                axis_root(design, design.wheel(p.slot).arbor),
+            )
+        )
+        for p in design.pinslots
+    }
     split: dict[str, str] = {}
     for i, a in enumerate(mounted):
         for b in mounted[i + 1 :]:
             d = math.dist(positions[a], positions[b])
-            if d < radius[a] + radius[b]:
+            if d < radius[a] + radius[b] or frozenset((a, b)) in coupled:
                 za = _mean_z(spans[a])
                 zb = _mean_z(spans[b])
                 lower, upper = (a, b) if za <= zb else (b, a)
