@@ -232,3 +232,33 @@ def test_staging_left_by_a_killed_build_is_swept_and_output_restored(tmp_path):
         st.commit()
     assert (target / "a" / "b.txt").read_text() == "new"
     assert sorted(p.name for p in tmp_path.iterdir()) == ["out"]
+
+
+def test_cache_prunes_entries_unused_for_a_month_and_stale_temporaries(tmp_path):
+    # derived: KEEP_DAYS = 30; an entry last used 31 days ago goes, one used 29 days ago
+    # stays; a temporary folder of a killed build older than a day goes
+    import os
+    import time
+
+    from wheelgen.export.cache import KEEP_DAYS, PartCache
+
+    cache = PartCache(tmp_path / "c")
+    now = time.time()
+    for key, days in (
+        ("aa" + "0" * 62, KEEP_DAYS + 1),
+        ("bb" + "0" * 62, KEEP_DAYS - 1),
+    ):
+        tmp = cache.new_entry()
+        (tmp / "f.txt").write_text(key)
+        cache.publish(key, tmp, ["f.txt"])
+        marker = cache.entry(key) / ".complete"
+        os.utime(marker, (now - days * 86400, now - days * 86400))
+    stale = cache.new_entry()
+    os.utime(stale, (now - 2 * 86400, now - 2 * 86400))
+    fresh_tmp = cache.new_entry()
+    assert cache.prune(now=now) == 2
+    assert not cache.has("aa" + "0" * 62) and cache.has("bb" + "0" * 62)
+    assert not stale.exists() and fresh_tmp.exists()
+    cache.mark_used("bb" + "0" * 62)  # a build that uses it keeps it another month
+    assert cache.prune(now=now + 2 * 86400) == 1  # only the temporary, a day old now
+    assert cache.has("bb" + "0" * 62)

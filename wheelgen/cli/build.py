@@ -108,7 +108,8 @@ def build_command(
 
     Parts whose parameters did not change are copied from the cache in
     .wheelgen-cache/ next to the output folder (output/.wheelgen-cache/ by default);
-    delete it at any time.
+    entries no build has used for 30 days are removed, and the folder may be deleted at
+    any time.
 
     Exit status: 0 built; 1 a check found an error (nothing written; see --force)
     or a part could not be made; 2 the design or an option cannot be used.

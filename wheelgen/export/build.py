@@ -414,8 +414,10 @@ def build_design(
         for k in keys:
             for rel in cache.files(k):
                 shutil.copyfile(cache.entry(k) / rel, stage.path(rel))
+        used = list(keys)
         if "step" in options.formats and parts:
             akey = _assembly_key(design, parts, keys)
+            used.append(akey)
             if not cache.has(akey):
                 tmp = cache.new_entry()
                 try:
@@ -431,6 +433,10 @@ def build_design(
             )
         if not options.use_cache:
             shutil.rmtree(cache_root, ignore_errors=True)
+        else:
+            for k in used:
+                cache.mark_used(k)
+            cache.prune()
         for writer in sheets.SHEET_WRITERS:  # read now: others may extend it
             for written in writer(design, parts, findings, stage.dir):
                 resolved = Path(written).resolve()

@@ -8,6 +8,10 @@ cache lives in ``.wheelgen-cache/`` beside the design's output folder (for
 ``output/<design>/`` that is ``output/.wheelgen-cache/``); delete it at any time. An
 entry is a folder written under a temporary name and renamed when complete, so a
 killed build never leaves a half entry that looks whole.
+
+Upkeep: every build marks the entries it used, then removes entries no build has used for
+:data:`KEEP_DAYS` days and temporary folders left by killed builds, so the cache does not
+grow without bound as designs and wheelgen change.
 """
 
 from __future__ import annotations
@@ -19,6 +23,7 @@ import json
 import os
 import shutil
 import tempfile
+import time
 from pathlib import Path
 from typing import Any
 
@@ -26,6 +31,7 @@ from .. import __version__
 
 __all__ = [
     "CACHE_DIR_NAME",
+    "KEEP_DAYS",
     "PartCache",
     "cache_root_for",
     "part_key",
@@ -33,6 +39,10 @@ __all__ = [
 ]
 
 CACHE_DIR_NAME = ".wheelgen-cache"
+#: Entries unused for this many days are removed after a build.
+KEEP_DAYS = 30
+#: Temporary folders older than this (seconds) are left over from killed builds.
+_STALE_TMP_S = 24 * 3600
 
 
 def cache_root_for(out_dir: Path) -> Path:
@@ -98,6 +108,37 @@ class PartCache:
         self.root.mkdir(parents=True, exist_ok=True)
         return Path(tempfile.mkdtemp(prefix=".tmp-", dir=self.root))
 
+    def mark_used(self, key: str) -> None:
+        """Record that a build used this entry now (its marker's modification time)."""
+        marker = self.entry(key) / ".complete"
+        if marker.is_file():
+            os.utime(marker)
+
+    def prune(self, keep_days: float = KEEP_DAYS, now: float | None = None) -> int:
+        """Remove entries unused for ``keep_days`` and stale temporary folders.
+
+        Returns how many folders were removed. Never raises for a folder that another
+        build removes at the same time.
+        """
+        if not self.root.is_dir():
+            return 0
+        now = time.time() if now is None else now
+        removed = 0
+        for child in self.root.iterdir():
+            if child.name.startswith(".tmp-"):
+                if _age(child, now) > _STALE_TMP_S:
+                    shutil.rmtree(child, ignore_errors=True)
+                    removed += 1
+                continue
+            if not child.is_dir():
+                continue
+            for entry in child.iterdir():
+                marker = entry / ".complete"
+                if marker.is_file() and _age(marker, now) > keep_days * 86400:
+                    shutil.rmtree(entry, ignore_errors=True)
+                    removed += 1
+        return removed
+
     def publish(self, key: str, tmp: Path, files: list[str]) -> None:
         (tmp / ".complete").write_text(json.dumps({"files": sorted(files)}))
         dest = self.entry(key)
@@ -107,3 +148,10 @@ class PartCache:
         except OSError:
             # another process published the same key first: its files are identical
             shutil.rmtree(tmp, ignore_errors=True)
+
+
+def _age(path: Path, now: float) -> float:
+    try:
+        return now - path.stat().st_mtime
+    except OSError:  # removed meanwhile by another build
+        return 0.0
