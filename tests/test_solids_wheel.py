@@ -266,3 +266,10 @@ def test_library_doc_examples_run(tmp_path, monkeypatch):
     exec(compile(blocks[0], "library.md", "exec"), scope)  # noqa: S102  (our own docs)
     assert scope["wheel"].isValid()
     assert scope["result"].val() is scope["wheel"]
+    # the last example: numbers only (run from the repository root, as written)
+    numbers: dict = {}
+    monkeypatch.chdir(root)
+    exec(compile(blocks[-1], "library.md", "exec"), numbers)  # noqa: S102
+    assert str(numbers["result"].solution.rate("tide")) == "371/192"
+    # ISO 21771 span, handbook table (check-values §2): z = 20, k = 3, W = 7.6604 mm
+    assert round(numbers["sheet"].span_width, 4) == 7.6604
