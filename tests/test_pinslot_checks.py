@@ -8,29 +8,16 @@ section 13, [P] firgelliauto.com); the 30 degree limit is common practice, no so
 from __future__ import annotations
 
 import math
-from pathlib import Path
 
 import pytest
+from _demo import demo_variant as _variant
 
 from wheelgen.checks.pinslot_checks import (
     pinslot_findings,
     slot_travel_findings,
     wheel_root_radius,
 )
-from wheelgen.design import loads_design
 from wheelgen.layout.part_plan import SlotCut
-
-DEMO_TEXT = (
-    Path(__file__).resolve().parents[1] / "designs" / "harbour_tide_clock.toml"
-).read_text()
-
-
-def _variant(*pairs: tuple[str, str]):
-    text = DEMO_TEXT
-    for old, new in pairs:
-        assert text.count(old) == 1, old
-        text = text.replace(old, new)
-    return loads_design(text, "demo.toml")
 
 
 def _ids(findings, level=None):

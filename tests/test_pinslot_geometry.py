@@ -6,11 +6,9 @@ Values derived from the demo file and the sizing rules of wheelgen/layout/pinslo
 
 from __future__ import annotations
 
-from pathlib import Path
-
 import pytest
+from _demo import demo_variant as _variant
 
-from wheelgen.design import loads_design
 from wheelgen.layout.part_plan import Placement
 from wheelgen.layout.pinslot_geometry import (
     MILL_SLOT_PLAY,
@@ -20,18 +18,6 @@ from wheelgen.layout.pinslot_geometry import (
     slot_cut,
     slot_width,
 )
-
-DEMO_TEXT = (
-    Path(__file__).resolve().parents[1] / "designs" / "harbour_tide_clock.toml"
-).read_text()
-
-
-def _variant(*pairs: tuple[str, str]):
-    text = DEMO_TEXT
-    for old, new in pairs:
-        assert text.count(old) == 1, old
-        text = text.replace(old, new)
-    return loads_design(text, "demo.toml")
 
 
 def test_demo_slot_cut():

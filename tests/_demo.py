@@ -1,0 +1,20 @@
+"""The bundled demo design as text, and variants of it for tests."""
+
+from __future__ import annotations
+
+from pathlib import Path
+
+from wheelgen.design import Design, loads_design
+
+DEMO_TEXT = (
+    Path(__file__).resolve().parents[1] / "designs" / "harbour_tide_clock.toml"
+).read_text()
+
+
+def demo_variant(*pairs: tuple[str, str]) -> Design:
+    """The demo with each ``old`` text (which must occur once) replaced by ``new``."""
+    text = DEMO_TEXT
+    for old, new in pairs:
+        assert text.count(old) == 1, old
+        text = text.replace(old, new)
+    return loads_design(text, "demo.toml")
