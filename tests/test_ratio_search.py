@@ -15,23 +15,36 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from wheelgen.kinematics.ratio_search import (
+    MAX_TOP,
     Limits,
+    SearchTooLarge,
     exact_trains,
     relaxations,
+    search_cost,
     search_trains,
+    stage_counts,
     teeth_for_diameter,
 )
 
 
+def _plain(spec):
+    """The counts of a range ``(lo, hi)`` or a set, as a plain sorted list."""
+    if isinstance(spec, frozenset):
+        return sorted(spec)
+    return list(range(spec[0], spec[1] + 1))
+
+
 def brute_force(target, teeth, stages, stage_teeth=(), max_total=None, sense="either"):
     """Every train: {sorted stages: (|error|, wheels, total, largest, widest, idler,
-    error)}."""
+    error)}. ``teeth`` and each of ``stage_teeth`` are ranges or sets of counts."""
     out = {}
     for k in range(1, stages + 1):
         ranges = []
         for i in range(k):
-            lo, hi = stage_teeth[i] if i < len(stage_teeth) else teeth
-            ranges.append(range(max(lo, teeth[0]), min(hi, teeth[1]) + 1))
+            own = _plain(stage_teeth[i]) if i < len(stage_teeth) else _plain(teeth)
+            ranges.append([z for z in own if z in set(_plain(teeth))])
+        if not all(ranges):
+            continue
         reverses = k % 2 == 1
         idler = None
         if (sense == "same" and reverses) or (sense == "opposite" and not reverses):
@@ -215,11 +228,75 @@ def test_teeth_for_diameter():
         ({"stages": 1, "stage_teeth": ((5, 9), (5, 9))}, "per-stage"),
         ({"max_teeth_total": 1}, "max_teeth_total"),
         ({"sense": "cw"}, "sense"),
+        ({"teeth": frozenset({0, 12})}, "teeth"),
+        ({"teeth": (10, 5000)}, "largest count"),
+        ({"stages": 2, "stage_teeth": (frozenset(),)}, "stage 1"),
     ],
 )
 def test_bad_limits(kwargs, message):
     with pytest.raises(ValueError, match=message):
         Limits(**kwargs)
+
+
+@pytest.mark.parametrize(
+    ("target", "teeth", "stages", "stage_teeth"),
+    [
+        # the workshop's own list: ranges and single counts together
+        (Fraction(12), frozenset({10, 12, 15, 30, 36, 40, 84}), 2, ()),
+        (
+            Fraction("3.14159265"),
+            frozenset([*range(12, 21), 24, 30, *range(36, 41)]),
+            2,
+            (),
+        ),
+        (Fraction(254, 19), frozenset({19, 20, 38, 40, 57, 127}), 3, ()),
+        # a list for one stage, a range for the other
+        (Fraction(17, 6), (5, 20), 2, (frozenset({5, 7, 9, 11}), (12, 20))),
+    ],
+)
+def test_tooth_lists_match_brute_force(target, teeth, stages, stage_teeth):
+    limits = Limits(teeth=teeth, stages=stages, stage_teeth=stage_teeth)
+    got, _ = assert_same_as_brute_force(target, limits)
+    allowed = set(_plain(teeth))
+    for t in got:  # a tooth list is honoured: no other count appears
+        assert all(a in allowed and b in allowed for a, b in t.stages)
+        for i, (a, b) in enumerate(t.stages):
+            if i < len(stage_teeth) and len(t.stages) == stages:
+                assert {a, b} <= set(_plain(stage_teeth[i]))
+
+
+def test_stage_counts_intersect_the_overall_set():
+    limits = Limits(
+        teeth=frozenset({12, 15, 84, 90}), stages=2, stage_teeth=((10, 85),)
+    )
+    assert stage_counts(limits, 2) == ((12, 15, 84), (12, 15, 84, 90))
+    assert stage_counts(Limits(teeth=(10, 20), stage_teeth=((30, 40),)), 1) is None
+
+
+def test_longer_list_starts_with_the_shorter():
+    # the list of the best 40 begins with the list of the best 10 (the ranking is total)
+    target, limits = Fraction("0.0027379093"), Limits(teeth=(10, 60), stages=3)
+    short = search_trains(target, limits, top=10, one_pairing=True)
+    long = search_trains(target, limits, top=40, one_pairing=True)
+    assert [t.stages for t in long[:10]] == [t.stages for t in short]
+
+
+def test_cost_is_estimated_and_a_large_search_refused():
+    # derived: 4 stages of teeth 10..300 form |P_2|*(|P_2|+1)/2 products, |P_2| being
+    # some 24,000 distinct two-wheel products; far beyond the time budget
+    limits = Limits(teeth=(10, 300), stages=4)
+    cost = search_cost(limits)
+    assert cost.stages == 4 and cost.products > 10**8
+    with pytest.raises(SearchTooLarge, match="teeth 10-300") as info:
+        search_trains(Fraction(12), limits)
+    assert info.value.cost == cost
+    # a small search fits: its estimate is far below the budget
+    assert search_cost(Limits(teeth=(10, 60), stages=2)).seconds < 1
+
+
+def test_top_is_bounded():
+    with pytest.raises(ValueError, match="top"):
+        search_trains(Fraction(12), Limits(), top=MAX_TOP + 1)
 
 
 def test_bad_target():

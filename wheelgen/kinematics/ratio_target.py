@@ -10,6 +10,7 @@ import re
 from dataclasses import dataclass
 from fractions import Fraction
 
+from ..design.loader import MAX_TURNS, MIN_TURNS
 from ..design.periods import UNIT_SECONDS, parse_period
 
 __all__ = ["RatioTarget", "parse_target", "YEAR_S"]
@@ -20,6 +21,11 @@ YEAR_S: Fraction = UNIT_SECONDS["yr"]
 _INTEGER_OR_FRACTION = re.compile(r"^\s*(\d+)\s*(?:/\s*(\d+))?\s*$")
 _DECIMAL = re.compile(r"^\s*(?:\d+\.\d*|\.\d+|\d+(?:\.\d*)?[eE][+-]?\d+)\s*$")
 _PER = re.compile(r"\s+per\s+", re.IGNORECASE)
+# A target is typed by a person: 40 characters of number hold any measured ratio,
+# and Fraction("1e999999") would first build a huge integer (and int() refuses more
+# than 4300 digits with a message about Python internals).
+_MAX_CHARS = 40
+_MAX_EXPONENT = 30
 
 
 @dataclass(frozen=True, slots=True)
@@ -75,11 +81,13 @@ def parse_target(text: str) -> RatioTarget:
             '"27.321661 d per 365.2422 d"'
         )
     parts = _PER.split(text.strip())
+    if len(parts) == 1:
+        _check_number_text(text)
     if len(parts) == 2:
         output_s = parse_period(parts[0])
         input_s = parse_period(parts[1])
         return RatioTarget(
-            value=input_s / output_s,
+            value=_in_range(input_s / output_s, text),
             exact=False,
             text=text.strip(),
             output_period_s=output_s,
@@ -93,14 +101,41 @@ def parse_target(text: str) -> RatioTarget:
         den = int(match.group(2) or 1)
         if num == 0 or den == 0:
             raise ValueError(f"{text!r}: the ratio must be positive and finite")
-        return RatioTarget(value=Fraction(num, den), exact=True, text=text.strip())
+        value = _in_range(Fraction(num, den), text)
+        return RatioTarget(value=value, exact=True, text=text.strip())
     if _DECIMAL.match(text):
         value = Fraction(text.strip())
         if value <= 0:
             raise ValueError(f"{text!r}: the ratio must be positive")
-        return RatioTarget(value=value, exact=False, text=text.strip())
+        return RatioTarget(value=_in_range(value, text), exact=False, text=text.strip())
     raise ValueError(
         f'{text!r} is not a target; allowed: a fraction "254/19", a whole number, '
         'a decimal "13.36842", or two periods "27.321661 d per 365.2422 d" '
         "(units s, min, h, d, yr)"
     )
+
+
+def _check_number_text(text: str) -> None:
+    """Refuse numbers too long to be typed on purpose before reading them."""
+    if len(text.strip()) > _MAX_CHARS:
+        raise ValueError(
+            f"{text.strip()[:20]!r}... has more than {_MAX_CHARS} characters; "
+            "a target needs far fewer (write a fraction or a shorter decimal)"
+        )
+    exponent = re.search(r"[eE]([+-]?\d+)", text)
+    if exponent is not None and abs(int(exponent.group(1))) > _MAX_EXPONENT:
+        raise ValueError(
+            f"{text.strip()!r}: a power of ten beyond {_MAX_EXPONENT}; "
+            f"allowed: a ratio from {float(MIN_TURNS):g} to {float(MAX_TURNS):g}"
+        )
+
+
+def _in_range(value: Fraction, text: str) -> Fraction:
+    """The wanted turns per turn must lie where a target of the train format may."""
+    if not MIN_TURNS <= value <= MAX_TURNS:
+        raise ValueError(
+            f"{text.strip()!r} is a ratio of {float(value):.3g}; allowed: from "
+            f"{float(MIN_TURNS):g} to {float(MAX_TURNS):g} turns of the output per "
+            "turn of the input"
+        )
+    return value
