@@ -46,6 +46,16 @@ def test_drift_in_degrees_per_year():
         ("1 d per 2 d per 3 d", "once"),
         ("1 week per 1 d", "unit"),
         ("-3", "not a target"),
+        ("inf", "not a target"),
+        ("nan", "not a target"),
+        # Fraction("1e999999") would build a million-digit integer first
+        ("1e999999", "power of ten"),
+        ("1e308", "power of ten"),
+        ("9" * 50 + "/7", "characters"),
+        # the train format's bounds on a target's turns: 1e-12 to 1e12
+        ("1e13", "allowed: from 1e-12"),
+        ("1/2000000000000", "allowed: from 1e-12"),
+        ("1e-6 s per 1e6 yr", "allowed: from 1e-12"),
     ],
 )
 def test_bad_targets(text, message):

@@ -1,107 +1,95 @@
 """A found train as a train definition (TOML text) that ``wheelgen check`` loads.
 
-Layout of the snippet: arbor ``input`` at the origin carries the first driver; each
+Names of the snippet: arbor ``input`` at the origin carries the first driver; each
 stage's driven wheel sits on the next arbor (``lay1``, ``lay2``, ... then ``output``)
-together with the next stage's driver. Stage ``i`` (from 1) works in the plane at
-height ``2 + (i - 1) * (face_width + 1)`` mm, so on a compound arbor the driven wheel is
-at ``h`` and the driver in front of it at ``h + face_width + 1``. Each mesh gets a
-bearing (degrees) that places the next arbor; the bearing is picked from 15-degree
-steps to keep every arbor shaft clear of the other arbors' wheels (tip circles).
-An idler, when the train needs one, sits on its own arbor between the last driver and
-the last driven wheel, in the last stage's plane.
+together with the next stage's driver; the wheels are ``driver1``, ``driven1``,
+``driver2``, ... An idler, when the train needs one, sits on its own arbor ``idler``
+between the last driver and the last driven wheel, in the last stage's plane. In a
+coaxial train ``output`` is a sleeve round ``input``.
+
+Where the arbors stand, the heights, the modules and any profile shift are a
+:class:`TrainPlan`, made by :func:`wheelgen.layout.train_fit.plan_train`; this module
+only names the parts and writes the text.
 """
 
 from __future__ import annotations
 
-import math
 import re
+from dataclasses import dataclass
 from fractions import Fraction
 
 from .ratio_search import Train
 from .ratio_target import RatioTarget
 
-__all__ = ["train_snippet", "snippet_layout"]
-
-_BASE_HEIGHT = 2.0  # mm above the back plate's inner face, as in our demo design
-_SHAFT_DIAMETER = 3.0  # the format's default arbor diameter, mm
-_BEARINGS = tuple(float(b) for b in range(0, 360, 15))
-
-
-def _tip_radius(teeth: int, module: float) -> float:
-    # standard unshifted wheel: d_a = m (z + 2) (ISO 21771 with the ISO 53 rack)
-    return module * (teeth + 2) / 2
-
-
-def snippet_layout(
-    train: Train, module: float = 1.0
-) -> list[tuple[str, str, tuple[float, float], float]]:
-    """Meshes of the snippet in order: ``(first wheel, second wheel, xy of the second
-    wheel's arbor in mm, bearing in degrees)``; wheels are named as in the snippet."""
-    if module <= 0:
-        raise ValueError(f"'module' must be positive, got {module}")
-    chain = _chain(train)
-    arbor_at: dict[str, tuple[float, float]] = {"input": (0.0, 0.0)}
-    wheel_arbor = {w: a for w, a, _, _ in _wheels(train)}
-    teeth = {w: z for w, _, z, _ in _wheels(train)}
-    plane = {w: p for w, _, _, p in _wheels(train)}
-    placed_wheels: list[str] = []
-    out = []
-    for first, second in chain:
-        a_first, a_second = wheel_arbor[first], wheel_arbor[second]
-        centre = module * (teeth[first] + teeth[second]) / 2
-        x0, y0 = arbor_at[a_first]
-        new_wheels = [w for w, a in wheel_arbor.items() if a == a_second]
-        best: tuple[float, float, tuple[float, float]] | None = None
-        for bearing in _BEARINGS:
-            rad = math.radians(bearing)
-            p = (x0 + centre * math.cos(rad), y0 + centre * math.sin(rad))
-            clear = math.inf
-            for w in placed_wheels + [first]:
-                if w in (first,) or wheel_arbor[w] == a_second:
-                    continue
-                q = arbor_at[wheel_arbor[w]]
-                gap = (
-                    math.dist(p, q)
-                    - _tip_radius(teeth[w], module)
-                    - _SHAFT_DIAMETER / 2
-                )
-                clear = min(clear, gap)
-            for a, q in arbor_at.items():
-                if a == a_first:
-                    continue
-                for w in new_wheels:
-                    gap = math.dist(p, q) - _tip_radius(teeth[w], module)
-                    clear = min(clear, gap - _SHAFT_DIAMETER / 2)
-            # wheels of other arbors in the same plane must not overlap the new ones
-            for w in placed_wheels:
-                if wheel_arbor[w] == a_first:
-                    continue
-                for n in new_wheels:
-                    if plane[w] == plane[n]:
-                        gap = (
-                            math.dist(p, arbor_at[wheel_arbor[w]])
-                            - _tip_radius(teeth[w], module)
-                            - _tip_radius(teeth[n], module)
-                        )
-                        clear = min(clear, gap)
-            if best is None or clear > best[0] + 1e-9:
-                best = (clear, bearing, p)
-        assert best is not None
-        _, bearing, p = best
-        arbor_at[a_second] = p
-        placed_wheels += [w for w in (first, second) if w not in placed_wheels]
-        placed_wheels += [w for w in new_wheels if w not in placed_wheels]
-        out.append((first, second, p, bearing))
-    return out
+__all__ = [
+    "PlannedArbor",
+    "PlannedWheel",
+    "PlannedMesh",
+    "TrainPlan",
+    "arbor_names",
+    "train_wheels",
+    "train_chain",
+    "train_snippet",
+]
 
 
-def _arbor_names(k: int) -> list[str]:
-    return ["input"] + [f"lay{i}" for i in range(1, k)] + ["output"]
+@dataclass(frozen=True, slots=True)
+class PlannedArbor:
+    """An arbor of the snippet: at ``at`` (mm), or a sleeve ``around`` another, or
+    placed by a mesh bearing (both ``None``)."""
+
+    name: str
+    at: tuple[float, float] | None = None
+    around: str | None = None
 
 
-def _wheels(train: Train) -> list[tuple[str, str, int, int]]:
-    """``(name, arbor, teeth, plane index)`` of every wheel."""
-    arbors = _arbor_names(len(train.stages))
+@dataclass(frozen=True, slots=True)
+class PlannedWheel:
+    """A wheel of the snippet: teeth, back-face height (mm), module (mm), shift x."""
+
+    name: str
+    arbor: str
+    teeth: int
+    height: float
+    module: float
+    shift: float = 0.0
+
+
+@dataclass(frozen=True, slots=True)
+class PlannedMesh:
+    """A mesh of the snippet; ``bearing_deg`` places the second arbor, or ``None``
+    when both arbors are placed already (the centre distance is then checked)."""
+
+    pair: tuple[str, str]
+    bearing_deg: float | None
+
+
+@dataclass(frozen=True, slots=True)
+class TrainPlan:
+    """Everything the snippet says about where the parts go (mm and degrees).
+
+    ``module`` goes into ``[defaults]`` (wheels whose module differs carry their own);
+    ``plates`` are the inner faces of the back and front plate.
+    """
+
+    module: float
+    face_width: float
+    plates: tuple[float, float]
+    arbors: tuple[PlannedArbor, ...]
+    wheels: tuple[PlannedWheel, ...]
+    meshes: tuple[PlannedMesh, ...]
+
+
+def arbor_names(train: Train) -> list[str]:
+    """``input``, ``lay1`` ..., ``output`` and, if the train has one, ``idler``."""
+    k = len(train.stages)
+    names = ["input"] + [f"lay{i}" for i in range(1, k)] + ["output"]
+    return names + (["idler"] if train.idler is not None else [])
+
+
+def train_wheels(train: Train) -> list[tuple[str, str, int, int]]:
+    """``(name, arbor, teeth, stage index from 0)`` of every wheel."""
+    arbors = arbor_names(train)
     out = []
     for i, (driver, driven) in enumerate(train.stages):
         out.append((f"driver{i + 1}", arbors[i], driver, i))
@@ -111,7 +99,8 @@ def _wheels(train: Train) -> list[tuple[str, str, int, int]]:
     return out
 
 
-def _chain(train: Train) -> list[tuple[str, str]]:
+def train_chain(train: Train) -> list[tuple[str, str]]:
+    """The meshes in the order the motion passes: ``(first wheel, second wheel)``."""
     k = len(train.stages)
     pairs = [(f"driver{i}", f"driven{i}") for i in range(1, k + 1)]
     if train.idler is not None:
@@ -124,33 +113,36 @@ def _toml_string(text: str) -> str:
     return '"' + text.replace("\\", "\\\\").replace('"', '\\"') + '"'
 
 
+def _number(value: float) -> str:
+    """A length or angle as the snippet writes it: shortest exact float text."""
+    return repr(float(round(value, 9)) + 0.0)
+
+
 def train_snippet(
     train: Train,
-    target: RatioTarget,
-    tolerance_ppm: float,
-    module: float = 1.0,
-    face_width: float = 3.0,
+    plan: TrainPlan,
+    target: RatioTarget | None = None,
+    tolerance_ppm: float = 0.0,
     sense: str = "either",
     title: str | None = None,
 ) -> str:
     """The train as TOML text in the train format, ready for ``wheelgen check``.
 
-    ``tolerance_ppm`` goes into the target (0 for an exact ratio); ``sense`` is the
-    output's sense relative to the input, ``"same"``, ``"opposite"`` or ``"either"``
-    (the drive turns ccw, so "same" becomes target sense "ccw"). Module and face width
-    in mm.
+    ``plan`` says where every part goes. ``target`` (with ``tolerance_ppm``, 0 for an
+    exact ratio) becomes the output's ``[[target]]``; without it the snippet has none.
+    ``sense`` is the output's sense relative to the input, ``"same"``, ``"opposite"``
+    or ``"either"`` (the drive turns ccw, so "same" becomes target sense "ccw").
     """
     if tolerance_ppm < 0:
         raise ValueError(f"'tolerance_ppm' must be at least 0, got {tolerance_ppm}")
-    if face_width <= 0:
-        raise ValueError(f"'face_width' must be positive, got {face_width}")
     target_sense = {"same": "ccw", "opposite": "cw", "either": "either"}.get(sense)
     if target_sense is None:
         raise ValueError(
             f"'sense' must be one of 'same', 'opposite', 'either', got {sense!r}"
         )
     stages = " x ".join(f"{a}/{b}" for a, b in train.stages)
-    title = title or f"Train for {target.text}: {stages} = {train.ratio}"
+    what = target.text if target is not None else str(train.ratio)
+    title = title or f"Train for {what}: {stages} = {train.ratio}"
     lines = [
         "# Written by wheelgen ratio. Ratio = turns of the output per turn of the",
         "# input = product of driver teeth / product of driven teeth.",
@@ -159,47 +151,58 @@ def train_snippet(
         f"title = {_toml_string(title)}",
         "",
         "[defaults]",
-        f"module = {module!r}",
-        f"face_width = {face_width!r}",
+        f"module = {_number(plan.module)}",
+        f"face_width = {_number(plan.face_width)}",
+        "",
+        "[frame]",
+        f"plates = [{_number(plan.plates[0])}, {_number(plan.plates[1])}]",
         "",
         "[drive]",
         'arbor = "input"',
     ]
-    if target.is_period:
+    if target is not None and target.is_period:
         lines.append(f"period = {_toml_string(_period_text(target, 'input'))}")
     else:
         lines.append('period = "1 d"')
     lines.append('sense = "ccw"')
-    layout = snippet_layout(train, module)
-    arbors = _arbor_names(len(train.stages)) + (["idler"] if train.idler else [])
-    for name in arbors:
-        lines += ["", "[[arbor]]", f'name = "{name}"']
-        if name == "input":
-            lines.append("at = [0.0, 0.0]")
-    pitch = face_width + 1.0
-    for name, arbor, teeth, plane in _wheels(train):
+    for arbor in plan.arbors:
+        lines += ["", "[[arbor]]", f"name = {_toml_string(arbor.name)}"]
+        if arbor.at is not None:
+            lines.append(f"at = [{_number(arbor.at[0])}, {_number(arbor.at[1])}]")
+        if arbor.around is not None:
+            lines.append(f"around = {_toml_string(arbor.around)}")
+    for w in plan.wheels:
         lines += [
             "",
             "[[wheel]]",
-            f'name = "{name}"',
-            f'arbor = "{arbor}"',
-            f"teeth = {teeth}",
-            f"height = {_BASE_HEIGHT + plane * pitch!r}",
+            f"name = {_toml_string(w.name)}",
+            f"arbor = {_toml_string(w.arbor)}",
+            f"teeth = {w.teeth}",
+            f"height = {_number(w.height)}",
         ]
-    for first, second, _, bearing in layout:
+        if w.module != plan.module:
+            lines.append(f"module = {_number(w.module)}")
+        if w.shift:
+            lines.append(f"shift = {_number(w.shift)}")
+    for mesh in plan.meshes:
+        first, second = mesh.pair
         lines += [
             "",
             "[[mesh]]",
-            f'pair = ["{first}", "{second}"]',
-            f"bearing = {bearing!r}",
+            f"pair = [{_toml_string(first)}, {_toml_string(second)}]",
         ]
-    lines += ["", "[[target]]", 'arbor = "output"']
-    if target.is_period:
-        lines.append(f"period = {_toml_string(_period_text(target, 'output'))}")
-    else:
-        lines.append(f'turns = "{target.value}"')
-    lines.append(f'tolerance = "{float(tolerance_ppm)!r} ppm"')
-    lines.append(f'sense = "{target_sense}"')
+        if mesh.bearing_deg is not None:
+            lines.append(f"bearing = {_number(mesh.bearing_deg)}")
+        else:
+            lines.append("# both arbors are placed already: the distance is checked")
+    if target is not None:
+        lines += ["", "[[target]]", 'arbor = "output"']
+        if target.is_period:
+            lines.append(f"period = {_toml_string(_period_text(target, 'output'))}")
+        else:
+            lines.append(f'turns = "{target.value}"')
+        lines.append(f'tolerance = "{float(tolerance_ppm)!r} ppm"')
+        lines.append(f'sense = "{target_sense}"')
     return "\n".join(lines) + "\n"
 
 

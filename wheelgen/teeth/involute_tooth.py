@@ -11,6 +11,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
+from functools import lru_cache
 
 import numpy as np
 
@@ -88,6 +89,8 @@ def rack_of(spec: ToothSpec) -> BasicRack:
     )
 
 
+@lru_cache(maxsize=1024)  # specs are frozen and the result immutable; a train or a
+# tooth-count search asks for the same wheels again and again
 def generate_tooth(spec: ToothSpec) -> GeneratedTooth:
     """Generate the involute tooth of ``spec`` (form must be ``"involute"``)."""
     if spec.form != "involute":
