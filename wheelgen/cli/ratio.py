@@ -341,7 +341,8 @@ def _too_large(exc: SearchTooLarge, limits: Limits) -> str:
     type=float,
     default=1.0,
     show_default=True,
-    help="Module in mm, for --max-diameter, the layout and --write.",
+    help=f"Module in mm ({MIN_MODULE:g} to {MAX_MODULE:g}), for --max-diameter, the "
+    "layout and --write.",
 )
 @click.option(
     "--stage-module",

@@ -39,10 +39,12 @@ Why the result is provably the best (not a heuristic)
    error of all. Pass two gathers every pair whose float error is at most ``kth``
    widened by a relative 1e-6 and an absolute 1e-12 (float64 computes ``D T / N - 1``
    to within about 1e-15, so no pair at or below the exact ``kth`` is lost). These
-   pairs, about ``top`` of them plus ties, are ranked with exact ``Fraction`` errors
-   (float64 cannot tell ``N/D`` from ``N'/D'`` when ``D D'`` exceeds about 1e16, which
-   happens with four stages). The work of both passes grows with ``top`` and the
-   number of ties, not with its square.
+   pairs, about ``top`` of them plus ties, are ranked exactly: the exact ones
+   (``N q = D p``, told by divisibility in integers) first, ordered by their totals in
+   numpy (an exact target can have hundreds of thousands of them), the rest by exact
+   ``Fraction`` errors (float64 cannot tell ``N/D`` from ``N'/D'`` when ``D D'``
+   exceeds about 1e16, which happens with four stages). The work of both passes grows
+   with ``top`` and the number of ties, not with its square.
 4. *Trains from pairs.* A pair's trains all have the pair's error; their tooth
    total is at least ``s(N) + s(D)``. Pairs are expanded into their factorisations
    (all orderings, stage-order duplicates removed) in order of
@@ -75,7 +77,8 @@ are listed completely, and every coaxial train belongs to exactly one of them, a
 neighbours of ``T / u`` in every sum pair bounds the ``K``-th best train, and every
 train under that bound is gathered by interval search and ranked exactly. ``K`` is
 ``4 top``: a train appears once per stage order, and with ``one_pairing`` up to four
-trains share one wheel set. Ties on the error go to the smaller ``spread``
+trains share one wheel set (all with the same error, so a cut on the error keeps
+all of them or none). Ties on the error go to the smaller ``spread``
 (``|m_1 S_1 - m_2 S_2| / 2`` mm, what the shift must make up).
 
 Cost and budget
