@@ -30,6 +30,7 @@ from ..kinematics.ratio_search import (
     Sense,
     Teeth,
     Train,
+    duration_text,
     exact_trains,
     relaxations,
     search_cost,
@@ -250,16 +251,17 @@ def _too_large(exc: SearchTooLarge, limits: Limits) -> str:
     """The refusal and what to narrow, with the cost of each way out."""
     lines = [str(exc) + ". To search anyway:"]
     k = exc.cost.stages if exc.cost is not None else limits.stages
-    if k > 1 and limits.coaxial is None:
-        fewer = replace(limits, stages=k - 1, stage_teeth=limits.stage_teeth[: k - 1])
+    for fewer_k in range(k - 1, 0, -1) if limits.coaxial is None else ():
+        fewer = replace(
+            limits, stages=fewer_k, stage_teeth=limits.stage_teeth[:fewer_k]
+        )
         try:
             cost = search_cost(fewer)
         except SearchTooLarge:
-            cost = None
-        if cost is not None and cost.seconds <= SEARCH_TIME_BUDGET_S:
-            lines.append(
-                f"  - use --stages {k - 1} (about {max(cost.seconds, 0.1):.1g} s)"
-            )
+            continue
+        if cost.seconds <= SEARCH_TIME_BUDGET_S:
+            lines.append(f"  - use --stages {fewer_k} ({duration_text(cost.seconds)})")
+            break
     if not isinstance(limits.teeth, frozenset):
         lo, hi = limits.teeth
         for _ in range(12):
@@ -273,8 +275,7 @@ def _too_large(exc: SearchTooLarge, limits: Limits) -> str:
                 continue
             if cost.seconds <= SEARCH_TIME_BUDGET_S:
                 lines.append(
-                    f"  - narrow --teeth to {lo}-{hi} (about "
-                    f"{max(cost.seconds, 0.1):.1g} s)"
+                    f"  - narrow --teeth to {lo}-{hi} ({duration_text(cost.seconds)})"
                 )
                 break
     else:

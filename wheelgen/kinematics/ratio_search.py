@@ -121,6 +121,8 @@ __all__ = [
     "MAX_SHIFT_SUM",
     "MAX_TOLERANCE_PPM",
     "MAX_HEAD_RATIO",
+    "MAX_TARGET_CHARS",
+    "MAX_TARGET_EXPONENT",
     "SEARCH_MEMORY_BUDGET",
     "SEARCH_TIME_BUDGET_S",
     "Teeth",
@@ -131,6 +133,7 @@ __all__ = [
     "SearchCost",
     "SearchTooLarge",
     "search_cost",
+    "duration_text",
     "search_trains",
     "exact_trains",
     "teeth_for_diameter",
@@ -166,6 +169,12 @@ _NS_PER_PRODUCT = 200.0
 _BYTES_PER_PRODUCT = 128
 #: Distinct products a table may hold within :data:`SEARCH_MEMORY_BUDGET`.
 MAX_PRODUCTS = SEARCH_MEMORY_BUDGET // _BYTES_PER_PRODUCT
+#: A target is typed by a person: 40 characters of number hold any measured ratio,
+#: and ``Fraction("1e999999")`` would first build a huge integer (and ``int()``
+#: refuses more than 4300 digits with a message about Python internals). The value
+#: itself must lie where a target of the train format may (``MIN_TURNS`` to
+#: ``MAX_TURNS`` of the loader).
+MAX_TARGET_CHARS, MAX_TARGET_EXPONENT = 40, 30
 #: Module range of ``wheelgen ratio`` (mm): from fine watch-sized teeth to heavy
 #: machine teeth; beyond these a model train is not the job (common practice, no
 #: source).
@@ -545,59 +554,87 @@ def _factorisations(
 
 @dataclass(frozen=True, slots=True)
 class SearchCost:
-    """What a search will cost before it runs: ``products`` formed, ``seconds`` (est.).
+    """What a search will cost before it runs.
 
-    ``stages`` is the stage count that costs the most, ``describe`` its tooth sets in
-    words (for messages).
+    ``products`` is the work (products formed, or the like), ``seconds`` the time it
+    takes at a measured rate, ``memory`` an upper bound on the bytes the largest table
+    may take (its distinct products are at most the products formed and at most the
+    integers between its smallest and largest product). ``stages`` is the stage count
+    that costs the most, ``describe`` its tooth sets in words (for messages).
     """
 
     products: int
     seconds: float
+    memory: int
     stages: int
     describe: str
+
+
+# A coaxial search in units of one product (200 ns): numpy work of about 50 ns per
+# driver of a sum pair, and some 100 microseconds of Python per sum pair (measured
+# with benchmarks/bench_ratio.py, teeth 3..2000).
+_DRIVERS_PER_PRODUCT = 4
+_SUM_PAIR_OVERHEAD = 500
 
 
 def search_cost(limits: Limits) -> SearchCost:
     """Estimate the work of a search within ``limits`` without doing it.
 
     The number of products is exact (the half tables are built, which is cheap: at
-    most ``n**2`` for two stages); the time follows from a measured rate per product.
+    most ``n**2`` for two stages; for a coaxial search the sum pairs are listed); the
+    time follows from a measured rate per product.
     """
-    total, worst, worst_k, words = 0, -1, 1, ""
+    total, worst, worst_k, words, memory = 0, -1, 1, "", 0
     ks = (2,) if limits.coaxial is not None else range(1, limits.stages + 1)
     for k in ks:
         sets = stage_counts(limits, k)
         if sets is None:
             continue
         if limits.coaxial is not None:
-            # every sum pair scans both stages' splits: at most 2 n counts per sum
-            n = max(len(s) for s in sets)
-            work = 8 * n * n
+            # two passes over the drivers of every admissible sum pair
+            pairs = _sum_pairs(limits, limits.coaxial)
+            drivers = sum(len(p.a1) + len(p.a2) for p in pairs)
+            work = drivers // _DRIVERS_PER_PRODUCT + _SUM_PAIR_OVERHEAD * len(pairs)
+            distinct = 0
         else:
             work = _combinations(sets) + (len(sets[0]) if k == 1 else 0)
+            span = math.prod(s[-1] for s in sets) - math.prod(s[0] for s in sets) + 1
+            distinct = min(work, span)
         total += work
+        memory = max(memory, distinct * _BYTES_PER_PRODUCT)
         if work > worst:
             worst, worst_k, words = work, k, _describe(sets)
-    return SearchCost(total, total * _NS_PER_PRODUCT * 1e-9, worst_k, words)
+    seconds = total * _NS_PER_PRODUCT * 1e-9
+    return SearchCost(total, seconds, memory, worst_k, words)
 
 
 def _check_cost(limits: Limits, budget_s: float) -> None:
     cost = search_cost(limits)
     if cost.seconds > budget_s:
+        memory = f" and up to {_gib(cost.memory)}" if cost.memory else ""
         raise SearchTooLarge(
             f"{cost.stages} stages with {cost.describe} means forming about "
-            f"{cost.products:.2g} tooth products: about {_duration(cost.seconds)}, "
-            f"beyond the search's budget of {_duration(budget_s)}",
+            f"{cost.products:.2g} tooth products: {duration_text(cost.seconds)}"
+            f"{memory}, beyond the search's budget of {budget_s:g} s and "
+            f"{_gib(SEARCH_MEMORY_BUDGET)}",
             cost,
         )
 
 
-def _duration(seconds: float) -> str:
+def _gib(size: float) -> str:
+    gib = size / 1024**3
+    return f"{gib:.0f} GiB" if gib >= 10 else f"{gib:.1g} GiB"
+
+
+def duration_text(seconds: float) -> str:
+    """``"about 40 s"``, ``"about 6 minutes"``, ``"under a second"``: for messages."""
+    if seconds < 1:
+        return "under a second"
     if seconds < 90:
-        return f"{seconds:.0f} s"
+        return f"about {seconds:.0f} s"
     if seconds < 5400:
-        return f"{seconds / 60:.0f} minutes"
-    return f"{seconds / 3600:.1f} hours"
+        return f"about {seconds / 60:.0f} minutes"
+    return f"about {seconds / 3600:.1f} hours"
 
 
 # ---------------------------------------------------------------- the search

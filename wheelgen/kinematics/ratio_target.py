@@ -12,6 +12,7 @@ from fractions import Fraction
 
 from ..design.loader import MAX_TURNS, MIN_TURNS
 from ..design.periods import UNIT_SECONDS, parse_period
+from .ratio_search import MAX_TARGET_CHARS, MAX_TARGET_EXPONENT
 
 __all__ = ["RatioTarget", "parse_target", "YEAR_S"]
 
@@ -21,11 +22,6 @@ YEAR_S: Fraction = UNIT_SECONDS["yr"]
 _INTEGER_OR_FRACTION = re.compile(r"^\s*(\d+)\s*(?:/\s*(\d+))?\s*$")
 _DECIMAL = re.compile(r"^\s*(?:\d+\.\d*|\.\d+|\d+(?:\.\d*)?[eE][+-]?\d+)\s*$")
 _PER = re.compile(r"\s+per\s+", re.IGNORECASE)
-# A target is typed by a person: 40 characters of number hold any measured ratio,
-# and Fraction("1e999999") would first build a huge integer (and int() refuses more
-# than 4300 digits with a message about Python internals).
-_MAX_CHARS = 40
-_MAX_EXPONENT = 30
 
 
 @dataclass(frozen=True, slots=True)
@@ -117,15 +113,15 @@ def parse_target(text: str) -> RatioTarget:
 
 def _check_number_text(text: str) -> None:
     """Refuse numbers too long to be typed on purpose before reading them."""
-    if len(text.strip()) > _MAX_CHARS:
+    if len(text.strip()) > MAX_TARGET_CHARS:
         raise ValueError(
-            f"{text.strip()[:20]!r}... has more than {_MAX_CHARS} characters; "
+            f"{text.strip()[:20]!r}... has more than {MAX_TARGET_CHARS} characters; "
             "a target needs far fewer (write a fraction or a shorter decimal)"
         )
     exponent = re.search(r"[eE]([+-]?\d+)", text)
-    if exponent is not None and abs(int(exponent.group(1))) > _MAX_EXPONENT:
+    if exponent is not None and abs(int(exponent.group(1))) > MAX_TARGET_EXPONENT:
         raise ValueError(
-            f"{text.strip()!r}: a power of ten beyond {_MAX_EXPONENT}; "
+            f"{text.strip()!r}: a power of ten beyond {MAX_TARGET_EXPONENT}; "
             f"allowed: a ratio from {float(MIN_TURNS):g} to {float(MAX_TURNS):g}"
         )
 
