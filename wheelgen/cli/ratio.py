@@ -484,6 +484,7 @@ def ratio_command(
         counts &= _indexable(head_ratio, circles)
         filters.append(f"indexed simply on {plates_text} at {head_ratio}:1")
     if max_diameter is not None:
+        before = (counts, list(stage_teeth))
         for i, m in enumerate(modules):
             try:
                 z_max = teeth_for_diameter(m, max_diameter)
@@ -501,7 +502,8 @@ def ratio_command(
             while len(stage_teeth) <= i:
                 stage_teeth.append(teeth)
             stage_teeth[i] = _as_spec(own)
-        filters.append("(from --max-diameter)")
+        if (counts, stage_teeth) != before:
+            filters.append("(from --max-diameter)")
     if not counts:
         fail(
             f"no tooth count of --teeth {_counts_text(teeth)} is left "
@@ -540,7 +542,6 @@ def ratio_command(
         fail(_too_large(exc, limits))
     except ValueError as exc:
         fail(str(exc))
-    fits = {id(t): fit_train(t, modules[: len(t.stages)]) for t in found}
 
     def within(t: Train) -> bool:
         return abs(t.error) <= tol
@@ -548,6 +549,7 @@ def ratio_command(
     # only trains within the tolerance are offered when there are any, and of those
     # the ones that can be built as laid out come first
     found = [t for t in found if within(t)] or found
+    fits = {id(t): fit_train(t, modules[: len(t.stages)]) for t in found}
     found.sort(key=lambda t: (not within(t), not fits[id(t)].fits))
     found = found[:top]
     ok = bool(found) and within(found[0])

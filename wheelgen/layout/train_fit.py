@@ -18,10 +18,10 @@ person is shown first are ones that can be built:
   no source), from ISO 21771's working centre distance
   (:func:`wheelgen.teeth.mesh_data.shift_for_centre_distance`).
 
-The verdict is the layout check of ``wheelgen check`` itself: the plan is written as
-a train file, loaded and laid out, and every error-level layout finding (a wheel that
-cuts another arbor, wheels of one plane that collide, a tube too thin ...) is a reason
-the train does not fit.
+The verdict is the layout check of ``wheelgen check`` itself, run on the design the
+loader makes of the plan written as a train file (:func:`design_of`): every
+error-level layout finding (a wheel that cuts another arbor, wheels of one plane that
+collide, a tube too thin ...) is a reason the train does not fit.
 """
 
 from __future__ import annotations
@@ -116,6 +116,7 @@ def shift_reach(max_shift: float) -> Callable[[int, Fraction], float]:
     The centre distance (mm) a stage of that tooth sum reaches with the profile-shift
     sum ``x1 + x2 = max_shift`` (ISO 21771: ``a = m (z1 + z2) / 2 cos a / cos a_w``).
     """
+    # the train format allows a shift of up to 2 on each of the two wheels
     if not 0 <= max_shift <= 4:
         raise ValueError(f"'max_shift' must be 0 to 4, got {max_shift}")
 
