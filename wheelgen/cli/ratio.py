@@ -551,7 +551,7 @@ def ratio_command(
     found = [t for t in found if within(t)] or found
     fits = {id(t): fit_train(t, modules[: len(t.stages)]) for t in found}
     found.sort(key=lambda t: (not within(t), not fits[id(t)].fits))
-    found = found[:top]
+    pool_sorted, found = found, found[:top]
     ok = bool(found) and within(found[0])
     if as_json:
         echo_json([_candidate(t, fits[id(t)], goal, tol_ppm) for t in found])
@@ -573,7 +573,9 @@ def ratio_command(
             )
         sys.exit(EXIT_FINDINGS)
     if write_path is not None:
-        sys.exit(_write(write_path, found, fits, goal, tol_ppm, sense, as_json))
+        sys.exit(
+            _write(write_path, pool_sorted, fits, goal, tol_ppm, sense, as_json, top)
+        )
     sys.exit(EXIT_OK)
 
 
@@ -625,8 +627,13 @@ def _write(
     tol_ppm: Fraction,
     sense: str,
     as_json: bool,
+    shown: int,
 ) -> int:
-    """Write the first train that fits and passes every check; say which one."""
+    """Write the first train that fits and passes every check; say which one.
+
+    ``found`` holds the trains offered (the first ``shown`` of them are in the table)
+    and those that came next, all within the tolerance.
+    """
     chosen, findings, chosen_text = None, [], ""
     tries = [t for t in found if fits[id(t)].fits][:_WRITE_TRIES] or found[:1]
     for train in tries:
@@ -644,11 +651,11 @@ def _write(
     except OSError as exc:
         fail(f"cannot write {path}: {exc.strerror}")
     number = found.index(chosen) + 1
-    which = (
-        ""
-        if number == 1
-        else f" with train #{number}, the first that passes every check"
-    )
+    which = ""
+    if number > shown:
+        which = f" with {_stages_text(chosen)}, the first that passes every check"
+    elif number > 1:
+        which = f" with train #{number}, the first that passes every check"
     if not as_json:
         click.echo(f"wrote {path}{which} (check it with: wheelgen check {path})")
     if findings:

@@ -307,7 +307,7 @@ class Limits:
             if self.sense == "opposite":
                 raise ValueError(
                     "a coaxial train of two external stages turns its output the same "
-                    "way as its input: 'sense' 'opposite' cannot be met"
+                    "way as its input, so the opposite sense cannot be met"
                 )
 
     @property
