@@ -14,6 +14,7 @@ the budget refused at once.
 from __future__ import annotations
 
 import json
+import resource
 import subprocess
 import sys
 import time
@@ -28,13 +29,13 @@ target, lo, hi, k, top = sys.argv[1], *map(int, sys.argv[2:6])
 goal = parse_target(target)
 limits = Limits(teeth=(lo, hi), stages=k)
 estimate = search_cost(limits).seconds
-t0 = time.perf_counter()
+t0, c0 = time.perf_counter(), time.process_time()
 found = search_trains(goal.value, limits, top=top, one_pairing=True)
-seconds = time.perf_counter() - t0
+seconds, cpu = time.perf_counter() - t0, time.process_time() - c0
 rss_mib = resource.getrusage(resource.RUSAGE_SELF).ru_maxrss / 1024
 size = len(_products(stage_counts(limits, k))[0])
 best = found[0]
-print(json.dumps({"seconds": seconds, "rss_mib": rss_mib, "products": size,
+print(json.dumps({"seconds": seconds, "cpu": cpu, "rss_mib": rss_mib, "products": size,
                   "estimate": estimate, "trains": len(found),
                   "best": " x ".join(f"{a}/{b}" for a, b in best.stages),
                   "error_ppm": best.error_ppm}))
@@ -58,19 +59,23 @@ def run(
 
 def show(label: str, r: dict[str, object]) -> None:
     print(
-        f"{label:<40} {r['seconds']:8.2f} s {r['rss_mib']:8.0f} MiB"
+        f"{label:<40} {r['seconds']:6.2f} s ({r['cpu']:5.2f} s CPU)"
+        f" {r['rss_mib']:5.0f} MiB"
         f"  |P_k| {r['products']:>10,}  est. {r['estimate']:6.2f} s"
         f"  {r['trains']:>5} trains, best {r['best']} ({r['error_ppm']:+.3g} ppm)"
     )
 
 
-def command(*args: str) -> tuple[float, int]:
-    """Wall time and exit status of one ``wheelgen ratio`` command."""
+def command(*args: str) -> tuple[float, float, int]:
+    """Wall time, CPU time and exit status of one ``wheelgen ratio`` command."""
+    before = resource.getrusage(resource.RUSAGE_CHILDREN)
     t0 = time.perf_counter()
     out = subprocess.run(
         [sys.executable, "-m", "wheelgen", "ratio", *args], capture_output=True
     )
-    return time.perf_counter() - t0, out.returncode
+    after = resource.getrusage(resource.RUSAGE_CHILDREN)
+    cpu = after.ru_utime + after.ru_stime - before.ru_utime - before.ru_stime
+    return time.perf_counter() - t0, cpu, out.returncode
 
 
 def main() -> None:
@@ -92,8 +97,8 @@ def main() -> None:
             ("12", "--teeth", "3-2000", "--stages", "3"),
         ),
     ):
-        seconds, code = command(*args)
-        print(f"{label:<40} {seconds:8.2f} s  exit {code}")
+        seconds, cpu, code = command(*args)
+        print(f"{label:<40} {seconds:6.2f} s ({cpu:5.2f} s CPU)  exit {code}")
     if "--growth" in sys.argv:
         print("\ngrowth with range and stages:")
         for k, ranges in (
