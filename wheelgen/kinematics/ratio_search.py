@@ -185,9 +185,9 @@ MIN_MODULE, MAX_MODULE = 0.05, 50.0
 MAX_SHIFT_SUM = 2.0
 #: Largest tolerance (ppm), as for a target of the train format.
 MAX_TOLERANCE_PPM = 10**6
-#: Largest worm ratio of a dividing head: heads are 40:1 to 120:1, rotary tables up
-#: to 360:1 (common practice, no source).
-MAX_HEAD_RATIO = 360
+#: Largest worm ratio of a dividing head: heads and rotary tables are made from about
+#: 4:1 to 360:1 (common practice, no source); as for ``wheelgen index --ratio``.
+MAX_HEAD_RATIO = 1000
 # products are packed with their smallest factor sum into one int64 sort key
 _INT64_LIMIT = 2**62
 # one outer product of a chunk holds about this many products (64 MB as int64)
