@@ -15,10 +15,10 @@ from wheelgen.checks.mesh_checks import (
     check_wheel,
     design_mesh_checks,
     involute_mesh,
-    wheel_spec,
 )
 from wheelgen.design.loader import load_design
 from wheelgen.design.model import Process
+from wheelgen.layout.placement import tooth_spec
 from wheelgen.teeth.spec import ToothSpec
 
 DATA = Path(__file__).parent / "data" / "checks"
@@ -341,7 +341,7 @@ def test_design_positions_from_the_layout():
 
 def test_wheel_spec_takes_half_the_backlash_from_each_wheel():
     wheel = load_design(DATA / "good_pair.toml").wheel("w1")
-    assert wheel_spec(wheel).thinning == pytest.approx(wheel.backlash / 2)
+    assert tooth_spec(wheel).thinning == pytest.approx(wheel.backlash / 2)
 
 
 def test_checks_do_not_import_the_cad_kernel():

@@ -17,8 +17,16 @@ from collections.abc import Mapping
 from dataclasses import dataclass
 
 from ..design.model import Design, Process, Wheel
+from ..design.process_limits import centre_tolerance, min_backlash
 from ..layout.placement import tooth_spec
 from ..teeth.involute_tooth import generate_tooth
+from ..teeth.limits import (
+    CONTACT_RATIO_ERROR,
+    CONTACT_RATIO_WARNING,
+    MIN_CLEARANCE,
+    short_of,
+    tooth_verdicts,
+)
 from ..teeth.mesh_data import (
     mesh_data,
     shifted_centre_distance,
@@ -30,47 +38,19 @@ from .findings import Finding, Level
 from .mesh_sim import MeshSimulation, simulate_mesh
 
 __all__ = [
-    "CONTACT_RATIO_ERROR",
-    "CONTACT_RATIO_WARNING",
-    "MIN_TIP_THICKNESS",
-    "MIN_CLEARANCE",
     "InvoluteMesh",
     "involute_mesh",
-    "wheel_spec",
     "check_wheel",
     "check_mesh",
     "design_mesh_checks",
-    "MIN_BACKLASH",
-    "CENTRE_TOLERANCE",
 ]
 
-#: Transverse contact ratio below which a pair is refused / warned about (common
-#: practice, no source: below 1 a tooth lets go before the next one takes over).
-CONTACT_RATIO_ERROR = 1.0
-CONTACT_RATIO_WARNING = 1.2
-#: Smallest tooth thickness at the tip, x module, before a warning (common practice,
-#: no source; shop rule for unhardened teeth).
-MIN_TIP_THICKNESS = 0.2
-#: Smallest tip-root clearance, x module, before a warning (common practice, no
-#: source; ISO 53 gives 0.25 m for the basic rack).
-MIN_CLEARANCE = 0.1
-#: Smallest backlash (mm) each process holds without binding, unless ``[process]``
-#: sets ``min_backlash`` (common practice, no source).
-MIN_BACKLASH = {"print": 0.1, "mill": 0.02, "hand": 0.05}
-#: How far (mm) placed centres may sit from the working centre distance before a
-#: warning, unless ``[process]`` sets ``centre_tolerance`` (common practice, no source).
-CENTRE_TOLERANCE = {"print": 0.1, "mill": 0.02, "hand": 0.05}
 #: Simulated transmission error (degrees) of an involute pair above which something is
 #: wrong with the flanks: far above the simulator's resolution (about 1e-3 degrees).
 INVOLUTE_TE_LIMIT_DEG = 0.01
 #: Steps per pitch when the checks run the simulator (enough for a verdict; the
 #: benchmark and tests use finer steps).
 CHECK_STEPS = 60
-
-
-def wheel_spec(wheel: Wheel) -> ToothSpec:
-    """The tooth spec of a design wheel; half the wanted backlash comes off each."""
-    return tooth_spec(wheel)
 
 
 @dataclass(frozen=True, slots=True)
@@ -162,79 +142,34 @@ def _mm(value: float, digits: int = 3) -> str:
     return f"{value:.{digits}f} mm"
 
 
-def _shift_to_avoid_undercut(spec: ToothSpec) -> float:
-    # x_min = h_a - z sin^2(a) / 2 for a rack of addendum h_a (x module) (SDP/SI D785
-    # sec. 4.3, "undercut" [M]); here h_a is the rack's straight-flank depth, which for
-    # ISO 53 type A (1.25 m, fillet 0.38 m) is 1.0 m.
-    alpha = math.radians(spec.pressure_angle_deg)
-    h_flank = spec.dedendum - spec.root_radius * (1 - math.sin(alpha))
-    return h_flank - spec.teeth * math.sin(alpha) ** 2 / 2
-
-
 def check_wheel(spec: ToothSpec, subject: str) -> list[Finding]:
-    """Checks on one wheel's teeth alone: undercut and pointed tips (involute only).
+    """Checks on one wheel's teeth alone: pointed tips, undercut.
 
-    ``subject`` names the wheel in the findings (``"wheel w3"``).
+    The verdicts are :func:`wheelgen.teeth.limits.tooth_verdicts`, the same that the
+    data sheet of ``wheelgen gear`` prints. ``subject`` names the wheel (``"wheel w3"``).
     """
-    if spec.form != "involute":
-        return []
-    out: list[Finding] = []
-    gen = generate_tooth(spec)
-    m = spec.module
-    if gen.undercut:
-        x_min = math.ceil(_shift_to_avoid_undercut(spec) * 20 - 1e-9) / 20
+    name = subject.split()[-1]
+    out = []
+    for v in tooth_verdicts(spec):
+        if v.check == "wheel.undercut":
+            advice = (
+                f"set shift = {v.shift:.2f} or more on {name} (and less on its mate), "
+                "or use more teeth"
+            )
+        else:
+            advice = f"reduce the shift or the addendum of {name}"
         out.append(
             Finding(
-                "warning",
-                "wheel.undercut",
+                v.level,
+                v.check,
                 subject,
-                f"{subject}: the cutter undercuts the {spec.teeth} teeth at the root, "
-                "which weakens them and shortens the working flank",
-                measured=f"form circle {_mm(2 * gen.form_radius)} dia., "
-                f"base circle {_mm(2 * gen.base_radius)}",
-                limit=f"no undercut below {x_min:+.2f} shift",
-                advice=f"set shift = {x_min:.2f} or more on {subject.split()[-1]} "
-                "(and less on its mate), or use more teeth",
+                f"{subject}: {v.message}",
+                measured=v.measured,
+                limit=v.limit,
+                advice=advice,
             )
         )
-    if gen.pointed:
-        out.append(
-            Finding(
-                "error",
-                "wheel.pointed_tip",
-                subject,
-                f"{subject}: the flanks meet below the tip circle, the teeth end in a "
-                "point",
-                measured="tip thickness 0 mm",
-                limit=_mm(MIN_TIP_THICKNESS * m),
-                advice="reduce the shift or the addendum of this wheel",
-            )
-        )
-    else:
-        s_a = 2 * gen.tip_radius * gen.half_angle_at(gen.tip_radius)
-        if s_a < MIN_TIP_THICKNESS * m:
-            out.append(
-                Finding(
-                    "warning",
-                    "wheel.pointed_tip",
-                    subject,
-                    f"{subject}: the teeth are nearly pointed at the tip",
-                    measured=f"tip thickness {_mm(s_a)}",
-                    limit=f"{_mm(MIN_TIP_THICKNESS * m)} "
-                    f"({MIN_TIP_THICKNESS} x module)",
-                    advice="reduce the shift or the addendum of this wheel",
-                )
-            )
     return out
-
-
-def _process_value(
-    process: Process | None, name: str, table: Mapping[str, float]
-) -> float:
-    kind = "mill" if process is None else process.kind
-    default = table.get(kind, table["mill"])
-    value = getattr(process, name, None) if process is not None else None
-    return float(default if value is None else value)
 
 
 def _mismatch(spec1: ToothSpec, spec2: ToothSpec, subject: str) -> list[Finding]:
@@ -357,7 +292,7 @@ def check_mesh(
 def _centre_distance(
     a: float, a_w: float, backlash: float | None, subject: str, process: Process | None
 ) -> list[Finding]:
-    tol = _process_value(process, "centre_tolerance", CENTRE_TOLERANCE)
+    tol = centre_tolerance(process or Process())
     dev = a - a_w
     if backlash is not None and backlash < 0:
         return [
@@ -488,8 +423,8 @@ def _involute_findings(
                     advice=f"shift {flank} positively, or shorten the tips of {tip}",
                 )
             )
-    need = _process_value(process, "min_backlash", MIN_BACKLASH)
-    if 0 <= data.backlash < need:
+    need = min_backlash(process or Process())
+    if data.backlash >= 0 and short_of(data.backlash, need):
         kind = "mill" if process is None else process.kind
         out.append(
             Finding(
@@ -647,7 +582,7 @@ def design_mesh_checks(
     for wheel in design.wheels:
         subject = f"wheel {wheel.name}"
         try:
-            spec = wheel_spec(wheel)
+            spec = tooth_spec(wheel)
             # generating the outline is where impossible tooth forms show up
             outlines[wheel.name] = outline_for(spec)
             findings += check_wheel(spec, subject)

@@ -23,7 +23,7 @@ from ..design.model import Design, Process, Wheel
 from ..teeth.outline import WheelOutline
 from ..teeth.spec import ToothSpec, outline_for
 from .findings import Finding, Level
-from .mesh_checks import wheel_spec
+from ..layout.placement import tooth_spec
 from .mesh_sim import ToothTable, tooth_table
 
 __all__ = [
@@ -295,7 +295,7 @@ def design_process_checks(
     for wheel in design.wheels:
         subject = f"wheel {wheel.name}"
         try:
-            spec = wheel_spec(wheel)
+            spec = tooth_spec(wheel)
             shape = outline_for(spec) if process.kind in ("print", "mill") else None
         except ValueError:
             continue  # reported by the wheel checks (wheel.teeth)

@@ -31,6 +31,7 @@ from .model import (
     Where,
 )
 from .periods import UNIT_SECONDS, PeriodError, parse_period
+from .process_limits import default_backlash
 
 __all__ = ["load_design", "loads_design", "MIN_TEETH", "MAX_TEETH", "SAFE_NAME"]
 
@@ -96,7 +97,8 @@ WHEEL_KEYS: dict[str, tuple[Any, str, _Check | None]] = {
     "tooth_angle": (60.0, "number", _between(20, 120, " degrees")),
     "face_width": (3.0, "number", _positive),
     "shift": (0.0, "number", _between(-1, 2)),
-    "backlash": (0.05, "number", _non_negative),
+    # None: by process, see process_limits.default_backlash
+    "backlash": (None, "number", _non_negative),
     "addendum": (1.0, "number", _between(0.1, 2, " modules")),
     "dedendum": (1.25, "number", _between(0.1, 3, " modules")),
     # None: by form, see ROOT_RADIUS_BY_FORM
@@ -732,6 +734,8 @@ class _Loader:
                     )
             if fields["root_radius"] is None:
                 fields["root_radius"] = ROOT_RADIUS_BY_FORM.get(fields["form"], 0.38)
+            if fields["backlash"] is None:
+                fields["backlash"] = default_backlash(proc)
             out.append(
                 Wheel(
                     name=name,

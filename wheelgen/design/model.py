@@ -77,10 +77,10 @@ class Process:
 
     @property
     def wall_minimum(self) -> float:
-        """Thinnest sleeve wall in mm: two nozzle widths for print, else 0.3 mm unless set."""
-        if self.min_wall is not None:
-            return self.min_wall
-        return 2 * self.nozzle if self.kind == "print" else 0.3
+        """Thinnest wall in mm (see :func:`.process_limits.wall_minimum`)."""
+        from .process_limits import wall_minimum
+
+        return wall_minimum(self)
 
 
 @dataclass(frozen=True, slots=True)

@@ -11,12 +11,12 @@ from dataclasses import dataclass, fields
 
 from .involute import _inv, _inverse_inv
 from .involute_tooth import GeneratedTooth, generate_tooth
+from .limits import tip_thickness, tooth_verdicts
 from .spec import ToothSpec
 from .triangular import triangular_tooth
 
 __all__ = [
     "CUTTER_RANGES",
-    "MIN_TIP_THICKNESS",
     "PIN_FACTOR",
     "GearData",
     "cutter_number",
@@ -45,9 +45,6 @@ CUTTER_RANGES: tuple[tuple[int, int, int | None], ...] = (
 #: convention (Machinery's Handbook, "Checking Gear Size by Measurement over Wires or
 #: Pins"; check-values.md section 3).
 PIN_FACTOR = 1.728
-#: Tip thickness below which the sheet warns, x module (common practice, no source:
-#: 0.2 to 0.4 m is the usual lower limit for hardened to soft wheels).
-MIN_TIP_THICKNESS = 0.25
 
 
 @dataclass(frozen=True, slots=True)
@@ -217,26 +214,10 @@ def gear_data(spec: ToothSpec, pin_diameter: float | None = None) -> GearData:
     gen = generate_tooth(spec)
     m, z, x = spec.module, spec.teeth, spec.shift
     alpha = gen.alpha_rad
-    warnings: list[str] = []
+    # the verdicts on the teeth are the checks' own (one home: teeth.limits)
+    warnings: list[str] = [v.message for v in tooth_verdicts(spec)]
     thickness = 2 * gen.ref_radius * gen.half_angle_ref_rad
-    if gen.pointed:
-        tip_thickness = 0.0
-        warnings.append(
-            f"pointed teeth: the flanks meet at {2 * gen.tip_radius:.4f} mm, below the "
-            f"tip circle {2 * gen.blank_tip_radius:.4f} mm; reduce shift or addendum"
-        )
-    else:
-        tip_thickness = 2 * gen.tip_radius * gen.half_angle_at(gen.tip_radius)
-        if tip_thickness < MIN_TIP_THICKNESS * m:
-            warnings.append(
-                f"nearly pointed teeth: tip thickness {tip_thickness:.4f} mm is under "
-                f"{MIN_TIP_THICKNESS} x module"
-            )
-    if gen.undercut:
-        warnings.append(
-            f"undercut: the root fillet cuts the involute up to "
-            f"{2 * gen.form_radius:.4f} mm (base circle {2 * gen.base_radius:.4f} mm)"
-        )
+    tip_thick = tip_thickness(spec)
 
     k = span_teeth(z, spec.pressure_angle_deg, x)
     w = span_width(z, m, k, spec.pressure_angle_deg, x, spec.thinning)
@@ -299,7 +280,7 @@ def gear_data(spec: ToothSpec, pin_diameter: float | None = None) -> GearData:
         circular_pitch=math.pi * m,
         base_pitch=math.pi * m * math.cos(alpha),
         pitch_thickness=thickness,
-        tip_thickness=tip_thickness,
+        tip_thickness=tip_thick,
         pointed=gen.pointed,
         span_teeth=k,
         span_width=w,
@@ -320,13 +301,7 @@ def gear_data(spec: ToothSpec, pin_diameter: float | None = None) -> GearData:
 def _triangular_data(spec: ToothSpec) -> GearData:
     tooth = triangular_tooth(spec)
     m = spec.module
-    warnings: list[str] = []
-    if tooth.pointed:
-        warnings.append(
-            f"pointed teeth: the flanks meet at {2 * tooth.apex_radius:.4f} mm, inside "
-            "the tip circle"
-        )
-    tip_thickness = 2 * tooth.tip_radius * math.sin(tooth.tip_flat_half_rad)
+    warnings = [v.message for v in tooth_verdicts(spec)]
     return GearData(
         form="triangular",
         teeth=spec.teeth,
@@ -341,7 +316,7 @@ def _triangular_data(spec: ToothSpec) -> GearData:
         circular_pitch=math.pi * m,
         base_pitch=None,
         pitch_thickness=math.pi * m / 2.0 - spec.thinning,
-        tip_thickness=tip_thickness,
+        tip_thickness=tip_thickness(spec),
         pointed=tooth.pointed,
         span_teeth=None,
         span_width=None,
