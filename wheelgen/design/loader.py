@@ -29,6 +29,7 @@ from .model import (
     Target,
     Wheel,
     Where,
+    axis_root_of,
 )
 from .periods import UNIT_SECONDS, PeriodError, parse_period
 from .process_limits import default_backlash
@@ -245,9 +246,7 @@ class _Lines:
 
 def _axis(by_arbor: dict[str, Arbor], name: str) -> str:
     """The innermost member of the coaxial group of arbor ``name`` (no cycles left)."""
-    while (around := by_arbor[name].around) is not None:
-        name = around
-    return name
+    return axis_root_of(by_arbor, name)
 
 
 class _Loader:

@@ -7,6 +7,7 @@ multiples of the module, as in the basic-rack standards.
 
 from __future__ import annotations
 
+from collections.abc import Mapping
 from dataclasses import dataclass, field
 from fractions import Fraction
 from typing import Literal
@@ -27,6 +28,7 @@ __all__ = [
     "Form",
     "Seat",
     "Sense",
+    "axis_root_of",
 ]
 
 ProcessKind = Literal["print", "mill", "hand"]
@@ -110,6 +112,14 @@ class Arbor:
     fixed: bool = False
     carrier: str | None = None  # name of the wheel that carries this arbor's axis
     where: Where | None = field(default=None, compare=False, repr=False)
+
+
+def axis_root_of(arbors: Mapping[str, Arbor], name: str) -> str:
+    """The innermost member of the coaxial group of arbor ``name``: the walk from a tube
+    through the members it surrounds to the shaft on its axis (chains must end)."""
+    while (around := arbors[name].around) is not None:
+        name = around
+    return name
 
 
 @dataclass(frozen=True, slots=True)
@@ -232,3 +242,22 @@ class Design:
 
     def wheels_on(self, arbor: str) -> tuple[Wheel, ...]:
         return tuple(w for w in self.wheels if w.arbor == arbor)
+
+    def axis_root(self, arbor: str) -> str:
+        """The innermost member of ``arbor``'s coaxial group (itself unless a sleeve)."""
+        return axis_root_of({a.name: a for a in self.arbors}, arbor)
+
+    def inner_members(self, arbor: str) -> tuple[str, ...]:
+        """The members a sleeve surrounds, from the next one in to the axis root."""
+        out: list[str] = []
+        a = self.arbor(arbor)
+        while a.around is not None:
+            out.append(a.around)
+            a = self.arbor(a.around)
+        return tuple(out)
+
+    def carrier_arbor(self, arbor: str) -> str | None:
+        """The arbor whose wheel carries ``arbor``'s axis round (through any nesting);
+        ``None`` for an axis standing in the plates."""
+        carrier = self.arbor(self.axis_root(arbor)).carrier
+        return None if carrier is None else self.wheel(carrier).arbor

@@ -85,16 +85,7 @@ class TrainSolution:
 
 def axis_root(design: Design, arbor: str) -> str:
     """The innermost member of the coaxial group that ``arbor`` belongs to."""
-    a = design.arbor(arbor)
-    while a.around is not None:
-        a = design.arbor(a.around)
-    return a.name
-
-
-def _home_frame(design: Design, root: str) -> str | None:
-    """Arbor whose rotation carries this axis (``None``: the fixed frame)."""
-    carrier = design.arbor(root).carrier
-    return None if carrier is None else design.wheel(carrier).arbor
+    return design.axis_root(arbor)
 
 
 def _frames(design: Design, arbor: str) -> list[str | None]:
@@ -102,7 +93,7 @@ def _frames(design: Design, arbor: str) -> list[str | None]:
     rotating frames of every member of its coaxial group (those turn about it)."""
     root = axis_root(design, arbor)
     group = [a.name for a in design.arbors if axis_root(design, a.name) == root]
-    return [_home_frame(design, root)] + sorted(group)
+    return [design.carrier_arbor(root)] + sorted(group)
 
 
 def mesh_frame(design: Design, arbor_a: str, arbor_b: str) -> tuple[bool, str | None]:

@@ -146,8 +146,7 @@ def bodies(layout: Layout) -> list[Body]:
 
 
 def _frame(design: Design, root: str) -> str | None:
-    carrier = design.arbor(root).carrier
-    return None if carrier is None else design.wheel(carrier).arbor
+    return design.carrier_arbor(root)
 
 
 def _rate(rates: dict[str, Fraction | None], member: str | None) -> Fraction | None:

@@ -143,14 +143,6 @@ def stack_axes(
 
     spans: dict[str, MemberSpan] = {}
 
-    def inner_chain(name: str) -> list[str]:
-        out = []
-        a = design.arbor(name)
-        while a.around is not None:
-            out.append(a.around)
-            a = design.arbor(a.around)
-        return out
-
     def build(name: str) -> MemberSpan:
         # outer tubes first: a member's span covers every tube around it
         for child in children.get(name, []):
@@ -174,7 +166,7 @@ def stack_axes(
         plates: tuple[str, ...] = ()
         pivots: list[tuple[float, float, str]] = []
         if arbor.around is not None and arbor.fixed and plate_z:
-            inner_seats = [s for m in inner_chain(name) for s in seats[m]]
+            inner_seats = [s for m in design.inner_members(name) for s in seats[m]]
             options = []
             for plate, (pz0, pz1) in plate_z.items():
                 n0, n1 = min(z0, pz0), max(z1, pz1)

@@ -27,12 +27,7 @@ Point = tuple[float, float]
 
 def carried_by(design: Design, arbor: str) -> str | None:
     """The arbor whose wheel carries ``arbor``'s axis (through any coaxial nesting)."""
-    a = design.arbor(arbor)
-    while a.around is not None:
-        a = design.arbor(a.around)
-    if a.carrier is None:
-        return None
-    return design.wheel(a.carrier).arbor
+    return design.carrier_arbor(arbor)
 
 
 def axis_centres(
@@ -56,10 +51,7 @@ def axis_centres(
         x, y = positions[name]
         if carrier is not None:
             cx, cy = place(carrier)
-            home = design.arbor(carrier)
-            while home.around is not None:
-                home = design.arbor(home.around)
-            hx, hy = positions[home.name]
+            hx, hy = positions[design.axis_root(carrier)]
             # the stored point is already on the plate at carrier angle 0
             dx, dy = x - hx, y - hy
             a = math.radians(angles.get(carrier, 0.0))
