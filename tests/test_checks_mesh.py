@@ -9,6 +9,7 @@ from pathlib import Path
 
 import pytest
 
+from wheelgen.checks import run_checks
 from wheelgen.checks.findings import Finding
 from wheelgen.checks.mesh_checks import (
     check_mesh,
@@ -277,10 +278,14 @@ def test_centre_distance_checked_against_the_working_distance():
         )
         == []
     )
+    # the mill's centre tolerance is 0.02 mm: exactly that passes, beyond it is an error
+    assert not _only(
+        _mesh(s1, s2, centre_distance=30.02, simulate=False), "mesh.centre_distance"
+    )
     far = _only(
         _mesh(s1, s2, centre_distance=30.1, simulate=False), "mesh.centre_distance"
     )
-    assert [f.level for f in far] == ["warning"] and "far apart" in far[0].message
+    assert [f.level for f in far] == ["error"] and "far apart" in far[0].message
     close = _mesh(s1, s2, centre_distance=29.9)
     assert [f.level for f in _only(close, "mesh.centre_distance")] == ["error"]
     assert [f.level for f in _only(close, "mesh.jam")] == ["error"]
@@ -313,10 +318,21 @@ def test_design_good_pair_passes():
 
 
 def test_design_axes_too_close():
+    # the pair is judged where the layout puts it: at 29.9 mm it jams; that the axes
+    # stand 0.1 mm too close is the cause, reported once with the jam under it
     found = design_mesh_checks(load_design(DATA / "close_axes.toml"))
-    errors = {f.check for f in found if f.level == "error"}
-    assert {"mesh.centre_distance", "mesh.jam"} <= errors
+    assert "mesh.jam" in {f.check for f in found if f.level == "error"}
     assert all(f.subject == "mesh w1-w2" for f in found)
+    (cause,) = run_checks(load_design(DATA / "close_axes.toml"))
+    assert (cause.level, cause.check, cause.subject) == (
+        "error",
+        "mesh.centre_distance",
+        "mesh w1-w2",
+    )
+    assert "mesh.jam" in {f.check for f in cause.consequences}
+    # derived: b is placed by its own 'at', so the fix moves it 0.1 mm along the
+    # line of centres, to the working distance 30 mm from a
+    assert [str(c) for c in cause.changes] == ['at = [30.0, 0.0] on arbor "b"']
 
 
 def test_design_modules_differ():
@@ -326,17 +342,24 @@ def test_design_modules_differ():
 
 def test_design_planet_checked_in_the_carrier_frame():
     assert design_mesh_checks(load_design(DATA / "planet_good.toml")) == []
-    found = design_mesh_checks(load_design(DATA / "planet_off.toml"))
+    assert not _only(
+        run_checks(load_design(DATA / "planet_good.toml")), "mesh.centre_distance"
+    )
+    found = run_checks(load_design(DATA / "planet_off.toml"))
     cd = _only(found, "mesh.centre_distance")
     assert len(cd) == 1 and cd[0].subject == "mesh planet_pinion-sun"
+    # derived: the planet's 'at' is in the carrier's frame; the working distance of
+    # 13 + 64 teeth at m = 0.8, x = +0.4 / -0.4 is m (z1 + z2) / 2 = 30.8 mm
+    assert [str(c) for c in cd[0].changes] == ['at = [30.8, 0.0] on arbor "planet"']
 
 
-def test_design_positions_from_the_layout():
+def test_design_pairs_judged_at_the_distances_given():
     design = load_design(DATA / "good_pair.toml")
-    found = design_mesh_checks(
-        design, {"a": (0.0, 0.0), "b": (30.1, 0.0)}, simulate=False
-    )
-    assert [f.check for f in found] == ["mesh.centre_distance"]
+    assert design_mesh_checks(design, {1: 30.0}, simulate=False) == []
+    # derived: 0.05 mm backlash closes at 0.05 / (2 tan 20 deg) = 0.069 mm closer
+    found = design_mesh_checks(design, {1: 29.8}, simulate=False)
+    assert "mesh.clearance" in {f.check for f in found}
+    assert "mesh.centre_distance" not in {f.check for f in found}
 
 
 def test_wheel_spec_takes_half_the_backlash_from_each_wheel():

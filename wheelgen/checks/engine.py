@@ -8,16 +8,24 @@ to the tuple :func:`design_checks` returns. Nothing here imports the CAD kernel.
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from typing import Callable
 
 from ..design.model import Design
 from ..kinematics.rates import TrainSolution, solve_rates
 from ..kinematics.targets import TargetResult, evaluate_targets
+from .changes import apply_changes
 from .findings import Finding, sort_findings
 from .train import train_findings
 
-__all__ = ["Analysis", "analyse", "run_checks", "design_checks", "DesignCheck"]
+__all__ = [
+    "Analysis",
+    "analyse",
+    "run_checks",
+    "design_checks",
+    "DesignCheck",
+    "gather_consequences",
+]
 
 
 @dataclass(frozen=True)
@@ -63,15 +71,67 @@ def design_checks() -> tuple[DesignCheck, ...]:
     return (_train, _meshes, _process, layout_findings, pinslot_findings)
 
 
-def analyse(design: Design) -> Analysis:
-    """Solve the train and run every registered check, worst findings first."""
+#: Most causes whose consequences are worked out (each costs one more run of the
+#: checks on the design as the cause's change would leave it).
+MAX_CAUSES = 8
+
+
+def _run(design: Design) -> Analysis:
     solution = solve_rates(design)
     targets = evaluate_targets(design, solution)
     base = Analysis(design, solution, targets)
     findings: list[Finding] = []
     for check in design_checks():
         findings.extend(check(design, base))
-    return Analysis(design, solution, targets, sort_findings(findings))
+    return Analysis(design, solution, targets, findings)
+
+
+def _key(f: Finding) -> tuple[str, str]:
+    return (f.check, f.subject)
+
+
+def gather_consequences(design: Design, findings: list[Finding]) -> list[Finding]:
+    """Put each finding under the error that brings it: one cause first.
+
+    A cause is an error whose ``changes`` put it right (a misplaced arbor, plates in
+    the wrong place). The checks are run again on the design as those changes leave
+    it; every other finding that is gone then is a consequence of the cause, listed
+    under it instead of beside it. A cause whose change does not clear it stays as it
+    is.
+    """
+    causes = [f for f in findings if f.level == "error" and f.changes][:MAX_CAUSES]
+    taken: set[int] = set()
+    grouped: dict[int, Finding] = {}
+    for cause in causes:
+        if id(cause) in taken:
+            continue
+        try:
+            fixed = apply_changes(design, cause.changes)
+            after = {_key(f) for f in _run(fixed).findings}
+        except ValueError:
+            continue
+        if _key(cause) in after:
+            continue
+        brought = [
+            f
+            for f in findings
+            if f is not cause and id(f) not in taken and _key(f) not in after
+        ]
+        if not brought:
+            continue
+        taken.update(id(f) for f in brought)
+        grouped[id(cause)] = replace(
+            cause, consequences=cause.consequences + tuple(sort_findings(brought))
+        )
+    return [grouped.get(id(f), f) for f in findings if id(f) not in taken]
+
+
+def analyse(design: Design) -> Analysis:
+    """Solve the train and run every registered check, worst findings first, each
+    consequence under its cause."""
+    run = _run(design)
+    findings = gather_consequences(design, run.findings)
+    return Analysis(design, run.solution, run.targets, sort_findings(findings))
 
 
 def run_checks(design: Design) -> list[Finding]:

@@ -16,7 +16,7 @@ import math
 from collections.abc import Mapping
 from dataclasses import dataclass
 
-from ..design.model import Design, Process, Wheel
+from ..design.model import Design, Process
 from ..design.process_limits import centre_tolerance, min_backlash
 from ..layout.placement import tooth_spec
 from ..teeth.involute_tooth import generate_tooth
@@ -43,6 +43,7 @@ __all__ = [
     "check_wheel",
     "check_mesh",
     "design_mesh_checks",
+    "layout_distances",
 ]
 
 #: Simulated transmission error (degrees) of an involute pair above which something is
@@ -222,6 +223,7 @@ def check_mesh(
     simulate: bool = True,
     outlines: tuple[WheelOutline, WheelOutline] | None = None,
     names: tuple[str, str] = ("wheel 1", "wheel 2"),
+    judge_centres: bool = True,
 ) -> list[Finding]:
     """Checks on one external pair; wheel 1 drives.
 
@@ -243,6 +245,9 @@ def check_mesh(
         The two outlines if already built (else made from the specs).
     names
         The two wheels' names, used in the messages.
+    judge_centres
+        Report a ``centre_distance`` off the working one (``mesh.centre_distance``);
+        a whole design leaves that to the layout, which knows the arbors to move.
     """
     out = _mismatch(spec1, spec2, subject)
     if out:
@@ -267,13 +272,19 @@ def check_mesh(
             return out
         a = data.centre_distance
         out += _involute_findings(
-            data, spec1, spec2, subject, (n1, n2), process, centre_distance
+            data,
+            spec1,
+            spec2,
+            subject,
+            (n1, n2),
+            process,
+            centre_distance if judge_centres else None,
         )
     else:
         # triangular teeth: the pitch circles roll on each other
         a_w = m * (spec1.teeth + spec2.teeth) / 2
         a = a_w if centre_distance is None else float(centre_distance)
-        if centre_distance is not None:
+        if centre_distance is not None and judge_centres:
             out += _centre_distance(a, a_w, None, subject, process)
     if spec1.form == "involute" and not simulate:
         return out
@@ -292,34 +303,27 @@ def check_mesh(
 def _centre_distance(
     a: float, a_w: float, backlash: float | None, subject: str, process: Process | None
 ) -> list[Finding]:
-    tol = centre_tolerance(process or Process())
+    from ..layout.centres import centres_fit
+
+    proc = process or Process()
     dev = a - a_w
-    if backlash is not None and backlash < 0:
-        return [
-            Finding(
-                "error",
-                "mesh.centre_distance",
-                subject,
-                f"{subject}: the axes are {_mm(-dev)} too close; the teeth bind",
-                measured=_mm(a, 4),
-                limit=f"{_mm(a_w, 4)} (working centre distance)",
-                advice=f"place the arbors {_mm(a_w, 4)} apart",
-            )
-        ]
-    if abs(dev) > tol:
-        side = "far apart" if dev > 0 else "close"
-        return [
-            Finding(
-                "warning",
-                "mesh.centre_distance",
-                subject,
-                f"{subject}: the axes are {_mm(abs(dev))} too {side} for these teeth",
-                measured=_mm(a, 4),
-                limit=f"{_mm(a_w, 4)} +- {_mm(tol)}",
-                advice=f"place the arbors {_mm(a_w, 4)} apart, or change the shifts",
-            )
-        ]
-    return []
+    binds = backlash is not None and backlash < 0
+    if centres_fit(dev, proc) and not binds:
+        return []
+    side = "far apart" if dev > 0 else "close"
+    what = "the teeth bind" if dev < 0 else "the teeth lose depth and contact"
+    return [
+        Finding(
+            "error",
+            "mesh.centre_distance",
+            subject,
+            f"{subject}: the axes are {_mm(abs(dev))} too {side}; {what}",
+            measured=_mm(a, 4),
+            limit=f"{_mm(a_w, 4)} +- {_mm(centre_tolerance(proc))} (working centre "
+            "distance)",
+            advice=f"place the arbors {_mm(a_w, 4)} apart, or change the shifts",
+        )
+    ]
 
 
 def _involute_findings(
@@ -559,20 +563,22 @@ def _simulation_findings(
 
 def design_mesh_checks(
     design: Design,
-    positions: Mapping[str, tuple[float, float]] | None = None,
+    distances: Mapping[int, float] | None = None,
     *,
     simulate: bool = True,
 ) -> list[Finding]:
-    """Wheel and mesh checks over a whole design.
+    """Wheel and mesh checks over a whole design, each pair where the layout puts it.
 
     Parameters
     ----------
     design
         The loaded design.
-    positions
-        Arbor positions ``{arbor_name: (x, y)}`` in mm, from the layout; where both
-        arbors of a mesh have one, the centre distance is checked. ``None``: only the
-        arbors the design places itself (``at``, not carried) are used.
+    distances
+        Centre distance (mm) of each mesh by its 1-based ``index``. ``None``: measured
+        on the final layout (:func:`wheelgen.layout.centres.mesh_centres`), whatever
+        placed the arbors. A mesh with no distance is judged at its working centre
+        distance. Whether the distance itself is right is the layout's check
+        (``mesh.centre_distance`` in :func:`wheelgen.layout.layout_findings`).
     simulate
         Also run the outline simulator on every mesh.
     """
@@ -590,29 +596,37 @@ def design_mesh_checks(
             findings.append(_unmakeable(subject, exc))
             continue
         specs[wheel.name] = spec
-    if positions is None:
-        positions = {
-            a.name: a.at
-            for a in design.arbors
-            if a.at is not None and a.carrier is None
-        }
+    if distances is None:
+        distances = layout_distances(design)
     for mesh in design.meshes:
         w1, w2 = design.wheel(mesh.pair[0]), design.wheel(mesh.pair[1])
         if w1.name not in specs or w2.name not in specs:
             continue  # already reported: a wheel whose teeth cannot be made
-        a = _placed_distance(design, w1, w2, positions, mesh.bearing_deg)
         pair_outlines = (outlines[w1.name], outlines[w2.name])
         findings += check_mesh(
             specs[w1.name],
             specs[w2.name],
             mesh.label,
-            centre_distance=a,
+            centre_distance=distances.get(mesh.index),
             process=design.process,
             simulate=simulate,
             outlines=pair_outlines,
             names=(w1.name, w2.name),
+            judge_centres=False,
         )
     return findings
+
+
+def layout_distances(design: Design) -> dict[int, float]:
+    """Centre distance (mm) of every mesh on the final layout, by mesh ``index``."""
+    from ..layout.centres import mesh_centres
+    from ..layout.plan import plan_layout
+
+    try:
+        layout = plan_layout(design)
+    except ValueError:  # a layout that cannot be made: the layout check reports it
+        return {}
+    return {mc.mesh.index: mc.measured for mc in mesh_centres(layout)}
 
 
 def _unmakeable(subject: str, exc: ValueError) -> Finding:
@@ -623,60 +637,3 @@ def _unmakeable(subject: str, exc: ValueError) -> Finding:
         f"{subject}: these teeth cannot be made: {exc}",
         advice="change the tooth settings of this wheel",
     )
-
-
-def _frame_position(
-    design: Design, arbor_name: str, positions: Mapping[str, tuple[float, float]]
-) -> tuple[str, tuple[float, float]] | None:
-    """The frame an arbor's axis is known in (``""``: the plate, else a carrier wheel's
-    name) and its position there (mm); sleeves sit on the axis they surround."""
-    seen: set[str] = set()
-    arbor = design.arbor(arbor_name)
-    while arbor.name not in seen:
-        seen.add(arbor.name)
-        if arbor.carrier is not None and arbor.at is not None:
-            return arbor.carrier, arbor.at
-        if arbor.name in positions:
-            return "", positions[arbor.name]
-        if arbor.around is None:
-            return None
-        arbor = design.arbor(arbor.around)
-    return None
-
-
-def _placed_distance(
-    design: Design,
-    w1: Wheel,
-    w2: Wheel,
-    positions: Mapping[str, tuple[float, float]],
-    bearing_deg: float | None,
-) -> float | None:
-    # a mesh with a bearing places its second arbor from the first: nothing to check
-    if bearing_deg is not None:
-        return None
-    f1 = _frame_position(design, w1.arbor, positions)
-    f2 = _frame_position(design, w2.arbor, positions)
-    # an arbor on the axis of a carrier wheel sits at the origin of the carrier's frame
-    for this, other, wheel in ((f1, f2, w2), (f2, f1, w1)):
-        if this is not None and this[0] and (other is None or other[0] != this[0]):
-            carrier = design.wheel(this[0])
-            if _same_axis(design, carrier.arbor, wheel.arbor):
-                p = this[1]
-                return math.hypot(p[0], p[1])
-    if f1 is None or f2 is None or f1[0] != f2[0]:
-        return None
-    (x1, y1), (x2, y2) = f1[1], f2[1]
-    return math.hypot(x2 - x1, y2 - y1)
-
-
-def _axis(design: Design, name: str) -> str:
-    seen: set[str] = set()
-    arbor = design.arbor(name)
-    while arbor.around is not None and arbor.name not in seen:
-        seen.add(arbor.name)
-        arbor = design.arbor(arbor.around)
-    return arbor.name
-
-
-def _same_axis(design: Design, a: str, b: str) -> bool:
-    return _axis(design, a) == _axis(design, b)

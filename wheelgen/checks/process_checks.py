@@ -20,10 +20,10 @@ from collections.abc import Mapping
 import numpy as np
 
 from ..design.model import Design, Process, Wheel
+from ..layout.placement import tooth_spec
 from ..teeth.outline import WheelOutline
 from ..teeth.spec import ToothSpec, outline_for
 from .findings import Finding, Level
-from ..layout.placement import tooth_spec
 from .mesh_sim import ToothTable, tooth_table
 
 __all__ = [

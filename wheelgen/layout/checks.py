@@ -6,12 +6,15 @@
 
 from __future__ import annotations
 
+import math
 from typing import Any
 
-from ..checks.findings import Finding
+from ..checks.findings import Change, Finding
 from ..design.model import Design
+from ..design.process_limits import centre_tolerance
+from .centres import MeshCentres, Move, centres_fit, mesh_centres, move_for
 from .collisions import Clash, PinClash, find_clashes, find_pin_clashes
-from .placement import LOOP_TOLERANCE
+from .placement import LOOP_TOLERANCE, LoopMismatch
 from .plan import Layout, plan_layout
 from .stacking import wheel_extent
 
@@ -47,23 +50,11 @@ def layout_findings(design: Design, analysis: Any) -> list[Finding]:
 def findings_for_layout(layout: Layout, rates: dict[str, Any]) -> list[Finding]:
     """The findings of an already computed layout (see :func:`layout_findings`)."""
     design = layout.design
-    out: list[Finding] = []
+    out: list[Finding] = _centre_findings(layout)
     for mm in layout.placing.mismatches:
-        out.append(
-            Finding(
-                "error",
-                "layout.loop",
-                f"arbor {mm.axis}",
-                f'two routes place arbor "{mm.axis}" {_mm(mm.distance)} apart: at '
-                f"({mm.first[0]:.3f}, {mm.first[1]:.3f}) through {' > '.join(mm.first_route)}"
-                f", and at ({mm.second[0]:.3f}, {mm.second[1]:.3f}) through "
-                f"{' > '.join(mm.second_route)}",
-                _mm(mm.distance),
-                _mm(LOOP_TOLERANCE),
-                "leave the 'bearing' out of one mesh in the loop (its distance is then"
-                " checked), or change 'at', a bearing or the tooth counts so the loop closes",
-            )
-        )
+        loop = _loop_finding(layout, mm)
+        if loop is not None:
+            out.append(loop)
     for h in layout.stacking.hidden:
         out.append(
             Finding(
@@ -130,6 +121,136 @@ def findings_for_layout(layout: Layout, rates: dict[str, Any]) -> list[Finding]:
     out.extend(_plate_findings(design))
     out.extend(_bore_findings(layout))
     return out
+
+
+def _mesh_words(mc: MeshCentres) -> str:
+    a, b = mc.arbors
+    err = mc.error
+    side = (
+        "too close: the teeth bind"
+        if err < 0
+        else "too far apart: the teeth lose depth and contact"
+    )
+    return (
+        f'{mc.mesh.label}: arbors "{a}" and "{b}" stand {mc.measured:.4f} mm apart, '
+        f"the teeth need {mc.wanted:.4f} mm; {abs(err):.4f} mm {side}"
+    )
+
+
+def _move_words(layout: Layout, move: Move) -> str:
+    x, y = layout.placing.positions[move.axis]
+    d = math.dist((x, y), move.to)
+    return (
+        f'set {move.change} (it moves arbor "{move.axis}" {d:.4f} mm, to '
+        f"({move.to[0]:.4f}, {move.to[1]:.4f}))"
+    )
+
+
+def _centre_findings(layout: Layout) -> list[Finding]:
+    """``mesh.centre_distance``: every mesh at its arbors' final distance.
+
+    One finding per arbor to move: a mesh that one move puts right is reported with
+    that move; several meshes that one arbor's move puts right are one finding about
+    that arbor.
+    """
+    design = layout.design
+    proc = design.process
+    tol = centre_tolerance(proc)
+    off = [mc for mc in mesh_centres(layout) if not centres_fit(mc.error, proc)]
+    if not off:
+        return []
+    limit = f"working centre distance +- {tol:g} mm ({proc.kind} placing)"
+    out = []
+    moved: set[int] = set()
+    for move in move_for(layout, off):
+        moved.update(mc.mesh.index for mc in move.meshes)
+        worst = max(move.meshes, key=lambda mc: abs(mc.error))
+        if len(move.meshes) == 1:
+            mc = move.meshes[0]
+            subject, message = mc.mesh.label, _mesh_words(mc)
+        else:
+            subject = f"arbor {move.axis}"
+            message = (
+                f'arbor "{move.axis}" stands where none of its meshes can work: '
+                + "; ".join(_mesh_words(mc) for mc in move.meshes)
+            )
+        out.append(
+            Finding(
+                "error",
+                "mesh.centre_distance",
+                subject,
+                message,
+                f"{worst.measured:.4f} mm ({worst.error:+.4f} mm)",
+                limit,
+                _move_words(layout, move),
+                changes=(move.change,),
+            )
+        )
+    for mc in off:
+        if mc.mesh.index in moved:
+            continue
+        out.append(
+            Finding(
+                "error",
+                "mesh.centre_distance",
+                mc.mesh.label,
+                _mesh_words(mc),
+                f"{mc.measured:.4f} mm ({mc.error:+.4f} mm)",
+                limit,
+                "no single bearing or 'at' closes this train: place the arbors "
+                f"{mc.wanted:.4f} mm apart, or change the shifts or tooth counts so "
+                f"the pair works at {mc.measured:.4f} mm",
+            )
+        )
+    return out
+
+
+def _loop_finding(layout: Layout, mm: LoopMismatch) -> Finding | None:
+    """``layout.loop``: two routes to one axis that disagree.
+
+    A mesh that closes the loop at the wrong distance is the centre-distance check's
+    (one finding, with its fix); at the right distance in the wrong direction only its
+    bearing disagrees, and the bearing the arbors really have is offered.
+    """
+    link = mm.closing
+    design = layout.design
+    changes: tuple[Change, ...] = ()
+    pos = layout.placing.positions
+    if link is not None and link.kind in ("mesh", "pinslot"):
+        a, b = pos[link.source], pos[link.to]
+        if abs(math.dist(a, b) - link.length) > LOOP_TOLERANCE:
+            if link.kind == "mesh":
+                return None  # reported as mesh.centre_distance, with its fix
+        else:
+            bearing = math.degrees(math.atan2(b[1] - a[1], b[0] - a[0]))
+            changes = (Change(link.kind, link.item, "bearing", bearing),)
+    elif link is not None and link.kind == "at":
+        changes = (Change("arbor", link.item, "at", mm.first),)
+    elif link is not None and link.kind == "carrier":
+        cx, cy = pos[link.source]
+        changes = (
+            Change("arbor", link.item, "at", (mm.first[0] - cx, mm.first[1] - cy)),
+        )
+    advice = (
+        f"set {changes[0]}, where the other route puts it"
+        if changes
+        else "leave the 'bearing' out of one mesh in the loop (its distance is then"
+        " checked), or change 'at', a bearing or the tooth counts so the loop closes"
+    )
+    del design
+    return Finding(
+        "error",
+        "layout.loop",
+        f"arbor {mm.axis}",
+        f'two routes place arbor "{mm.axis}" {_mm(mm.distance)} apart: at '
+        f"({mm.first[0]:.3f}, {mm.first[1]:.3f}) through {' > '.join(mm.first_route)}"
+        f", and at ({mm.second[0]:.3f}, {mm.second[1]:.3f}) through "
+        f"{' > '.join(mm.second_route)}",
+        _mm(mm.distance),
+        _mm(LOOP_TOLERANCE),
+        advice,
+        changes=changes,
+    )
 
 
 def _clash_findings(clashes: list[Clash]) -> list[Finding]:

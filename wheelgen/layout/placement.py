@@ -16,7 +16,8 @@ from __future__ import annotations
 
 import math
 from collections import deque
-from dataclasses import dataclass
+from dataclasses import dataclass, field
+from typing import Literal
 
 from ..design.model import Design, Mesh, Wheel
 from ..kinematics.rates import axis_root
@@ -26,6 +27,7 @@ from ..teeth.spec import ToothSpec
 __all__ = [
     "LOOP_TOLERANCE",
     "Link",
+    "LinkKind",
     "LoopMismatch",
     "Placing",
     "arbor_positions",
@@ -75,15 +77,29 @@ def mesh_centre_distance(design: Design, mesh: Mesh) -> float:
     return working_centre_distance(tooth_spec(a), tooth_spec(b))
 
 
+LinkKind = Literal["at", "carrier", "mesh", "pinslot"]
+
+
 @dataclass(frozen=True, slots=True)
 class Link:
-    """One placing rule: ``pos[to] = pos[source] + (dx, dy)``; ``label`` says which."""
+    """One placing rule: ``pos[to] = pos[source] + (dx, dy)``; ``label`` says which.
+
+    ``kind`` and ``item`` say what in the file sets it: an arbor's ``at`` (item: the
+    arbor; ``carrier`` when measured on a carrier wheel), a mesh's ``bearing`` (item:
+    the mesh's 1-based index as text) or a coupling's ``bearing`` (item: its name).
+    """
 
     source: str
     to: str
     dx: float
     dy: float
     label: str
+    kind: LinkKind = "at"
+    item: str = ""
+
+    @property
+    def length(self) -> float:
+        return math.hypot(self.dx, self.dy)
 
 
 @dataclass(frozen=True, slots=True)
@@ -95,6 +111,7 @@ class LoopMismatch:
     first_route: tuple[str, ...]
     second: tuple[float, float]
     second_route: tuple[str, ...]
+    closing: Link | None = None  # the rule that did not fit
 
     @property
     def distance(self) -> float:
@@ -105,11 +122,18 @@ class LoopMismatch:
 
 @dataclass(frozen=True, slots=True)
 class Placing:
-    """Placed axis roots (mm, carriers at angle 0), the route to each, and loop misfits."""
+    """Placed axis roots (mm, carriers at angle 0), the route to each, and loop misfits.
+
+    ``placed_by[axis]`` is the rule that placed the axis and the way it was used
+    (``+1``: from ``source`` to ``to``, ``-1``: backwards); ``order`` lists the axes in
+    the order they were placed (an axis never depends on one placed after it).
+    """
 
     positions: dict[str, tuple[float, float]]
     routes: dict[str, tuple[str, ...]]
     mismatches: tuple[LoopMismatch, ...]
+    placed_by: dict[str, tuple[Link, int]] = field(default_factory=dict)
+    order: tuple[str, ...] = ()
 
 
 def _links(design: Design) -> list[Link]:
@@ -118,13 +142,19 @@ def _links(design: Design) -> list[Link]:
         if a.around is None and a.at is not None:
             if a.carrier is None:
                 links.append(
-                    Link(_ORIGIN, a.name, a.at[0], a.at[1], f'"at" of arbor {a.name}')
-                )
+                    Link(
+                        _ORIGIN, a.name, a.at[0], a.at[1], f'"at" of arbor {a.name}',
+                        "at", a.name,
+                    )
+                )  # fmt: skip
             else:
                 carrier_axis = axis_root(design, design.wheel(a.carrier).arbor)
                 links.append(
-                    Link(carrier_axis, a.name, a.at[0], a.at[1], f"carrier {a.carrier}")
-                )
+                    Link(
+                        carrier_axis, a.name, a.at[0], a.at[1], f"carrier {a.carrier}",
+                        "carrier", a.name,
+                    )
+                )  # fmt: skip
     for m in design.meshes:
         if m.bearing_deg is None:
             continue
@@ -138,6 +168,8 @@ def _links(design: Design) -> list[Link]:
                 dist * math.cos(t),
                 dist * math.sin(t),
                 m.label,
+                "mesh",
+                str(m.index),
             )
         )
     for p in design.pinslots:
@@ -149,6 +181,8 @@ def _links(design: Design) -> list[Link]:
                 p.offset * math.cos(t),
                 p.offset * math.sin(t),
                 f"pin-and-slot {p.name}",
+                "pinslot",
+                p.name,
             )
         )
     return links
@@ -170,6 +204,8 @@ def place_axes(design: Design, tolerance: float = LOOP_TOLERANCE) -> Placing:
     route: dict[str, tuple[str, ...]] = {_ORIGIN: ()}
     used: set[int] = set()
     mismatches: list[LoopMismatch] = []
+    placed_by: dict[str, tuple[Link, int]] = {}
+    order: list[str] = []
     queue = deque([_ORIGIN])
     while queue:
         here = queue.popleft()
@@ -183,6 +219,8 @@ def place_axes(design: Design, tolerance: float = LOOP_TOLERANCE) -> Placing:
             if there not in pos:
                 pos[there] = (x, y)
                 route[there] = route[here] + (link.label,)
+                placed_by[there] = (link, sense)
+                order.append(there)
                 queue.append(there)
                 continue
             if math.hypot(x - pos[there][0], y - pos[there][1]) > tolerance:
@@ -193,12 +231,13 @@ def place_axes(design: Design, tolerance: float = LOOP_TOLERANCE) -> Placing:
                         route[there],
                         (x, y),
                         route[here] + (link.label,),
+                        link,
                     )
                 )
     del pos[_ORIGIN], route[_ORIGIN]
     # sub-nanometre float noise (6.8e-15 from cos 180 deg) would print as "-0.0000"
     clean = {k: (round(x, 9) + 0.0, round(y, 9) + 0.0) for k, (x, y) in pos.items()}
-    return Placing(clean, route, tuple(mismatches))
+    return Placing(clean, route, tuple(mismatches), placed_by, tuple(order))
 
 
 def arbor_positions(design: Design) -> dict[str, tuple[float, float]]:

@@ -1,0 +1,73 @@
+"""Apply a finding's changes to a loaded design: the file as it would read after the edit.
+
+The check engine uses this to find a cause's consequences (what goes away once the
+cause is put right); a :class:`~wheelgen.checks.findings.Change` names the train file's
+own table, item and key, so the same edit can be made in the file by hand.
+"""
+
+from __future__ import annotations
+
+from dataclasses import fields, replace
+from typing import Any
+
+from ..design.model import Design, Frame
+from .findings import Change
+
+__all__ = ["apply_changes"]
+
+# keys of the train file whose dataclass field has another name
+_FIELD = {
+    "pressure_angle": "pressure_angle_deg",
+    "tooth_angle": "tooth_angle_deg",
+    "bearing": "bearing_deg",
+}
+
+
+def _set(obj: Any, change: Change) -> Any:
+    name = _FIELD.get(change.key, change.key)
+    if name not in {f.name for f in fields(obj)}:
+        raise ValueError(f"{change.item} has no key '{change.key}'")
+    value = change.value
+    if isinstance(value, tuple):
+        value = tuple(float(v) for v in value)
+    return replace(obj, **{name: value})
+
+
+def apply_changes(design: Design, changes: tuple[Change, ...]) -> Design:
+    """``design`` with every change made; ``ValueError`` for an item or key it lacks."""
+    for c in changes:
+        if c.table == "arbor":
+            design = replace(
+                design,
+                arbors=tuple(
+                    _set(a, c) if a.name == c.name else a for a in design.arbors
+                ),
+            )
+        elif c.table == "wheel":
+            design = replace(
+                design,
+                wheels=tuple(
+                    _set(w, c) if w.name == c.name else w for w in design.wheels
+                ),
+            )
+        elif c.table == "mesh":
+            design = replace(
+                design,
+                meshes=tuple(
+                    _set(m, c) if str(m.index) == c.name else m for m in design.meshes
+                ),
+            )
+        elif c.table == "pinslot":
+            design = replace(
+                design,
+                pinslots=tuple(
+                    _set(p, c) if p.name == c.name else p for p in design.pinslots
+                ),
+            )
+        elif c.table == "process":
+            design = replace(design, process=_set(design.process, c))
+        elif c.table == "frame":
+            design = replace(design, frame=_set(design.frame or Frame(), c))
+        else:
+            raise ValueError(f"cannot change {c.item}")
+    return design
