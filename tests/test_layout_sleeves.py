@@ -77,7 +77,11 @@ def test_parts_carry_seats_and_placements():
     assert isinstance(parts["main"], ArborPart) and parts[
         "main"
     ].length == pytest.approx(44.0)
-    assert parts["w3"].bore == pytest.approx(5.1)  # fixed on the outside of its tube
+    # fixed on the outside of its 5.1 mm tube, the bore opened by the H7/g6 running
+    # fit as docs/format.md says: H7 over 3 up to 6 mm is 0 to +12 um (ISO 286-1:2010,
+    # Table 1, IT7 = 12 um; EI = 0 for H), modelled in the middle of its zone
+    assert parts["w3"].bore == pytest.approx(5.106)
+    assert parts["w3"].bore_fit == "H7/g6 on 5.1 mm: 5.100 to 5.112 mm"
 
 
 def test_stock_tube_is_chosen_and_reported():

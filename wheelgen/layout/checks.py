@@ -12,8 +12,11 @@ from typing import Any
 from ..checks.findings import Change, Finding
 from ..design.model import Design
 from ..design.process_limits import centre_tolerance
+from ..teeth.limits import short_of
+from .carrier_holes import carrier_hole_problems
 from .centres import MeshCentres, Move, centres_fit, mesh_centres, move_for
 from .collisions import Clash, PinClash, find_clashes, find_pin_clashes
+from .phasing import rest_angles
 from .placement import LOOP_TOLERANCE, LoopMismatch
 from .plan import Layout, plan_layout
 from .stacking import wheel_extent
@@ -120,6 +123,55 @@ def findings_for_layout(layout: Layout, rates: dict[str, Any]) -> list[Finding]:
     out.extend(_face_findings(design))
     out.extend(_plate_findings(design))
     out.extend(_bore_findings(layout))
+    out.extend(_carrier_hole_findings(layout))
+    out.extend(_phasing_findings(layout))
+    return out
+
+
+def _carrier_hole_findings(layout: Layout) -> list[Finding]:
+    """``layout.carrier_hole``: a carried arbor's hole without a wall of wheel round it."""
+    out = []
+    for p in carrier_hole_problems(layout):
+        cut = "runs into" if p.wall < 0 else "comes within " + _mm(p.wall) + " of"
+        out.append(
+            Finding(
+                "error",
+                "layout.carrier_hole",
+                f"wheel {p.wheel} / arbor {p.arbor}",
+                f'wheel "{p.wheel}" carries arbor "{p.arbor}" in a bore of its own, but '
+                f"that bore {cut} {p.reason}; the wheel cannot be made so",
+                _mm(p.wall),
+                f"{_mm(p.needed)} (min_wall)",
+                f"move arbor \"{p.arbor}\" (its 'at') onto solid wheel, or change the "
+                f'spokes, hub or bore of "{p.wheel}"',
+            )
+        )
+    return out
+
+
+def _phasing_findings(layout: Layout) -> list[Finding]:
+    """``layout.phasing``: a loop of meshes whose teeth cannot all interleave."""
+    design = layout.design
+    out = []
+    for mf in rest_angles(design).misfits:
+        w1, w2 = (design.wheel(n) for n in mf.mesh.pair)
+        play = min(w1.backlash, w2.backlash) / 2
+        if not short_of(play, mf.arc):
+            continue  # the teeth still go in, inside the play of the mesh
+        out.append(
+            Finding(
+                "error",
+                "layout.phasing",
+                mf.mesh.label,
+                f"{mf.mesh.label} closes a loop of wheels whose teeth cannot all "
+                f'interleave: set to mesh with the rest, "{w2.name}" would have to turn '
+                f"{mf.misfit_deg:+.4f} deg ({mf.arc:.4f} mm on its pitch circle)",
+                f"{mf.misfit_deg:+.4f} deg",
+                f"{_mm(play)} on the pitch circle (half the backlash)",
+                "change a tooth count or an arbor's place in the loop so that the teeth "
+                "meet whole pitches round it",
+            )
+        )
     return out
 
 

@@ -64,6 +64,16 @@ class PinBoss:
 
 @dataclass(frozen=True, slots=True)
 class WheelPart:
+    """One wheel, in its own frame: a tooth centred on +X, back face on z = 0.
+
+    ``bore`` is the seat hole's size (diameter, or across flats of a square or hex
+    seat), ``bore_fit`` says what sets it; ``seat_angle_deg`` turns a polygon seat and
+    the cross-pin hole, ``spoke_angle_deg`` the spokes (an arm on that direction), so
+    that in the assembly they meet the tube's flats and the carried arbors. ``holes``
+    are extra through holes ``(x, y, diameter)`` (mm): the running bores of the arbors
+    this wheel carries. ``placement.angle_deg`` is the wheel's angle at rest.
+    """
+
     name: str
     tooth: ToothSpec
     face_width: float
@@ -81,6 +91,9 @@ class WheelPart:
     ] = ()  # extra through holes (x, y, diameter)
     placement: Placement = Placement()
     kind: Literal["wheel"] = "wheel"
+    bore_fit: str = ""
+    seat_angle_deg: float = 0.0
+    spoke_angle_deg: float = 0.0
 
 
 @dataclass(frozen=True, slots=True)

@@ -1,12 +1,20 @@
 """The parts the build makes, as plain numbers (:mod:`wheelgen.layout.part_plan`).
 
-Wheels sit at their axis with their back face at their height, angle 0; arbors and
-sleeves stand at their axis from the bottom of their span. A carried arbor is placed
-with its carrier at angle 0, and its carrier wheel gets a running bore for it at the
-arbor's ``at``. Lengths in mm, angles in degrees.
+Every wheel sits at its axis with its back face at its height, turned to its angle at
+rest (:mod:`wheelgen.layout.phasing`), so that every pair interleaves; what must meet
+other parts is cut where the rest position needs it in the wheel's own frame: a pin or
+a slot on its coupling's offset line, a polygon seat and its cross pin on the tube's
+flats (angle 0), and a running bore for each arbor the wheel carries, at the arbor's
+``at`` (the carrier's frame stands at angle 0 at rest), with the spokes turned so that
+an arm carries it. Arbors and sleeves stand at their axis from the bottom of their
+span. Lengths in mm, angles in degrees.
 """
 
 from __future__ import annotations
+
+import math
+from dataclasses import replace
+from typing import Any
 
 from ..design.model import Design, Wheel
 from .part_plan import (
@@ -18,11 +26,12 @@ from .part_plan import (
     SlotCut,
     WheelPart,
 )
+from .phasing import rest_angles
 from .placement import tooth_spec
 from .plan import Layout, plan_layout
-from .sleeves import running_bore
+from .sleeves import running_bore, wheel_bore
 
-__all__ = ["plan_parts", "wheel_part"]
+__all__ = ["carried_holes", "plan_parts", "wheel_part"]
 
 try:  # the pin-and-slot sizes live with the coupling (issue 6)
     from . import pinslot_geometry as _pinslot
@@ -35,28 +44,51 @@ def _round_radius(design: Design) -> float:
     return design.process.cutter / 2 if design.process.kind == "mill" else 0.0
 
 
+def _turned(x: float, y: float, angle_deg: float) -> tuple[float, float]:
+    a = math.radians(angle_deg)
+    c, s = math.cos(a), math.sin(a)
+    return (round(c * x - s * y, 9) + 0.0, round(s * x + c * y, 9) + 0.0)
+
+
+def carried_holes(
+    design: Design, wheel: Wheel, angle_deg: float = 0.0
+) -> tuple[tuple[str, float, float, float], ...]:
+    """``(arbor, x, y, diameter)`` of each arbor ``wheel`` carries, in the wheel's own
+    frame when it stands at ``angle_deg`` (mm): the arbor's running bore at its ``at``."""
+    return tuple(
+        (a.name, *_turned(a.at[0], a.at[1], -angle_deg),
+         round(running_bore(design.process, a.diameter).diameter, 6))
+        for a in design.arbors
+        if a.carrier == wheel.name and a.at is not None
+    )  # fmt: skip
+
+
 def wheel_part(layout: Layout, wheel: Wheel) -> WheelPart:
     """One wheel's part: teeth, bore on its seat, spokes, slot or pin, extra holes."""
     design = layout.design
     pos = layout.position(wheel.arbor) or (0.0, 0.0)
+    phi = rest_angles(design).angles_deg.get(wheel.name, 0.0)
     slot: SlotCut | None = None
     pin: PinBoss | None = None
     if _pinslot is not None:
         for p in design.pinslots:
+            # on the offset line at rest: at the bearing in the plate's frame
             if p.slot == wheel.name:
-                slot = _pinslot.slot_cut(design, p)
+                cut = _pinslot.slot_cut(design, p)
+                slot = replace(cut, angle_deg=cut.angle_deg - phi)
             if p.pin == wheel.name:
-                pin = _pinslot.pin_boss(design, p)
-    holes = tuple(
-        (a.at[0], a.at[1], round(running_bore(design.process, a.diameter).diameter, 6))
-        for a in design.arbors
-        if a.carrier == wheel.name and a.at is not None
-    )
+                boss = _pinslot.pin_boss(design, p)
+                pin = replace(boss, angle_deg=boss.angle_deg - phi)
+    holes = carried_holes(design, wheel, phi)
+    spoke_angle = 0.0
+    if holes and wheel.spokes:
+        spoke_angle = math.degrees(math.atan2(holes[0][2], holes[0][1]))
+    bore = wheel_bore(design, layout.sizes, wheel)
     return WheelPart(
         name=wheel.name,
         tooth=tooth_spec(wheel),
         face_width=wheel.face_width,
-        bore=wheel.bore if wheel.bore is not None else layout.outside(wheel.arbor),
+        bore=bore.diameter,
         seat=wheel.seat,
         spokes=wheel.spokes,
         rim=wheel.rim if wheel.rim is not None else 0.0,
@@ -65,9 +97,18 @@ def wheel_part(layout: Layout, wheel: Wheel) -> WheelPart:
         round_radius=_round_radius(design),
         slot=slot,
         pin=pin,
-        holes=holes,
-        placement=Placement(pos[0], pos[1], wheel.height, 0.0),
+        holes=tuple((x, y, d) for _, x, y, d in holes),
+        placement=Placement(pos[0], pos[1], wheel.height, phi),
+        bore_fit=_fit_text(bore),
+        seat_angle_deg=-phi if wheel.seat != "round" else 0.0,
+        spoke_angle_deg=spoke_angle,
     )
+
+
+def _fit_text(bore: Any) -> str:
+    if bore.zone:
+        return f"{bore.fit} on {bore.shaft:g} mm: {bore.low:.3f} to {bore.high:.3f} mm"
+    return f"{bore.fit} on {bore.shaft:g} mm"
 
 
 def plan_parts(design: Design) -> tuple[Part, ...]:

@@ -20,7 +20,7 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
-from ..design.model import Design, Process, Stock
+from ..design.model import Design, Process, Stock, Wheel
 from .fits import fit_limits
 
 __all__ = [
@@ -32,6 +32,7 @@ __all__ = [
     "running_bore",
     "seat_factor",
     "size_sleeves",
+    "wheel_bore",
 ]
 
 #: mm: sleeve outside diameters are rounded up to a multiple of this (bar and tube are
@@ -180,3 +181,20 @@ def size_sleeves(design: Design) -> dict[str, SleeveSize]:
 def member_outside(design: Design, sizes: dict[str, SleeveSize], name: str) -> float:
     """Outside diameter (mm) of an arbor or sleeve."""
     return sizes[name].outside if name in sizes else design.arbor(name).diameter
+
+
+def wheel_bore(design: Design, sizes: dict[str, SleeveSize], wheel: Wheel) -> Bore:
+    """The seat hole (mm) of ``wheel``: its own ``bore``, else its seat opened up.
+
+    The seat is the outside of the arbor or sleeve under the wheel; on a sleeve a square
+    or hex seat is milled to its flats (:func:`seat_factor`), and the hole's size is
+    then across its flats. The seat is opened up by the running fit (mill, hand) or the
+    print clearance, as the train format says (:func:`running_bore`).
+    """
+    seat = member_outside(design, sizes, wheel.arbor)
+    if wheel.arbor in sizes:
+        seat = round(seat * seat_factor(wheel.seat), 6)
+    if wheel.bore is not None:
+        d = wheel.bore
+        return Bore(seat, d, d, d, "as given ('bore')", "", seat, seat)
+    return running_bore(design.process, seat)

@@ -29,7 +29,7 @@ __all__ = [
     "spoke_sizes",
 ]
 
-HoleRole = Literal["bore", "window", "slot", "pin_hole"]
+HoleRole = Literal["bore", "window", "slot", "pin_hole", "arbor_hole"]
 
 
 @dataclass(frozen=True, slots=True, eq=False)
@@ -127,10 +127,14 @@ def cross_pin_diameter(bore: float) -> float:
 
 
 def _seat_hole(part: WheelPart) -> Hole:
-    if part.seat == "square":
-        return _polygon_hole("bore", 4, part.bore, part.round_radius)
-    if part.seat == "hex":
-        return _polygon_hole("bore", 6, part.bore, part.round_radius)
+    if part.seat in ("square", "hex"):
+        sides = 4 if part.seat == "square" else 6
+        hole = _polygon_hole("bore", sides, part.bore, part.round_radius)
+        if part.seat_angle_deg == 0.0:
+            return hole
+        return Hole(
+            "bore", tuple(sg.rotated(part.seat_angle_deg) for sg in hole.segments)
+        )
     return _circle_hole("bore", 0.0, 0.0, part.bore / 2)
 
 
@@ -228,7 +232,7 @@ def _windows(part: WheelPart, root_radius: float) -> list[Hole]:
     segs.append(_arc_about_origin(r_in, b0, b1))
     holes = []
     for k in range(n):
-        ang = math.degrees(k * beta)
+        ang = math.degrees(k * beta) + part.spoke_angle_deg
         holes.append(Hole("window", tuple(sg.rotated(ang) for sg in segs)))
     return holes
 
@@ -249,7 +253,7 @@ def _stadium(
 
 
 def plate_profile(part: WheelPart, outline: WheelOutline) -> PlateProfile:
-    """The wheel's flat profile: toothed outline, seat hole, windows, slot, pin hole.
+    """The wheel's flat profile: toothed outline, seat, windows, slot, pin and arbor holes.
 
     Parameters
     ----------
@@ -281,4 +285,6 @@ def plate_profile(part: WheelPart, outline: WheelOutline) -> PlateProfile:
                 part.pin.diameter / 2,
             )
         )
+    for x, y, d in part.holes:  # the running bores of the arbors this wheel carries
+        holes.append(_circle_hole("arbor_hole", x, y, d / 2))
     return PlateProfile(outline, tuple(holes), pitch, root, tip)

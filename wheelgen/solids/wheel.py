@@ -110,8 +110,11 @@ def wheel_from_profile(part: WheelPart, profile: PlateProfile) -> cq.Solid:
         reach = max(part.hub_diameter / 2, seat_extent("round", part.bore)) + 1.0
         if part.hub_length <= 0:
             reach = profile.root_radius + 1.0
+        # across the seat, on the direction its flats are turned to (as on the tube)
+        t = math.radians(part.seat_angle_deg)
+        c, s = math.cos(t), math.sin(t)
         tool = cq.Solid.makeCylinder(
-            d / 2, 2 * reach, cq.Vector(-reach, 0, zc), cq.Vector(1, 0, 0)
+            d / 2, 2 * reach, cq.Vector(-reach * c, -reach * s, zc), cq.Vector(c, s, 0)
         )
         solid = _boolean("cut", solid, tool, f"{part.name} cross-pin hole")
     if part.pin is not None and not part.pin.hole_only:
