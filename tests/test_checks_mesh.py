@@ -400,18 +400,25 @@ def test_axes_inside_the_base_circles():
 
 
 def test_jam_advice_names_the_backlash_that_frees_the_pair():
-    # derived: the advised extra play is the overlap arc on the driven pitch circle;
-    # adding it (split half per wheel, as the design's backlash is) must free the mesh
-    import re
-
-    def pair(thinning):
+    # the advised 'backlash' (the same on both wheels, half of it off each tooth) is
+    # tried on the outlines before it is advised: with it the pair turns freely
+    def pair(backlash):
         return [
-            ToothSpec(z, 1.0, form="triangular", addendum=0.6, thinning=thinning)
+            ToothSpec(z, 1.0, form="triangular", addendum=0.6, thinning=backlash / 2)
             for z in (20, 60)
         ]
 
-    (jam,) = _only(_mesh(*pair(0.05)), "mesh.jam")
-    extra = float(re.search(r"by at least ([0-9.]+) mm", jam.advice).group(1))
-    assert extra > 0
-    freed = _mesh(*pair(0.05 + extra / 2 + 0.005))
-    assert "mesh.jam" not in _ids(freed)
+    (jam,) = _only(_mesh(*pair(0.1)), "mesh.jam")
+    assert [c.key for c in jam.changes] == ["backlash", "backlash"]
+    value = jam.changes[0].value
+    assert isinstance(value, float) and 0.1 < value < 0.25 * 3.1416
+    assert str(jam.changes[0]) in jam.advice
+    assert "mesh.jam" not in _ids(_mesh(*pair(value)))
+
+
+def test_jam_far_beyond_thinner_teeth_advises_moving_the_arbors():
+    # derived: 1 mm too close is an overlap of about 2 x 1 x tan(20 deg) = 0.73 mm of
+    # arc: still thinner teeth; 3 mm too close overlaps more than a quarter pitch
+    found = _mesh(ToothSpec(20, 1.0), ToothSpec(40, 1.0), centre_distance=28.6)
+    (jam,) = _only(found, "mesh.jam")
+    assert jam.changes == () and "move them apart" in jam.advice

@@ -128,7 +128,8 @@ def test_print_limits_fail_for_a_fine_wheel():
         "process.wall",
     }
     assert found["process.tip_width"][0].level == "error"
-    assert found["process.wall"][0].level == "warning"  # 0.5 mm < two 0.4 mm lines
+    # 0.5 mm is less than two 0.4 mm lines side by side: a printer cannot make it
+    assert found["process.wall"][0].level == "error"
     # the nozzle sets the limit: a 0.15 mm nozzle prints the same teeth
     fine = Process(kind="print", nozzle=0.15, layer=0.1)
     found = _by_check(

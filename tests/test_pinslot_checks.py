@@ -44,7 +44,7 @@ def test_slot_0_1_mm_too_short_fails(end):
     found = slot_travel_findings(p, short)
     assert _ids(found, "error") == ["pinslot.travel"]
     assert end in found[0].message
-    assert "0.100 mm" in found[0].advice
+    assert "0.100 mm" in found[0].message
 
 
 def test_slot_narrower_than_pin_fails():

@@ -52,14 +52,9 @@ def _meshes(design: Design, analysis: Analysis) -> list[Finding]:
 
 
 def _process(design: Design, analysis: Analysis) -> list[Finding]:
-    from ..layout import plan_parts
     from .process_checks import design_process_checks
 
-    try:
-        bores = {p.name: p.bore for p in plan_parts(design) if p.kind == "wheel"}
-    except ValueError:  # a layout that cannot be made: the layout check reports it
-        bores = None
-    return design_process_checks(design, bores)
+    return design_process_checks(design)
 
 
 def design_checks() -> tuple[DesignCheck, ...]:

@@ -13,11 +13,15 @@ triangular teeth, and a second opinion on involute ones.
 from __future__ import annotations
 
 import math
-from collections.abc import Mapping
-from dataclasses import dataclass
+from collections.abc import Callable, Mapping
+from dataclasses import dataclass, replace
 
-from ..design.model import Design, Process
-from ..design.process_limits import centre_tolerance, min_backlash
+from ..design.model import Design, Process, Wheel
+from ..design.process_limits import (
+    centre_tolerance,
+    default_backlash,
+    min_backlash,
+)
 from ..layout.placement import tooth_spec
 from ..teeth.involute_tooth import generate_tooth
 from ..teeth.limits import (
@@ -34,7 +38,7 @@ from ..teeth.mesh_data import (
 )
 from ..teeth.outline import WheelOutline
 from ..teeth.spec import ToothSpec, outline_for
-from .findings import Finding, Level
+from .findings import Change, Finding, Level
 from .mesh_sim import MeshSimulation, simulate_mesh
 
 __all__ = [
@@ -152,10 +156,14 @@ def check_wheel(spec: ToothSpec, subject: str) -> list[Finding]:
     name = subject.split()[-1]
     out = []
     for v in tooth_verdicts(spec):
-        if v.check == "wheel.undercut":
+        changes: tuple[Change, ...] = ()
+        if v.check == "wheel.undercut" and v.shift is not None:
+            shift = _shift_that_clears(spec, v.shift)
+            if shift is not None:
+                changes = (Change("wheel", name, "shift", shift),)
             advice = (
-                f"set shift = {v.shift:.2f} or more on {name} (and less on its mate), "
-                "or use more teeth"
+                _set_text(changes, "shift it positively")
+                + " (and less on its mate), or use more teeth"
             )
         else:
             advice = f"reduce the shift or the addendum of {name}"
@@ -168,9 +176,24 @@ def check_wheel(spec: ToothSpec, subject: str) -> list[Finding]:
                 measured=v.measured,
                 limit=v.limit,
                 advice=advice,
+                changes=changes,
             )
         )
     return out
+
+
+def _shift_that_clears(spec: ToothSpec, start: float) -> float | None:
+    """The smallest shift from ``start`` up, in 0.05 steps, that leaves no undercut
+    (and is one the train format allows, at most 2)."""
+    shift = start
+    while shift <= 2.0 + 1e-9:
+        try:
+            if not generate_tooth(replace(spec, shift=shift)).undercut:
+                return round(shift, 2)
+        except ValueError:
+            return None
+        shift += 0.05
+    return None
 
 
 def _mismatch(spec1: ToothSpec, spec2: ToothSpec, subject: str) -> list[Finding]:
@@ -296,7 +319,7 @@ def check_mesh(
         if not simulate:
             return out
     sim = simulate_mesh(o1, o2, a, steps=CHECK_STEPS)
-    out += _simulation_findings(sim, spec1, spec2, subject, o2, process)
+    out += _simulation_findings(sim, spec1, spec2, subject, o2, process, (n1, n2))
     return out
 
 
@@ -430,6 +453,13 @@ def _involute_findings(
     need = min_backlash(process or Process())
     if data.backlash >= 0 and short_of(data.backlash, need):
         kind = "mill" if process is None else process.kind
+
+        def enough(b: float) -> bool:
+            s1, s2 = (replace(x, thinning=b / 2) for x in (spec1, spec2))
+            got = mesh_data(s1, s2, data.centre_distance).backlash
+            return got is not None and not short_of(got, need)
+
+        changes = _backlash_changes(spec1, spec2, names, need - data.backlash, enough)
         out.append(
             Finding(
                 "warning",
@@ -439,10 +469,56 @@ def _involute_findings(
                 "process holds; the pair may bind",
                 measured=_mm(data.backlash),
                 limit=_mm(need),
-                advice=f"set backlash = {need:g} or more on both wheels",
+                advice=_set_text(changes, "raise 'backlash' on both wheels"),
+                changes=changes,
             )
         )
     return out
+
+
+#: Most play (x the circular pitch) the advice ever asks of 'backlash'; a pair that
+#: needs more is in the wrong place or has the wrong teeth (common practice, no source:
+#: thinning a tooth by more than an eighth of a pitch on each flank spoils it).
+MAX_ADVISED_PLAY = 0.25
+
+
+def _set_text(changes: tuple[Change, ...], otherwise: str) -> str:
+    if not changes:
+        return otherwise
+    return "set " + " and ".join(str(c) for c in changes)
+
+
+def _backlash_changes(
+    spec1: ToothSpec,
+    spec2: ToothSpec,
+    names: tuple[str, str],
+    short: float,
+    enough: Callable[[float], bool],
+) -> tuple[Change, ...]:
+    """The 'backlash' for both wheels (mm) that ``enough`` accepts, found by trying.
+
+    Starts from the larger of the two wheels' values plus ``short`` (mm) and widens the
+    step until it clears, never past :data:`MAX_ADVISED_PLAY` of the pitch; ``()``
+    when no such value is found (then the arbors or the teeth are at fault).
+    """
+    now = 2 * max(spec1.thinning, spec2.thinning)
+    most = now + MAX_ADVISED_PLAY * math.pi * spec1.module
+    step = max(short, 0.001)
+    for _ in range(8):
+        b = math.ceil((now + step) * 1000 - 1e-6) / 1000
+        if b > most:
+            return ()
+        try:
+            if enough(b):
+                return tuple(
+                    Change("wheel", n, "backlash", b)
+                    for n, sp in zip(names, (spec1, spec2))
+                    if not math.isclose(2 * sp.thinning, b)
+                )
+        except ValueError:  # so thin the tooth is gone
+            return ()
+        step *= 1.5
+    return ()
 
 
 def _clearance_message(subject: str, tip: str, root: str, c: float) -> str:
@@ -493,9 +569,25 @@ def _simulation_findings(
     subject: str,
     driven: WheelOutline,
     process: Process | None,
+    names: tuple[str, str] = ("wheel 1", "wheel 2"),
 ) -> list[Finding]:
     out: list[Finding] = []
     if sim.jams:
+
+        def frees(b: float) -> bool:
+            s1, s2 = (replace(x, thinning=b / 2) for x in (spec1, spec2))
+            o1, o2 = outline_for(s1), outline_for(s2)
+            again = simulate_mesh(o1, o2, sim.centre_distance, steps=CHECK_STEPS)
+            return not again.jams
+
+        overlap = _jam_backlash(sim, spec2)
+        changes = _backlash_changes(spec1, spec2, names, overlap, frees)
+        advice = _set_text(
+            changes,
+            f"the outlines overlap by {_mm(overlap)} on the driven pitch circle, more "
+            "than thinner teeth can take: the arbors are too close for these teeth; "
+            "move them apart or shorten the teeth ('addendum')",
+        )
         out.append(
             Finding(
                 "error",
@@ -505,9 +597,8 @@ def _simulation_findings(
                 "the pair jams",
                 measured=f"play {sim.min_play_deg:.4f} deg at the driven wheel",
                 limit="0 deg",
-                advice="move the axes apart, or thin the teeth: raise 'backlash' by at "
-                f"least {_mm(_jam_backlash(sim, spec2))} (the overlap, measured on the "
-                "driven wheel's pitch circle)",
+                advice=advice,
+                changes=changes,
             )
         )
         return out
@@ -593,7 +684,7 @@ def design_mesh_checks(
             outlines[wheel.name] = outline_for(spec)
             findings += check_wheel(spec, subject)
         except ValueError as exc:
-            findings.append(_unmakeable(subject, exc))
+            findings.append(_unmakeable(design, wheel, exc))
             continue
         specs[wheel.name] = spec
     if distances is None:
@@ -629,7 +720,23 @@ def layout_distances(design: Design) -> dict[int, float]:
     return {mc.mesh.index: mc.measured for mc in mesh_centres(layout)}
 
 
-def _unmakeable(subject: str, exc: ValueError) -> Finding:
+def _unmakeable(design: Design, wheel: Wheel, exc: ValueError) -> Finding:
+    subject = f"wheel {wheel.name}"
+    if "'thinning'" in str(exc):
+        # the generators speak of thinning; the file sets it as 'backlash'
+        usual = default_backlash(design.process)
+        change = Change("wheel", wheel.name, "backlash", usual)
+        return Finding(
+            "error",
+            "wheel.teeth",
+            subject,
+            f"{subject}: these teeth cannot be made: backlash = {wheel.backlash:g} mm "
+            f"takes {wheel.backlash / 2:g} mm off each tooth, more than the tooth has",
+            measured=f"backlash {wheel.backlash:g} mm",
+            limit=f"less than a tooth ({math.pi * wheel.module / 2:.3f} mm)",
+            advice=f"set {change}, the {design.process.kind} default",
+            changes=(change,),
+        )
     return Finding(
         "error",
         "wheel.teeth",

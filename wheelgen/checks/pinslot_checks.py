@@ -67,12 +67,14 @@ def wheel_root_radius(wheel: Wheel) -> float:
 
 def _inner_limit(design: Design, wheel: Wheel) -> tuple[float, str]:
     """Radius (mm) the cut must stay outside of: the bore, or the hub boss if larger."""
-    # Without an explicit bore we take the arbor's diameter; for a sleeve the layout
-    # sizes the tube later, so this is the smallest the bore can be.
-    bore = wheel.bore if wheel.bore is not None else design.arbor(wheel.arbor).diameter
-    if wheel.hub_diameter > bore:
+    from ..layout.sleeves import size_sleeves, wheel_bore
+    from ..layout.wheel_profile import seat_extent
+
+    bore = wheel_bore(design, size_sleeves(design), wheel).diameter
+    extent = seat_extent(wheel.seat, bore)
+    if wheel.hub_diameter / 2 > extent:
         return wheel.hub_diameter / 2, "hub"
-    return bore / 2, "bore"
+    return extent, "bore"
 
 
 def _mm(x: float) -> str:
@@ -109,10 +111,12 @@ def slot_travel_findings(pinslot: PinSlot, cut: SlotCut) -> list[Finding]:
                 "error",
                 "pinslot.travel",
                 subject,
-                "the pin leaves the slot at its inner end over a turn",
+                f"the pin leaves the slot at its inner end over a turn, by "
+                f"{_mm(cut.inner - near)}",
                 measured=f"pin centre comes to {_mm(near)} from the axis",
                 limit=f"inner end centre at {_mm(cut.inner)}",
-                advice=f"lengthen the slot inwards by {_mm(cut.inner - near)} or more",
+                advice="the slot must reach the pin's whole travel: its ends follow "
+                "'radius' and 'offset'",
             )
         )
     if far > cut.outer + _TOL:
@@ -121,10 +125,12 @@ def slot_travel_findings(pinslot: PinSlot, cut: SlotCut) -> list[Finding]:
                 "error",
                 "pinslot.travel",
                 subject,
-                "the pin leaves the slot at its outer end over a turn",
+                f"the pin leaves the slot at its outer end over a turn, by "
+                f"{_mm(far - cut.outer)}",
                 measured=f"pin centre reaches {_mm(far)} from the axis",
                 limit=f"outer end centre at {_mm(cut.outer)}",
-                advice=f"lengthen the slot outwards by {_mm(far - cut.outer)} or more",
+                advice="the slot must reach the pin's whole travel: its ends follow "
+                "'radius' and 'offset'",
             )
         )
     return out

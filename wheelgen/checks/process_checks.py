@@ -20,10 +20,14 @@ from collections.abc import Mapping
 import numpy as np
 
 from ..design.model import Design, Process, Wheel
+from ..design.process_limits import wall_floor
 from ..layout.placement import tooth_spec
+from ..layout.sleeves import size_sleeves, wheel_bore
+from ..layout.wheel_profile import seat_extent
+from ..teeth.limits import short_of
 from ..teeth.outline import WheelOutline
 from ..teeth.spec import ToothSpec, outline_for
-from .findings import Finding, Level
+from .findings import Change, Finding, Level
 from .mesh_sim import ToothTable, tooth_table
 
 __all__ = [
@@ -124,8 +128,12 @@ def check_cutter_fits(
     cutter: float, width: float, subject: str, what: str
 ) -> list[Finding]:
     """An error if an end mill of diameter ``cutter`` mm is wider than ``width`` mm."""
-    if cutter <= width:
+    if not short_of(width, cutter):
         return []
+    # the next size down in 0.05 mm steps (end mills are sold so; common practice)
+    smaller = math.floor(width * 20 + 1e-9) / 20
+    changes = (Change("process", "", "cutter", smaller),) if smaller > 0 else ()
+    use = f"set {changes[0]}" if changes else "use a smaller end mill"
     return [
         Finding(
             "error",
@@ -134,8 +142,8 @@ def check_cutter_fits(
             f"{subject}: the {cutter:g} mm end mill is wider than the {what}",
             measured=f"{what} {_mm(width)}",
             limit=f"end mill {cutter:g} mm",
-            advice=f"use an end mill of {math.floor(width * 20) / 20:g} mm or less, or "
-            f"widen the {what}",
+            advice=f"{use}, or widen the {what}",
+            changes=changes,
         )
     ]
 
@@ -188,19 +196,28 @@ def check_process(
                 )
             )
     wall = process.wall_minimum
+    floor = wall_floor(process)
     for what, value in (("web", web), ("rim", rim)):
-        if value is not None and value < wall:
+        if value is not None and short_of(value, wall):
+            # below what the process can make at all it is an error
+            level: Level = (
+                "error" if value <= 0 or short_of(value, floor) else "warning"
+            )
+            cure = (
+                "a wider 'rim'"
+                if what == "rim"
+                else "a thinner arbor or sleeve under it, more teeth or a larger module"
+            )
             out.append(
                 Finding(
-                    "error" if value <= 0 else "warning",
+                    level,
                     "process.wall",
                     subject,
                     f"{subject}: the {what} below the teeth is thinner than the "
                     "process makes reliably",
                     measured=f"{what} {_mm(value)}",
                     limit=_mm(wall),
-                    advice=f"make the {what} at least {_mm(wall)} (smaller bore or "
-                    "hub, or more teeth), or set [process] min_wall",
+                    advice=f"make the {what} thicker: {cure}",
                 )
             )
     if kind not in ("print", "mill"):
@@ -211,7 +228,7 @@ def check_process(
         nozzle = process.nozzle
         r_tip, r_root = table.r_max, table.r_min
         tip = _tooth_width(table, r_tip - nozzle / 2)
-        if tip < nozzle:
+        if short_of(tip, nozzle):
             out.append(
                 Finding(
                     "error",
@@ -225,7 +242,7 @@ def check_process(
                 )
             )
         gap = _space_width(table, r_root + nozzle / 2)
-        if gap < nozzle:
+        if short_of(gap, nozzle):
             out.append(
                 Finding(
                     "error",
@@ -240,7 +257,7 @@ def check_process(
             )
         if face_width is not None:
             need = process.min_layers * process.layer
-            if face_width < need - 1e-9:
+            if short_of(face_width, need):
                 out.append(
                     Finding(
                         "error",
@@ -250,7 +267,10 @@ def check_process(
                         "layers thick",
                         measured=f"face width {_mm(face_width)}",
                         limit=f"{process.min_layers} layers of {process.layer:g} mm",
-                        advice=f"make face_width at least {need:g} mm",
+                        advice=f"set face_width = {need:g} on {subject.split()[-1]}",
+                        changes=(
+                            Change("wheel", subject.split()[-1], "face_width", need),
+                        ),
                     )
                 )
     else:
@@ -285,13 +305,14 @@ def check_process(
 def design_process_checks(
     design: Design, bores: Mapping[str, float] | None = None
 ) -> list[Finding]:
-    """Process checks on every wheel and pin slot of ``design``.
+    """Process checks on every wheel and pin slot of ``design``, and on ``[process]``.
 
-    ``bores`` maps wheel names to bore diameters (mm) from the layout; without it the
-    wheel's own ``bore`` or its arbor's diameter is used (not known for sleeves).
+    ``bores`` maps wheel names to bore diameters (mm); by default each wheel's bore is
+    the one the parts get (:func:`wheelgen.layout.sleeves.wheel_bore`).
     """
     process = design.process
-    out: list[Finding] = []
+    out: list[Finding] = _min_wall_findings(process)
+    sizes = size_sleeves(design)
     for wheel in design.wheels:
         subject = f"wheel {wheel.name}"
         try:
@@ -299,7 +320,11 @@ def design_process_checks(
             shape = outline_for(spec) if process.kind in ("print", "mill") else None
         except ValueError:
             continue  # reported by the wheel checks (wheel.teeth)
-        web, rim = _web_and_rim(design, wheel, spec, bores)
+        if bores is not None and wheel.name in bores:
+            bore = bores[wheel.name]
+        else:
+            bore = wheel_bore(design, sizes, wheel).diameter
+        web, rim = _web_and_rim(wheel, spec, bore)
         out += check_process(
             spec,
             process,
@@ -311,7 +336,7 @@ def design_process_checks(
         )
         if process.kind == "mill" and wheel.spokes and wheel.rim is not None:
             root = wheel.module * (wheel.teeth / 2 + wheel.shift - wheel.dedendum)
-            hub = max(wheel.hub_diameter / 2, (_bore(design, wheel, bores) or 0.0) / 2)
+            hub = max(wheel.hub_diameter / 2, seat_extent(wheel.seat, bore))
             hub += process.wall_minimum
             window = root - wheel.rim - hub
             out += check_cutter_fits(
@@ -325,26 +350,31 @@ def design_process_checks(
     return out
 
 
-def _bore(
-    design: Design, wheel: Wheel, bores: Mapping[str, float] | None
-) -> float | None:
-    if bores is not None and wheel.name in bores:
-        return bores[wheel.name]
-    if wheel.bore is not None:
-        return wheel.bore
-    arbor = design.arbor(wheel.arbor)
-    if arbor.around is None:
-        return arbor.diameter
-    return None
+def _min_wall_findings(process: Process) -> list[Finding]:
+    """``process.min_wall``: a ``min_wall`` the process cannot make (print: two lines)."""
+    floor = wall_floor(process)
+    if process.min_wall is None or not short_of(process.min_wall, floor):
+        return []
+    return [
+        Finding(
+            "error",
+            "process.min_wall",
+            "[process]",
+            f"[process] min_wall = {process.min_wall:g} mm is thinner than a printer "
+            f"can make a wall: two lines of the {process.nozzle:g} mm nozzle side by "
+            f"side; parts are sized to {floor:g} mm",
+            measured=_mm(process.min_wall),
+            limit=f"{_mm(floor)} (2 x nozzle)",
+            advice=f"set {Change('process', '', 'min_wall', floor)}, or leave it out",
+            changes=(Change("process", "", "min_wall", floor),),
+        )
+    ]
 
 
 def _web_and_rim(
-    design: Design, wheel: Wheel, spec: ToothSpec, bores: Mapping[str, float] | None
+    wheel: Wheel, spec: ToothSpec, bore: float
 ) -> tuple[float | None, float | None]:
     root = spec.module * (spec.teeth / 2 + spec.shift - spec.dedendum)
     if wheel.spokes:
         return None, wheel.rim
-    bore = _bore(design, wheel, bores)
-    if bore is None:
-        return None, None
-    return root - bore / 2, None
+    return root - seat_extent(wheel.seat, bore), None

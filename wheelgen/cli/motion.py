@@ -149,6 +149,16 @@ def _plot(
     plt.close(fig)
 
 
+def _rest_angles(design: Design) -> dict[str, float]:
+    """Each wheel's angle at rest (degrees), as the assembly and the report place it."""
+    from ..layout.phasing import rest_angles
+
+    try:
+        return dict(rest_angles(design).angles_deg)
+    except ValueError:  # a layout that cannot be made: 'wheelgen check' says why
+        return {}
+
+
 @click.command("motion")
 @click.argument("design", type=click.Path(dir_okay=False), required=False)
 @click.option(
@@ -194,8 +204,10 @@ def motion_command(
 ) -> None:
     """Uneven motion of DESIGN: each arbor's largest lead and lag against uniform motion.
 
-    Angles are degrees from rest (every coupling's pin and slot on its offset line at
-    time 0), counter-clockwise seen from the front; a lead is ahead in the arbor's own
+    Angles are degrees from rest, counter-clockwise seen from the front: the rest
+    position is that of step/assembly.step and of the report's animated preview (every
+    coupling's pin and slot on its offset line, every carrier at 0, each wheel at its
+    angle in the assembly, listed in the output); a lead is ahead in the arbor's own
     sense of turning. Exit status: 0 done, 1 the motion cannot be followed (a coupling
     check fails, or the arbor is not driven), 2 unusable input.
     """
@@ -214,6 +226,7 @@ def motion_command(
             f'arbor "{arbor}" is not driven: its motion is not determined',
             EXIT_FINDINGS,
         )
+    rest = _rest_angles(d)
     span_s, how = _span(d, model, arbor, turns)
     uneven = [a for a in model.uneven() if arbor is None or a == arbor]
     rows = _extremes(d, model, uneven, span_s)
@@ -241,11 +254,23 @@ def motion_command(
                 "arbors": rows,
                 "csv": csv_path,
                 "plot": plot_path,
+                "rest_angles_deg": rest,
             }
         )
         sys.exit(EXIT_OK)
     click.echo(f"{d.title}  ({d.source})")
     click.echo(f"followed from rest for {format_period(Fraction(span_s))} ({how})")
+    if rest:
+        click.echo(
+            "rest: every pin on its coupling's offset line, every carrier at 0 deg, "
+            "each wheel at its angle in step/assembly.step: "
+            + ", ".join(f"{w} {a:.4f}" for w, a in rest.items() if a != 0.0)
+            + (
+                " deg, the others at 0"
+                if any(a != 0.0 for a in rest.values())
+                else "all at 0 deg"
+            )
+        )
     if not rows:
         which = f'arbor "{arbor}"' if arbor is not None else "no arbor"
         click.echo(

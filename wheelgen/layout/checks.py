@@ -7,12 +7,14 @@
 from __future__ import annotations
 
 import math
+from dataclasses import replace
 from typing import Any
 
 from ..checks.findings import Change, Finding
 from ..design.model import Design
 from ..design.process_limits import centre_tolerance
 from ..teeth.limits import short_of
+from ..teeth.mesh_data import shift_for_centre_distance
 from .carrier_holes import carrier_hole_problems
 from .centres import MeshCentres, Move, centres_fit, mesh_centres, move_for
 from .collisions import Clash, PinClash, find_clashes, find_pin_clashes
@@ -241,6 +243,13 @@ def _centre_findings(layout: Layout) -> list[Finding]:
     for mc in off:
         if mc.mesh.index in moved:
             continue
+        changes = _shift_to_fit(design, mc)
+        fix = (
+            f"set {changes[0]}: the pair then works where the arbors stand"
+            if changes
+            else "change the shifts or the tooth counts so that the pair works where "
+            "the arbors stand"
+        )
         out.append(
             Finding(
                 "error",
@@ -249,12 +258,29 @@ def _centre_findings(layout: Layout) -> list[Finding]:
                 _mesh_words(mc),
                 f"{mc.measured:.4f} mm ({mc.error:+.4f} mm)",
                 limit,
-                "no single bearing or 'at' closes this train: place the arbors "
-                f"{mc.wanted:.4f} mm apart, or change the shifts or tooth counts so "
-                f"the pair works at {mc.measured:.4f} mm",
+                f"no single bearing or 'at' closes this train; {fix}",
+                changes=changes,
             )
         )
     return out
+
+
+def _shift_to_fit(design: Design, mc: MeshCentres) -> tuple[Change, ...]:
+    """The shift of the mesh's second wheel that makes it work at the measured distance
+    (involute teeth; ISO 21771 shift sum for a centre distance), if the format allows it."""
+    w1, w2 = (design.wheel(n) for n in mc.mesh.pair)
+    if w1.form != "involute" or w2.form != "involute":
+        return ()
+    try:
+        total = shift_for_centre_distance(
+            w1.teeth, w2.teeth, w1.module, mc.measured, w1.pressure_angle_deg
+        )
+    except ValueError:
+        return ()
+    shift = round(total - w1.shift, 4)
+    if not -1.0 <= shift <= 2.0:
+        return ()
+    return (Change("wheel", w2.name, "shift", shift),)
 
 
 def _loop_finding(layout: Layout, mm: LoopMismatch) -> Finding | None:
@@ -408,13 +434,23 @@ def _face_findings(design: Design) -> list[Finding]:
 
 
 def _plate_findings(design: Design) -> list[Finding]:
+    """``layout.outside_plates``: wheels beyond the plates' inner faces.
+
+    When several wheels are out, the plates are the cause (given in the wrong unit,
+    say): one finding about ``[frame] plates`` with the wheels under it.
+    """
     if design.frame is None:
         return []
     back, front = design.frame.plates
     out = []
+    lows, highs = [], []
     for w in design.wheels:
         z0, z1 = wheel_extent(design, w.name)
+        lows.append(z0)
+        highs.append(z1)
         if z0 < back - 1e-9 or z1 > front + 1e-9:
+            height = back if z0 < back - 1e-9 else front - (z1 - z0)
+            change = Change("wheel", w.name, "height", height)
             out.append(
                 Finding(
                     "error",
@@ -424,10 +460,30 @@ def _plate_findings(design: Design) -> list[Finding]:
                     f" plates' inner faces at {back:g} and {front:g} mm",
                     f"{z0:g} to {z1:g} mm",
                     f"{back:g} to {front:g} mm",
-                    "change its height (or the frame's plates)",
+                    f"set {change} (or move the frame's plates)",
+                    changes=(change,),
                 )
             )
-    return out
+    if len(out) < 2:
+        return out
+    # room for every wheel, the back plate where it was if it can stay, and a whole
+    # millimetre to spare in front (common practice, no source)
+    new = (min(back, min(lows)), float(math.ceil(max(highs)) + 1))
+    change = Change("frame", "", "plates", new)
+    cause = Finding(
+        "error",
+        "layout.outside_plates",
+        "[frame] plates",
+        f"{len(out)} of {len(design.wheels)} wheels lie outside the plates, whose "
+        f"inner faces are at {back:g} and {front:g} mm (heights are in mm); the "
+        f"wheels span {min(lows):g} to {max(highs):g} mm",
+        f"{back:g} to {front:g} mm",
+        f"{min(lows):g} to {max(highs):g} mm",
+        f"set {change}",
+        changes=(change,),
+        consequences=tuple(replace(f, changes=(), advice="") for f in out),
+    )
+    return [cause]
 
 
 def _bore_findings(layout: Layout) -> list[Finding]:

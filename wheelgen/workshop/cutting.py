@@ -28,6 +28,7 @@ __all__ = [
     "indexing_text",
     "cutting_csv",
     "cutting_sheet_writer",
+    "holes_text",
 ]
 
 #: File name of the cutting sheet inside the build output.
@@ -43,7 +44,10 @@ class CuttingRow:
     involute form-cutter number, diametral-pitch set numbering (None for other forms
     and below 12 teeth), ``cutter_range`` its tooth range in words;
     ``span_teeth``/``span_width`` and ``pin_diameter``/``over_pins`` are None where
-    the gear data gives no such measurement (triangular teeth).
+    the gear data gives no such measurement (triangular teeth). ``bore`` is the seat
+    hole (diameter, or across flats) and ``bore_fit`` what sets it; ``holes`` are the
+    running bores ``(x, y, diameter)`` of the arbors the wheel carries, in the wheel's
+    own frame (x towards the middle of a tooth).
     """
 
     wheel: str
@@ -63,6 +67,9 @@ class CuttingRow:
     pin_diameter: float | None
     over_pins: float | None
     warnings: tuple[str, ...] = ()
+    bore: float = 0.0
+    bore_fit: str = ""
+    holes: tuple[tuple[float, float, float], ...] = ()
 
 
 #: CSV header, in column order; units are in the names.
@@ -82,6 +89,9 @@ CUTTING_COLUMNS: tuple[str, ...] = (
     "span_width_mm",
     "pin_diameter_mm",
     "over_pins_mm",
+    "bore_mm",
+    "bore_fit",
+    "arbor_holes_mm",
     "notes",
 )
 
@@ -117,6 +127,9 @@ def cutting_rows(parts: Sequence[Any]) -> tuple[CuttingRow, ...]:
                 pin_diameter=data.pin_diameter,
                 over_pins=data.over_pins,
                 warnings=tuple(data.warnings) + _cutter_notes(spec, data.cutter_number),
+                bore=part.bore,
+                bore_fit=part.bore_fit,
+                holes=part.holes,
             )
         )
     return tuple(rows)
@@ -184,8 +197,16 @@ def _csv_row(row: CuttingRow) -> list[str]:
         _num(row.span_width),
         _num(row.pin_diameter, 3),
         _num(row.over_pins),
+        _num(row.bore, 3),
+        row.bore_fit,
+        holes_text(row.holes),
         "; ".join(row.warnings),
     ]
+
+
+def holes_text(holes: Sequence[tuple[float, float, float]]) -> str:
+    """``"2.005 at (30.771, -1.343)"`` for each hole (mm), joined by ``"; "``."""
+    return "; ".join(f"{d:.3f} at ({x:.3f}, {y:.3f})" for x, y, d in holes)
 
 
 def cutting_csv(rows: Sequence[CuttingRow]) -> str:

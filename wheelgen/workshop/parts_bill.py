@@ -64,6 +64,7 @@ class BillRow:
     length: float
     volume: float
     note: str = ""
+    bore: float | None = None
 
     @property
     def stock_text(self) -> str:
@@ -87,6 +88,7 @@ PARTS_COLUMNS: tuple[str, ...] = (
     "overall_diameter_mm",
     "overall_length_mm",
     "volume_mm3",
+    "bore_mm",
     "note",
 )
 
@@ -125,6 +127,10 @@ def _wheel_row(part: WheelPart) -> BillRow:
         notes.append(f"pin boss {part.pin.diameter:g} x {part.pin.length:g} mm")
     if part.spokes:
         notes.append(f"{part.spokes} spokes")
+    if part.bore_fit:
+        notes.append(f"bore {part.bore_fit}")
+    for x, y, d in part.holes:
+        notes.append(f"bore {d:.3f} mm at ({x:.3f}, {y:.3f}) for a carried arbor")
     return BillRow(
         part=part.name,
         kind="wheel",
@@ -137,6 +143,7 @@ def _wheel_row(part: WheelPart) -> BillRow:
         length=length,
         volume=volume,
         note="; ".join(notes),
+        bore=part.bore,
     )
 
 
@@ -173,6 +180,7 @@ def _sleeve_row(design: Any, part: SleevePart) -> BillRow:
         length=part.length,
         volume=volume,
         note=note,
+        bore=part.inside,
     )
 
 
@@ -228,6 +236,7 @@ def parts_csv(rows: Sequence[BillRow]) -> str:
                 _num(r.diameter),
                 _num(r.length),
                 _num(r.volume, 1),
+                _num(r.bore),
                 r.note,
             ]
         )

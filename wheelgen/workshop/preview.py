@@ -147,14 +147,23 @@ def _rotation(
 
 
 def preview_svg(
-    design: Design, positions: Mapping[str, tuple[float, float]], plan: PreviewPlan
+    design: Design,
+    positions: Mapping[str, tuple[float, float]],
+    plan: PreviewPlan,
+    rest_deg: Mapping[str, float] | None = None,
 ) -> str:
     """The animated preview as one ``<svg>`` element (text).
 
     Every turning arbor has a pointer reaching to 0.9 of its largest pitch circle and
-    a mark on each of its wheels; a carried arbor goes round with its carrier; a
-    coupling's pin rides in its slot.
+    a mark on each of its wheels, on the middle of one tooth; a carried arbor goes
+    round with its carrier; a coupling's pin rides in its slot. The loop starts from
+    the rest position of the assembly: each wheel at its angle at rest (``rest_deg``,
+    by wheel; by default :func:`wheelgen.layout.phasing.rest_angles`), every carrier
+    at 0 and every pin on its coupling's offset line.
     """
+    from ..layout.phasing import rest_angles
+
+    rest = rest_angles(design).angles_deg if rest_deg is None else rest_deg
     centres = axis_centres(design, positions)
     ext = drawing_extent(design, centres)
     fs = label_size(ext)
@@ -173,9 +182,12 @@ def preview_svg(
         c = cols[arbor]
         for w in wheels:
             r = w.pitch_diameter / 2
+            a = math.radians(rest.get(w.name, 0.0))
+            ca, sa = math.cos(a), math.sin(a)
             items.append(
-                f'<line x1="{fmt(cx + 0.8 * r)}" y1="{fmt(-cy)}" x2="{fmt(cx + r)}" '
-                f'y2="{fmt(-cy)}" stroke="{c}" stroke-width="{fmt(fs / 5)}"/>'
+                f'<line x1="{fmt(cx + 0.8 * r * ca)}" y1="{fmt(-(cy + 0.8 * r * sa))}" '
+                f'x2="{fmt(cx + r * ca)}" y2="{fmt(-(cy + r * sa))}" stroke="{c}" '
+                f'stroke-width="{fmt(fs / 5)}"/>'
             )
         for p in design.pinslots:
             b = math.radians(p.bearing_deg)
