@@ -584,17 +584,16 @@ def _simulation_findings(
         changes = _backlash_changes(spec1, spec2, names, overlap, frees)
         advice = _set_text(
             changes,
-            f"the outlines overlap by {_mm(overlap)} on the driven pitch circle, more "
-            "than thinner teeth can take: the arbors are too close for these teeth; "
-            "move them apart or shorten the teeth ('addendum')",
+            "more than thinner teeth can take: the arbors are too close for these "
+            "teeth; move them apart or shorten the teeth ('addendum')",
         )
         out.append(
             Finding(
                 "error",
                 "mesh.jam",
                 subject,
-                f"{subject}: turned through a tooth pitch, the outlines overlap: "
-                "the pair jams",
+                f"{subject}: turned through a tooth pitch, the outlines overlap by "
+                f"{_mm(overlap)} on the driven pitch circle: the pair jams",
                 measured=f"play {sim.min_play_deg:.4f} deg at the driven wheel",
                 limit="0 deg",
                 advice=advice,

@@ -257,6 +257,7 @@ def check_process(
             )
         if face_width is not None:
             need = process.min_layers * process.layer
+            layers = Change("wheel", subject.split()[-1], "face_width", need)
             if short_of(face_width, need):
                 out.append(
                     Finding(
@@ -267,10 +268,8 @@ def check_process(
                         "layers thick",
                         measured=f"face width {_mm(face_width)}",
                         limit=f"{process.min_layers} layers of {process.layer:g} mm",
-                        advice=f"set face_width = {need:g} on {subject.split()[-1]}",
-                        changes=(
-                            Change("wheel", subject.split()[-1], "face_width", need),
-                        ),
+                        advice=f"set {layers}",
+                        changes=(layers,),
                     )
                 )
     else:
