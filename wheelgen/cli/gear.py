@@ -8,11 +8,12 @@ from typing import Any
 
 import click
 
+from ..checks.mesh_checks import check_mesh, check_wheel
 from ..design.loader import ROOT_RADIUS_BY_FORM
 from ..teeth.drawing import outline_svg
 from ..teeth.gear_data import GearData, gear_data
 from ..teeth.mesh_data import MeshData, mesh_data
-from ..teeth.spec import ToothSpec, outline_for
+from ..teeth.spec import ToothSpec, outline_for, thinning_for
 from ._common import EXIT_OK, echo_json, fail
 
 __all__ = ["gear_command"]
@@ -117,7 +118,6 @@ def _mesh_lines(mesh: MeshData) -> list[str]:
             f"{'TIP INTERFERENCE' if i else 'no tip interference'}"
         )
     lines += [f"  {v}" for v in verdict]
-    lines += [f"  warning: {w}" for w in mesh.warnings]
     return lines
 
 
@@ -178,7 +178,8 @@ def _clean(values: dict[str, Any]) -> dict[str, Any]:
     type=float,
     default=0.0,
     show_default=True,
-    help="Backlash allowance, mm on the reference circle, split between the wheels.",
+    help="Backlash each wheel asks of its meshes, mm (as the train file's "
+    "'backlash'): half of it comes off each wheel's teeth.",
 )
 @click.option("--pin", "pin", type=float, default=None, help="Pin diameter, mm.")
 @click.option("--mate", type=int, default=None, help="Teeth of the mating wheel.")
@@ -221,7 +222,8 @@ def _gear(
     """
     if backlash < 0:
         fail(f"'--backlash' must be >= 0 mm, got {backlash}")
-    thinning = backlash / 2 if mate is not None else backlash
+    # as in a train file: each wheel gives half the play it asks of its meshes
+    thinning = thinning_for(backlash)
     if root_radius is None:
         root_radius = ROOT_RADIUS_BY_FORM[form]
     common: dict[str, Any] = {
@@ -239,10 +241,20 @@ def _gear(
         spec = ToothSpec(teeth=teeth, shift=shift, **common)
         data = gear_data(spec, pin_diameter=pin)
         mate_data = mesh = None
+        # the verdicts are the checks' own, so 'gear' and 'check' always agree
+        verdicts = check_wheel(spec, "wheel")
         if mate is not None:
             mate_spec = ToothSpec(teeth=mate, shift=mate_shift, **common)
             mate_data = gear_data(mate_spec, pin_diameter=pin)
             mesh = mesh_data(spec, mate_spec, centre_distance)
+            verdicts += check_wheel(mate_spec, "mate")
+            verdicts += check_mesh(
+                spec,
+                mate_spec,
+                "mesh",
+                centre_distance=centre_distance,
+                names=("wheel", "mate"),
+            )
         elif centre_distance is not None:
             fail("'--centre-distance' needs '--mate'")
         svg_text = None
@@ -269,11 +281,15 @@ def _gear(
             out["mate"] = _clean(mate_data.as_dict())
         if svg_path is not None:
             out["svg"] = svg_path
+        out["findings"] = [f.as_dict() for f in verdicts]
         echo_json(out)
         raise SystemExit(EXIT_OK)
     lines = _sheet(data, "wheel")
     if mesh is not None and mate_data is not None:
         lines += [""] + _sheet(mate_data, "mate") + [""] + _mesh_lines(mesh)
+    # the wheels' verdicts are on their sheets; the pair's as 'check' gives them
+    pair = [f for f in verdicts if f.subject == "mesh"]
+    lines += [f"  {f.level}: {f.message.removeprefix('mesh: ')}" for f in pair]
     if svg_path is not None:
         lines += ["", f"1:1 drawing written to {svg_path}"]
     click.echo("\n".join(lines))

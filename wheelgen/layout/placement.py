@@ -22,7 +22,7 @@ from typing import Literal
 from ..design.model import Design, Mesh, Wheel
 from ..kinematics.rates import axis_root
 from ..teeth.mesh_data import mesh_data
-from ..teeth.spec import ToothSpec
+from ..teeth.spec import ToothSpec, thinning_for
 
 __all__ = [
     "LOOP_TOLERANCE",
@@ -56,7 +56,7 @@ def tooth_spec(wheel: Wheel) -> ToothSpec:
         dedendum=wheel.dedendum,
         root_radius=wheel.root_radius,
         tip_radius=wheel.tip_radius,
-        thinning=wheel.backlash / 2.0,
+        thinning=thinning_for(wheel.backlash),
     )
 
 

@@ -11,7 +11,7 @@ from dataclasses import dataclass
 
 from .outline import WheelOutline
 
-__all__ = ["FORMS", "ToothSpec", "outline_for"]
+__all__ = ["FORMS", "ToothSpec", "outline_for", "thinning_for"]
 
 #: Tooth forms we can generate.
 FORMS: tuple[str, ...] = ("involute", "triangular")
@@ -79,6 +79,12 @@ class ToothSpec:
     def reference_diameter(self) -> float:
         """Reference (pitch) diameter m z in mm."""
         return self.module * self.teeth
+
+
+def thinning_for(backlash: float) -> float:
+    """Tooth thickness (mm) taken off one wheel for the ``backlash`` (mm) it asks of its
+    meshes: half of it, so that two wheels asking the same mesh with that much play."""
+    return backlash / 2.0
 
 
 def outline_for(spec: ToothSpec) -> WheelOutline:
