@@ -122,7 +122,7 @@ def test_differential_127_three_plate():
     assert plan.gears is not None
     assert plan.gears.ratio == Fraction(-7, 3), DERIVED_127
     assert plan.gears.order == (56, 24), DERIVED_127
-    assert plan.sense == "against", DERIVED_127
+    assert plan.sense == "opposite", DERIVED_127
     # MH-DIFF (from memory): simple train, plate against the crank -> 2 idlers
     assert plan.gears.idlers == 2
 
@@ -144,7 +144,7 @@ def test_differential_127_compound_when_no_simple_train():
     assert (plan.approx_count, plan.holes, plan.circle) == (128, 5, 16), DERIVED_127
     assert plan.gears is not None and plan.gears.compound
     assert plan.gears.ratio == Fraction(5, 16), DERIVED_127
-    assert plan.sense == "with"
+    assert plan.sense == "same"
     # MH-DIFF (from memory): compound train, plate with the crank -> no idler
     assert plan.gears.idlers == 0
 
@@ -200,7 +200,7 @@ def _prove(plan: IndexPlan, plates: tuple[int, ...], owned: tuple[int, ...]) -> 
         g *= t
     for t in train.driven:
         g /= t
-    g = g if train.sense == "with" else -g
+    g = g if train.sense == "same" else -g
     # x = c - g * c / ratio  =>  c = x * ratio / (ratio - g)
     c = x * ratio / (ratio - g)
     s = c / ratio
@@ -208,7 +208,7 @@ def _prove(plan: IndexPlan, plates: tuple[int, ...], owned: tuple[int, ...]) -> 
     # the crank is set exactly as for the near count
     assert plan.approx_count is not None and x == Fraction(ratio, plan.approx_count)
     # MH-DIFF (from memory): A > N -> plate with the crank
-    assert (train.sense == "with") == (plan.approx_count > n)
+    assert (train.sense == "same") == (plan.approx_count > n)
 
 
 @pytest.mark.parametrize("plates", [THREE_PLATE, TWO_SIDED], ids=["three", "two"])

@@ -26,10 +26,10 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
-from typing import Literal
 
 import numpy as np
 
+from ..design.model import Sense
 from ..teeth.outline import WheelOutline
 
 __all__ = ["MeshSimulation", "ToothTable", "tooth_table", "simulate_mesh"]
@@ -279,7 +279,7 @@ def simulate_mesh(
     steps: int = 240,
     pitches: float = 1.0,
     chord_tol: float | None = None,
-    sense: Literal["ccw", "cw"] = "ccw",
+    sense: Sense = "ccw",
 ) -> MeshSimulation:
     """Turn ``driver`` through ``pitches`` tooth pitches and follow ``driven``.
 

@@ -200,7 +200,7 @@ def check_process(
     for what, value in (("web", web), ("rim", rim)):
         if value is not None and short_of(value, wall):
             # below what the process can make at all it is an error
-            level: Level = (
+            too_thin: Level = (
                 "error" if value <= 0 or short_of(value, floor) else "warning"
             )
             cure = (
@@ -210,7 +210,7 @@ def check_process(
             )
             out.append(
                 Finding(
-                    level,
+                    too_thin,
                     "process.wall",
                     subject,
                     f"{subject}: the {what} below the teeth is thinner than the "

@@ -84,7 +84,7 @@ def _plan_lines(plan: IndexPlan) -> list[str]:
         )
     train = "compound" if gears.compound else "simple"
     lines.append(
-        f"Plate turns {gears.sense} the crank: {gears.idlers} "
+        f"Plate turns {gears.plate_words} the crank: {gears.idlers} "
         f"idler{'s' if gears.idlers != 1 else ''} in the {train} train on a typical "
         "head (from memory; if the plate turns the other way, add or remove one idler)."
     )

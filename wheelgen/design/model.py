@@ -28,13 +28,18 @@ __all__ = [
     "Form",
     "Seat",
     "Sense",
+    "RelativeSense",
     "axis_root_of",
 ]
 
 ProcessKind = Literal["print", "mill", "hand"]
 Form = Literal["involute", "triangular"]
 Seat = Literal["round", "square", "hex", "pinned"]
+#: Sense of rotation seen from the front: the one word for it in every layer.
 Sense = Literal["cw", "ccw"]
+#: How one member turns relative to another (an output and its input, an index plate
+#: and its crank): the one word for that.
+RelativeSense = Literal["same", "opposite"]
 
 
 @dataclass(frozen=True, slots=True)
@@ -196,7 +201,7 @@ class Target:
     turns: Fraction | None = None
     tolerance_ppm: float | None = None
     tolerance_s: Fraction | None = None
-    sense: Literal["cw", "ccw", "either"] = "either"
+    sense: Sense | Literal["either"] = "either"
     index: int = 0
     where: Where | None = field(default=None, compare=False, repr=False)
 

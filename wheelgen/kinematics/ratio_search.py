@@ -110,6 +110,7 @@ from typing import Literal
 import numpy as np
 
 from ..design.loader import MAX_TEETH
+from ..design.model import RelativeSense
 from .continued_fraction import prime_factors, simplest_between
 
 __all__ = [
@@ -195,7 +196,9 @@ _CHUNK = 4_000_000
 # pairs gathered at once by the pair search (about 100 MB of index arrays)
 _PAIR_CHUNK = 2_000_000
 
-Sense = Literal["same", "opposite", "either"]
+#: The output's sense relative to the input that a search asks for: the train model's
+#: relative sense, or either.
+Sense = RelativeSense | Literal["either"]
 #: Tooth counts of a stage: an inclusive range ``(min, max)`` or a set of counts.
 Teeth = tuple[int, int] | frozenset[int]
 

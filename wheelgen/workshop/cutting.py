@@ -172,7 +172,7 @@ def indexing_text(plan: IndexPlan) -> str:
     gears = "-".join(str(g) for g in plan.gears.order)
     return (
         f"differential {setting} as for {plan.approx_count} ({plan.ratio}:1), "
-        f"gears {gears}, plate {plan.gears.sense} crank, {plan.gears.idlers} idler(s)"
+        f"gears {gears}, plate {plan.gears.plate_words} crank, {plan.gears.idlers} idler(s)"
     )
 
 

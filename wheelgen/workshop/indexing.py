@@ -25,6 +25,7 @@ from functools import lru_cache
 from itertools import permutations
 from typing import Any, Iterable, Literal
 
+from ..design.model import RelativeSense
 from .plates import CHANGE_GEARS, THREE_PLATE
 
 __all__ = [
@@ -32,7 +33,7 @@ __all__ = [
     "IndexPlan",
     "AngleSetting",
     "Method",
-    "Sense",
+    "PLATE_WORDS",
     "indexing_plan",
     "angle_setting",
     "crank_settings",
@@ -40,19 +41,20 @@ __all__ = [
 ]
 
 Method = Literal["simple", "differential", "none"]
-#: How the index plate turns relative to the crank during differential indexing.
-Sense = Literal["with", "against"]
+#: How the shop says the index plate turns relative to the crank (the relative sense
+#: ``"same"`` / ``"opposite"`` of the train model) in differential indexing.
+PLATE_WORDS: dict[RelativeSense, str] = {"same": "with", "opposite": "against"}
 
 # Idlers that give each sense on a typical head, from memory (Machinery's Handbook,
 # "Differential Indexing"): there the spindle gear meshing straight into the
 # plate-shaft gear would turn the plate against the crank, so each idler flips it.
 # A simple train needs at least one idler to bridge the centres, hence 2 (not 0) for
 # "against"; a compound train's two meshes already flip twice.
-_IDLERS: dict[tuple[bool, Sense], int] = {
-    (False, "with"): 1,
-    (False, "against"): 2,
-    (True, "with"): 0,
-    (True, "against"): 1,
+_IDLERS: dict[tuple[bool, RelativeSense], int] = {
+    (False, "same"): 1,
+    (False, "opposite"): 2,
+    (True, "same"): 0,
+    (True, "opposite"): 1,
 }
 
 # (whole turns, (hole spaces, circle) choices) and (drivers, driven) teeth
@@ -71,13 +73,19 @@ class GearTrain:
     ``drivers[0]`` sits on the spindle, ``driven[-1]`` on the shaft that turns the
     index plate (assumed 1:1 to the plate). A compound train has two of each:
     spindle ``drivers[0]`` -> stud ``driven[0]``; stud ``drivers[1]`` -> plate shaft
-    ``driven[1]``. ``idlers`` is the count that gives ``sense`` on a typical head.
+    ``driven[1]``. ``sense`` is the plate's relative to the crank (``"same"``: the
+    plate turns with it); ``idlers`` is the count that gives it on a typical head.
     """
 
     drivers: tuple[int, ...]
     driven: tuple[int, ...]
-    sense: Sense
+    sense: RelativeSense
     idlers: int
+
+    @property
+    def plate_words(self) -> str:
+        """``"with"`` or ``"against"``: the plate's turn relative to the crank."""
+        return PLATE_WORDS[self.sense]
 
     @property
     def compound(self) -> bool:
@@ -91,7 +99,7 @@ class GearTrain:
             value *= teeth
         for teeth in self.driven:
             value /= teeth
-        return value if self.sense == "with" else -value
+        return value if self.sense == "same" else -value
 
     @property
     def order(self) -> tuple[int, ...]:
@@ -133,7 +141,7 @@ class IndexPlan:
     suggested_gear: int | None = None
 
     @property
-    def sense(self) -> Sense | None:
+    def sense(self) -> RelativeSense | None:
         return None if self.gears is None else self.gears.sense
 
     def as_dict(self) -> dict[str, Any]:
@@ -152,7 +160,7 @@ class IndexPlan:
             "gears": None if gears is None else list(gears.order),
             "train": None if gears is None else _train_name(gears),
             "gear_ratio": None if gears is None else str(gears.ratio),
-            "sense": self.sense,
+            "sense": None if gears is None else gears.plate_words,
             "idlers": None if gears is None else gears.idlers,
             "suggestion": self.suggestion or None,
             "suggested_circle": self.suggested_circle,
@@ -393,7 +401,7 @@ def indexing_plan(
         if train is None:
             continue
         drivers, driven = train
-        sense: Sense = "with" if gear_ratio > 0 else "against"
+        sense: RelativeSense = "same" if gear_ratio > 0 else "opposite"
         idlers = _IDLERS[(len(drivers) == 2, sense)]
         holes, circle = choices[0] if choices else (0, None)
         key = (len(drivers), abs(count - teeth), holes, idlers, circle or 0, count)
