@@ -8,7 +8,8 @@ The train's relations are linear in the arbors' angles, just as in
 where ``delta_k`` is the coupling's deviation (see :mod:`.pinslot_motion`), a nonlinear
 function of the driving wheel's angle relative to the frame that holds both axes. We
 solve the linear system exactly over the rationals with the drive's angle ``T`` and each
-``delta_k`` as symbols on the right-hand side, so every arbor's angle is
+``delta_k`` as symbols on the right-hand side (:mod:`.linear`, the same exact solver
+as the rates'), so every arbor's angle is
 
     theta_a = rate_a * T + sum_k c_ak * delta_k          (rate_a, c_ak exact Fractions).
 
@@ -32,6 +33,7 @@ import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
 from ..design.model import Design, PinSlot
+from .linear import ExactSystem, Row, minus
 from .pinslot_motion import (
     check_offset,
     deviation_from_pin_deg,
@@ -98,27 +100,18 @@ class AngleModel:
 
 
 @dataclass
-class _Row:
+class _Equation:
     coeffs: dict[str, Fraction]  # over arbors
     rhs: dict[str, Fraction]  # over symbols: the drive angle and the deviations
     label: str
 
 
-def _sub(
-    a: dict[str, Fraction], b: dict[str, Fraction], c: Fraction
-) -> dict[str, Fraction]:
-    out = dict(a)
-    for k, v in b.items():
-        out[k] = out.get(k, Fraction(0)) - c * v
-    return {k: v for k, v in out.items() if v != 0}
-
-
-def _equations(design: Design) -> list[_Row]:
+def _equations(design: Design) -> list[_Equation]:
     one = Fraction(1)
-    rows = [_Row({design.drive.arbor: one}, {_DRIVE: one}, "the drive")]
+    rows = [_Equation({design.drive.arbor: one}, {_DRIVE: one}, "the drive")]
     for a in design.arbors:
         if a.fixed:
-            rows.append(_Row({a.name: one}, {}, f'fixed arbor "{a.name}"'))
+            rows.append(_Equation({a.name: one}, {}, f'fixed arbor "{a.name}"'))
     for m in design.meshes:
         wa, wb = design.wheel(m.pair[0]), design.wheel(m.pair[1])
         ok, frame = mesh_frame(design, wa.arbor, wb.arbor)
@@ -131,46 +124,25 @@ def _equations(design: Design) -> list[_Row]:
             coeffs[arbor] = coeffs.get(arbor, Fraction(0)) + z
         if frame is not None:
             coeffs[frame] = coeffs.get(frame, Fraction(0)) - (wa.teeth + wb.teeth)
-        rows.append(_Row({k: v for k, v in coeffs.items() if v}, {}, m.label))
+        rows.append(_Equation({k: v for k, v in coeffs.items() if v}, {}, m.label))
     for p in design.pinslots:
         pa, sa = design.wheel(p.pin).arbor, design.wheel(p.slot).arbor
         rows.append(
-            _Row({sa: one, pa: -one}, {p.name: one}, f'pin-and-slot "{p.name}"')
+            _Equation({sa: one, pa: -one}, {p.name: one}, f'pin-and-slot "{p.name}"')
         )
     return rows
 
 
-def _solve(design: Design) -> dict[str, _Row]:
-    """Reduced row echelon form, one row per pivot arbor (exact)."""
-    rows: dict[str, _Row] = {}
-    for eq in _equations(design):
-        coeffs, rhs = dict(eq.coeffs), dict(eq.rhs)
-        for pivot, row in rows.items():
-            c = coeffs.get(pivot)
-            if c:
-                coeffs = _sub(coeffs, row.coeffs, c)
-                rhs = _sub(rhs, row.rhs, c)
-        if not coeffs:
-            if rhs:
-                raise ValueError(
-                    f"{eq.label} contradicts the rest of the train: its angles cannot "
-                    "all be met, so the train locks (see 'wheelgen check')"
-                )
-            continue
-        pivot = min(coeffs)  # deterministic choice
-        scale = coeffs[pivot]
-        new = _Row(
-            {k: v / scale for k, v in coeffs.items()},
-            {k: v / scale for k, v in rhs.items()},
-            eq.label,
-        )
-        for other in rows.values():
-            c = other.coeffs.get(pivot)
-            if c:
-                other.coeffs = _sub(other.coeffs, new.coeffs, c)
-                other.rhs = _sub(other.rhs, new.rhs, c)
-        rows[pivot] = new
-    return rows
+def _solve(design: Design) -> dict[str, Row]:
+    """Reduced row echelon form, one row per pivot arbor (exact, :mod:`.linear`)."""
+    system = ExactSystem()
+    for i, eq in enumerate(_equations(design)):
+        if system.add(eq.coeffs, eq.rhs, i) is not None:
+            raise ValueError(
+                f"{eq.label} contradicts the rest of the train: its angles cannot "
+                "all be met, so the train locks (see 'wheelgen check')"
+            )
+    return system.rows
 
 
 def angle_model(design: Design) -> AngleModel:
@@ -220,7 +192,7 @@ def angle_model(design: Design) -> AngleModel:
                 f'pin-and-slot "{p.name}": neither wheel is driven independently of '
                 "the coupling itself; cannot follow its motion"
             )
-        depends = _sub(side[1], f[1], Fraction(1))
+        depends = minus(side[1], f[1], Fraction(1))
         pending.append(
             CouplingPlan(p, driver, frame, side[0] - f[0], tuple(depends.items()))
         )

@@ -14,8 +14,9 @@ positive when the drive turns counter-clockwise) of every arbor. Equations:
   carrier's own axis or with another arbor on the same carrier;
 - a pin-and-slot coupling passes the mean rate on: ``w_pin = w_slot``.
 
-Elimination keeps, for every reduced row, the set of equations it came from, so a
-contradiction (a locked train) names the paths that disagree.
+Elimination (:mod:`.linear`, the one exact solver) keeps, for every reduced row, the
+set of equations it came from, so a contradiction (a locked train) names the paths
+that disagree.
 """
 
 from __future__ import annotations
@@ -24,6 +25,7 @@ from dataclasses import dataclass
 from fractions import Fraction
 
 from ..design.model import Design
+from .linear import ExactSystem, Row
 
 __all__ = [
     "Equation",
@@ -146,37 +148,27 @@ def _equations(design: Design) -> tuple[list[Equation], list[str]]:
     return eqs, bad
 
 
-@dataclass
-class _Row:
-    coeffs: dict[str, Fraction]
-    rhs: Fraction
-    sources: frozenset[int]
+_ONE = "1"  # the rates' one symbol: the constant
 
 
-def _reduce(
-    rows: dict[str, _Row],
-    coeffs: dict[str, Fraction],
-    rhs: Fraction,
-    sources: frozenset[int],
-) -> _Row:
-    coeffs = dict(coeffs)
-    for pivot, row in rows.items():
-        c = coeffs.get(pivot)
-        if c:
-            for k, v in row.coeffs.items():
-                coeffs[k] = coeffs.get(k, Fraction(0)) - c * v
-            rhs -= c * row.rhs
-            sources = sources | row.sources
-    return _Row({k: v for k, v in coeffs.items() if v != 0}, rhs, sources)
+def _system(eqs: list[Equation], use: list[int]) -> tuple[ExactSystem, list[Row]]:
+    """The equations ``use`` in one system; the rows that contradict it."""
+    system = ExactSystem()
+    bad = []
+    for i in use:
+        eq = eqs[i]
+        row = system.add(dict(eq.coeffs), {_ONE: eq.rhs}, i)
+        if row is not None:
+            bad.append(row)
+    return system, bad
 
 
 def _solve_subset(eqs: list[Equation], use: set[int]) -> dict[str, Fraction] | None:
     """Rates fixed by the equations ``use`` alone; ``None`` if they contradict."""
-    rows: dict[str, _Row] = {}
-    for i in sorted(use):
-        if _add(rows, eqs[i], i) is not None:
-            return None
-    return {p: r.rhs for p, r in rows.items() if len(r.coeffs) == 1}
+    system, bad = _system(eqs, sorted(use))
+    if bad:
+        return None
+    return {p: rhs.get(_ONE, Fraction(0)) for p, rhs in system.solved().items()}
 
 
 def _rate_from(eqs: list[Equation], use: set[int], arbor: str) -> Fraction | None:
@@ -195,41 +187,18 @@ def _shortest(
     return path
 
 
-def _add(rows: dict[str, _Row], eq: Equation, index: int) -> _Row | None:
-    """Add one equation in reduced form; return the contradicting row, if any."""
-    row = _reduce(rows, dict(eq.coeffs), eq.rhs, frozenset({index}))
-    if not row.coeffs:
-        return row if row.rhs != 0 else None
-    pivot = min(row.coeffs)  # deterministic choice
-    scale = row.coeffs[pivot]
-    row = _Row(
-        {k: v / scale for k, v in row.coeffs.items()}, row.rhs / scale, row.sources
-    )
-    for other in rows.values():
-        c = other.coeffs.get(pivot)
-        if c:
-            for k, v in row.coeffs.items():
-                other.coeffs[k] = other.coeffs.get(k, Fraction(0)) - c * v
-            other.coeffs = {k: v for k, v in other.coeffs.items() if v != 0}
-            other.rhs -= c * row.rhs
-            other.sources = other.sources | row.sources
-    rows[pivot] = row
-    return None
-
-
 def solve_rates(design: Design) -> TrainSolution:
     """Solve the whole train exactly; report locked paths and undriven arbors."""
     eqs, bad = _equations(design)
-    rows: dict[str, _Row] = {}
+    system = ExactSystem()
     conflicts: list[Conflict] = []
     for i, eq in enumerate(eqs):
-        bad_row = _add(rows, eq, i)
+        bad_row = system.add(dict(eq.coeffs), {_ONE: eq.rhs}, i)
         if bad_row is not None:
             conflicts.append(_explain(design, eqs, i, bad_row.sources - {i}))
     rates: dict[str, Fraction | None] = {a.name: None for a in design.arbors}
-    for pivot, row in rows.items():
-        if len(row.coeffs) == 1:
-            rates[pivot] = row.rhs
+    for pivot, rhs in system.solved().items():
+        rates[pivot] = rhs.get(_ONE, Fraction(0))
     undriven = tuple(a.name for a in design.arbors if rates[a.name] is None)
     return TrainSolution(rates, tuple(conflicts), undriven, tuple(bad))
 

@@ -1,0 +1,89 @@
+"""Exact Gauss-Jordan elimination over the rationals, one equation at a time.
+
+The one solver of the train's linear relations: the rates (:mod:`.rates`) and the
+angles with their pin-and-slot deviations (:mod:`.angles`) both build their systems
+here. An equation is ``sum(coeffs[x] * x) == rhs``, where the right-hand side is a
+linear form in *symbols* (``{symbol: coefficient}``): the rates use one symbol, the
+constant 1; the angles the drive's angle and each coupling's deviation. Every reduced
+row keeps the set of equations it came from, so a contradiction can name its sources.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from fractions import Fraction
+
+__all__ = ["Form", "Row", "ExactSystem", "minus"]
+
+#: A linear form: variable or symbol name -> exact coefficient (no zero entries).
+Form = dict[str, Fraction]
+
+
+def minus(a: Form, b: Form, c: Fraction) -> Form:
+    """``a - c * b`` without zero entries."""
+    out = dict(a)
+    for k, v in b.items():
+        out[k] = out.get(k, Fraction(0)) - c * v
+    return {k: v for k, v in out.items() if v != 0}
+
+
+@dataclass
+class Row:
+    """One reduced equation: ``coeffs . x == rhs``, from the equations ``sources``."""
+
+    coeffs: Form
+    rhs: Form
+    sources: frozenset[int]
+
+
+class ExactSystem:
+    """A system in reduced row echelon form, one row per pivot variable.
+
+    The pivot of a new row is its smallest variable name, so the same equations in
+    the same order always give the same rows.
+    """
+
+    def __init__(self) -> None:
+        self.rows: dict[str, Row] = {}
+
+    def reduce(self, coeffs: Form, rhs: Form, sources: frozenset[int]) -> Row:
+        """The equation with every pivot of the system eliminated from it."""
+        for pivot, row in self.rows.items():
+            c = coeffs.get(pivot)
+            if c:
+                coeffs = minus(coeffs, row.coeffs, c)
+                rhs = minus(rhs, row.rhs, c)
+                sources = sources | row.sources
+        return Row(coeffs, rhs, sources)
+
+    def add(self, coeffs: Form, rhs: Form, index: int) -> Row | None:
+        """Add equation number ``index``; return the contradicting row, if any.
+
+        An equation that the others already imply adds nothing; one that contradicts
+        them leaves a row with no variables and a right-hand side other than zero.
+        """
+        clean = {k: v for k, v in coeffs.items() if v != 0}
+        row = self.reduce(
+            clean, {k: v for k, v in rhs.items() if v != 0}, frozenset({index})
+        )
+        if not row.coeffs:
+            return row if row.rhs else None
+        pivot = min(row.coeffs)
+        scale = row.coeffs[pivot]
+        row = Row(
+            {k: v / scale for k, v in row.coeffs.items()},
+            {k: v / scale for k, v in row.rhs.items()},
+            row.sources,
+        )
+        for other in self.rows.values():
+            c = other.coeffs.get(pivot)
+            if c:
+                other.coeffs = minus(other.coeffs, row.coeffs, c)
+                other.rhs = minus(other.rhs, row.rhs, c)
+                other.sources = other.sources | row.sources
+        self.rows[pivot] = row
+        return None
+
+    def solved(self) -> dict[str, Form]:
+        """Each variable the system fixes, as a form in the symbols."""
+        return {p: r.rhs for p, r in self.rows.items() if len(r.coeffs) == 1}
