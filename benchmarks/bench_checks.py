@@ -57,9 +57,10 @@ def bench_all_checks(path: Path, runs: int = 3) -> None:
 
 
 def bench_simulator(path: Path, steps: int = 240) -> None:
-    from wheelgen.checks.mesh_checks import involute_mesh, wheel_spec
+    from wheelgen.checks.mesh_checks import involute_mesh
     from wheelgen.checks.mesh_sim import simulate_mesh
     from wheelgen.design.loader import load_design
+    from wheelgen.layout.placement import tooth_spec as wheel_spec
     from wheelgen.teeth.spec import outline_for
 
     design = load_design(path)
