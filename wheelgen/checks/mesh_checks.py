@@ -469,7 +469,11 @@ def _involute_findings(
                 "process holds; the pair may bind",
                 measured=_mm(data.backlash),
                 limit=_mm(need),
-                advice=_set_text(changes, "raise 'backlash' on both wheels"),
+                advice=_set_text(
+                    changes,
+                    "more play than thinner teeth can give: the arbors stand too "
+                    "close for these teeth; move them apart",
+                ),
                 changes=changes,
             )
         )

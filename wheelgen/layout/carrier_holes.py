@@ -19,6 +19,7 @@ import numpy as np
 
 from ..teeth.limits import short_of
 from ..teeth.spec import outline_for
+from .collisions import signed_distance
 from .parts import carried_holes, wheel_part
 from .plan import Layout
 from .wheel_profile import plate_profile, seat_extent
@@ -35,24 +36,6 @@ class HoleProblem:
     reason: str
     wall: float
     needed: float
-
-
-def _loop_distance(point: np.ndarray, loop: np.ndarray) -> float:
-    """Distance (mm) from ``point`` to a closed polyline; negative inside it."""
-    a, b = loop, np.roll(loop, -1, axis=0)
-    ab, ap = b - a, point - a
-    t = np.clip(
-        np.einsum("ij,ij->i", ap, ab)
-        / np.maximum(np.einsum("ij,ij->i", ab, ab), 1e-300),
-        0.0,
-        1.0,
-    )
-    d = float(np.min(np.hypot(*(ap - t[:, None] * ab).T)))
-    cross = (a[:, 1] > point[1]) != (b[:, 1] > point[1])
-    with np.errstate(divide="ignore", invalid="ignore"):
-        xs = a[:, 0] + (point[1] - a[:, 1]) * ab[:, 0] / ab[:, 1]
-    inside = int(np.count_nonzero(cross & (xs > point[0]))) % 2 == 1
-    return -d if inside else d
 
 
 def _on_arm(spokes: int, first_deg: float, x: float, y: float) -> bool:
@@ -98,7 +81,7 @@ def carrier_hole_problems(layout: Layout) -> list[HoleProblem]:
                 part.spokes, part.spoke_angle_deg, x, y
             )
             for h in others:
-                gap = _loop_distance(np.array([x, y]), h.polyline(0.01)) - r
+                gap = signed_distance(np.array([x, y]), h.polyline(0.01)) - r
                 what = {
                     "window": "a spoke window: "
                     + (

@@ -48,6 +48,7 @@ __all__ = [
     "find_clashes",
     "find_pin_clashes",
     "pin_sweeps",
+    "signed_distance",
     "nominal_tip_radius",
     "outline_radius",
 ]
@@ -166,7 +167,7 @@ def _skip(design: Design, a: Body, b: Body, meshes: set[frozenset[str]]) -> bool
     return False
 
 
-def _signed_distance(point: np.ndarray, poly: np.ndarray) -> float:
+def signed_distance(point: np.ndarray, poly: np.ndarray) -> float:
     """Distance (mm) from ``point`` to the closed polygon ``poly``; negative inside."""
     a = poly
     b = np.roll(poly, -1, axis=0)
@@ -203,10 +204,10 @@ def _polygon_depth(pa: np.ndarray, pb: np.ndarray) -> float:
     for p, q in ((pa, pb), (pb, pa)):
         inside = p[_inside(p, q)]
         for pt in inside[:: max(1, len(inside) // 400)]:
-            depth = max(depth, -_signed_distance(pt, q))
+            depth = max(depth, -signed_distance(pt, q))
     if depth == -math.inf:
         # apart: minus the smallest gap, from a thinned set of vertices
-        depth = -min(_signed_distance(pt, pb) for pt in pa[:: max(1, len(pa) // 200)])
+        depth = -min(signed_distance(pt, pb) for pt in pa[:: max(1, len(pa) // 200)])
     return depth
 
 
@@ -256,10 +257,10 @@ def _depth(
                               _polyline(tooth_spec(design.wheel(b.wheel))) + pb)  # fmt: skip
     if still_a:
         poly = _polyline(tooth_spec(design.wheel(a.wheel))) + pa
-        return rb - _signed_distance(pb, poly)
+        return rb - signed_distance(pb, poly)
     if still_b:
         poly = _polyline(tooth_spec(design.wheel(b.wheel))) + pb
-        return ra - _signed_distance(pa, poly)
+        return ra - signed_distance(pa, poly)
     return ra + rb - d
 
 
@@ -443,6 +444,6 @@ def _ring_depth(
     if body.wheel is None or not _still(body, rates, _rate(rates, frame)):
         return depth
     poly = _polyline(tooth_spec(design.wheel(body.wheel))) + pb
-    outline_near = _signed_distance(pa, poly)
+    outline_near = signed_distance(pa, poly)
     outline_far = float(np.max(np.hypot(*(poly - pa).T)))
     return _ring_overlap(sweep, outline_near, outline_far)
