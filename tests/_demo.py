@@ -11,10 +11,15 @@ DEMO_TEXT = (
 ).read_text()
 
 
-def demo_variant(*pairs: tuple[str, str]) -> Design:
-    """The demo with each ``old`` text (which must occur once) replaced by ``new``."""
+def demo_text(*pairs: tuple[str, str]) -> str:
+    """The demo's text with each ``old`` (which must occur once) replaced by ``new``."""
     text = DEMO_TEXT
     for old, new in pairs:
         assert text.count(old) == 1, old
         text = text.replace(old, new)
-    return loads_design(text, "demo.toml")
+    return text
+
+
+def demo_variant(*pairs: tuple[str, str]) -> Design:
+    """The demo with each ``old`` text (which must occur once) replaced by ``new``."""
+    return loads_design(demo_text(*pairs), "demo.toml")

@@ -14,7 +14,7 @@ from pathlib import Path
 import pytest
 
 from tests._advice import recheck
-from tests._demo import DEMO_TEXT
+from tests._demo import demo_text
 from wheelgen.checks import analyse, run_checks
 from wheelgen.checks.findings import Finding, findings_table
 from wheelgen.design import loads_design
@@ -26,15 +26,7 @@ def _text(name: str) -> str:
     return (DATA / name).read_text()
 
 
-def _demo(*pairs: tuple[str, str]) -> str:
-    text = DEMO_TEXT
-    for old, new in pairs:
-        assert text.count(old) == 1, old
-        text = text.replace(old, new)
-    return text
-
-
-PRINT_WALL = _demo(
+PRINT_WALL = demo_text(
     ('process = "mill"', 'process = "print"'),
     ('cutter = 0.5            # mm: the end mill used for profiles and slots\n'
      'fit = "H7/g6"           # running fit of bores on arbors and tubes',
@@ -58,8 +50,8 @@ CASES = [
 
 _VARIANTS = {
     "print_wall": PRINT_WALL,
-    "plates_in_cm": _demo(("plates = [0.0, 40.0]", "plates = [0.0, 4.0]")),
-    "one_wheel_out": _demo(
+    "plates_in_cm": demo_text(("plates = [0.0, 40.0]", "plates = [0.0, 4.0]")),
+    "one_wheel_out": demo_text(
         ('name = "moon_disc"\narbor = "moon_dial"\nteeth = 60\nheight = 13.0',
          'name = "moon_disc"\narbor = "moon_dial"\nteeth = 60\nheight = 39.0'),
     ),
@@ -119,7 +111,7 @@ def test_plates_in_the_wrong_unit_are_one_cause():
 
 
 def test_summary_counts_causes():
-    text = _demo(("at = [30.8, 0.0]", "at = [31.55, 0.0]"))
+    text = demo_text(("at = [30.8, 0.0]", "at = [31.55, 0.0]"))
     found = run_checks(loads_design(text, "planet.toml"))
     table = findings_table(found)
     assert table.splitlines()[-1].startswith("1 error(s), 0 warning(s), 2 note(s)")

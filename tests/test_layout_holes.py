@@ -13,7 +13,7 @@ import io
 import math
 from pathlib import Path
 
-from tests._demo import DEMO_TEXT
+from tests._demo import DEMO_TEXT, demo_text
 from wheelgen.checks import run_checks
 from wheelgen.design import load_design, loads_design
 from wheelgen.layout import plan_parts
@@ -24,14 +24,6 @@ from wheelgen.workshop.cutting import cutting_csv, cutting_rows
 from wheelgen.workshop.parts_bill import bill_rows, parts_csv
 
 EPICYCLIC = Path(__file__).parent / "data" / "layout" / "epicyclic_nested.toml"
-
-
-def _demo(*pairs: tuple[str, str]) -> str:
-    text = DEMO_TEXT
-    for old, new in pairs:
-        assert text.count(old) == 1, old
-        text = text.replace(old, new)
-    return text
 
 
 def _wheel(design, name: str) -> WheelPart:
@@ -78,8 +70,8 @@ SPOKED = (
 def test_an_arm_too_narrow_for_the_hole_is_refused_with_the_reason():
     # derived: a 3 mm arm holds a 2.005 mm bore with 0.5 mm each side (>= 0.3 mm);
     # a 2 mm arm leaves nothing
-    assert _hole_findings(_demo((SPOKED[0], SPOKED[1].replace("RIM", "3.0")))) == []
-    (found,) = _hole_findings(_demo((SPOKED[0], SPOKED[1].replace("RIM", "2.0"))))
+    assert _hole_findings(demo_text((SPOKED[0], SPOKED[1].replace("RIM", "3.0")))) == []
+    (found,) = _hole_findings(demo_text((SPOKED[0], SPOKED[1].replace("RIM", "2.0"))))
     assert found.level == "error"
     assert '"hour_wheel"' in found.message and '"planet"' in found.message
     assert "too narrow" in found.message
@@ -87,7 +79,7 @@ def test_an_arm_too_narrow_for_the_hole_is_refused_with_the_reason():
 
 def test_a_hole_off_every_arm_is_refused():
     # a second planet a fifth of a turn and a bit round: no arm of five carries both
-    text = _demo(
+    text = demo_text(
         (SPOKED[0], SPOKED[1].replace("RIM", "3.0")),
         (
             'name = "moon_lay"',
@@ -120,7 +112,7 @@ def test_bores_are_opened_and_listed_on_the_sheets():
     assert "for a carried arbor" in bill["hour_wheel"]["note"]
     # a printed wheel's bore is opened by twice the radial clearance
     printed = loads_design(
-        _demo(
+        demo_text(
             ('process = "mill"', 'process = "print"'),
             ('fit = "H7/g6"           # running fit of bores on arbors and tubes', ""),
         ),

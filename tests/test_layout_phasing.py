@@ -31,69 +31,7 @@ from wheelgen.teeth.spec import outline_for
 DATA = Path(__file__).parent / "data" / "layout"
 EPICYCLIC = DATA / "epicyclic_nested.toml"
 
-LOOP = """
-[design]
-title = "a loop of four wheels"
-process = "mill"
-
-[process]
-cutter = 0.3
-
-[drive]
-arbor = "a"
-period = "1 h"
-
-[[arbor]]
-name = "a"
-at = [0.0, 0.0]
-
-[[arbor]]
-name = "b"
-
-[[arbor]]
-name = "c"
-
-[[arbor]]
-name = "d"
-
-[[wheel]]
-name = "wa"
-arbor = "a"
-teeth = 20
-
-[[wheel]]
-name = "wb"
-arbor = "b"
-teeth = 20
-
-[[wheel]]
-name = "wc"
-arbor = "c"
-teeth = 20
-
-[[wheel]]
-name = "wd"
-arbor = "d"
-teeth = 22
-
-[[mesh]]
-pair = ["wa", "wb"]
-bearing = 0.0
-
-[[mesh]]
-pair = ["wa", "wc"]
-bearing = 90.0
-
-[[mesh]]
-pair = ["wb", "wd"]
-bearing = 87.33273887628012
-
-[[mesh]]
-pair = ["wc", "wd"]
-"""
-# derived: d stands 21 mm (module 1, 20 + 22 teeth) from both b = (20, 0) and
-# c = (0, 20): d = (x, x) with (x - 20)^2 + x^2 = 21^2, x = 10 + sqrt(120.5); the
-# bearing from b is atan2(x, x - 20) = 87.3327 deg
+LOOP = (DATA / "loop_misfit.toml").read_text()
 
 
 def _polygon(part: WheelPart, turn_deg: float = 0.0) -> np.ndarray:

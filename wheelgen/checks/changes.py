@@ -7,6 +7,7 @@ own table, item and key, so the same edit can be made in the file by hand.
 
 from __future__ import annotations
 
+from collections.abc import Callable
 from dataclasses import fields, replace
 from typing import Any
 
@@ -33,37 +34,25 @@ def _set(obj: Any, change: Change) -> Any:
     return replace(obj, **{name: value})
 
 
+#: The file's arrays of tables: the design's field, and the item's name in a change.
+_ARRAYS: dict[str, tuple[str, Callable[[Any], str]]] = {
+    "arbor": ("arbors", lambda a: a.name),
+    "wheel": ("wheels", lambda w: w.name),
+    "mesh": ("meshes", lambda m: str(m.index)),
+    "pinslot": ("pinslots", lambda p: p.name),
+}
+
+
 def apply_changes(design: Design, changes: tuple[Change, ...]) -> Design:
     """``design`` with every change made; ``ValueError`` for an item or key it lacks."""
     for c in changes:
-        if c.table == "arbor":
-            design = replace(
-                design,
-                arbors=tuple(
-                    _set(a, c) if a.name == c.name else a for a in design.arbors
-                ),
-            )
-        elif c.table == "wheel":
-            design = replace(
-                design,
-                wheels=tuple(
-                    _set(w, c) if w.name == c.name else w for w in design.wheels
-                ),
-            )
-        elif c.table == "mesh":
-            design = replace(
-                design,
-                meshes=tuple(
-                    _set(m, c) if str(m.index) == c.name else m for m in design.meshes
-                ),
-            )
-        elif c.table == "pinslot":
-            design = replace(
-                design,
-                pinslots=tuple(
-                    _set(p, c) if p.name == c.name else p for p in design.pinslots
-                ),
-            )
+        if c.table in _ARRAYS:
+            field, name_of = _ARRAYS[c.table]
+            items = getattr(design, field)
+            if not any(name_of(x) == c.name for x in items):
+                raise ValueError(f"there is no {c.item}")
+            new = tuple(_set(x, c) if name_of(x) == c.name else x for x in items)
+            design = replace(design, **{field: new})
         elif c.table == "process":
             design = replace(design, process=_set(design.process, c))
         elif c.table == "frame":
