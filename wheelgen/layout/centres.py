@@ -15,7 +15,7 @@ import math
 from dataclasses import dataclass
 
 from ..checks.findings import Change
-from ..design.model import Design, Mesh, Process
+from ..design.model import Mesh, Process
 from ..design.process_limits import centre_tolerance
 from ..kinematics.rates import mesh_frame
 from ..teeth.limits import short_of
@@ -145,9 +145,7 @@ def _bearing_deg(frm: Point, to: Point) -> float:
     return math.degrees(math.atan2(to[1] - frm[1], to[0] - frm[0]))
 
 
-def _change_for(
-    design: Design, layout: Layout, axis: str, link: Link, sense: int, to: Point
-) -> Change:
+def _change_for(layout: Layout, link: Link, sense: int, to: Point) -> Change:
     pos = layout.placing.positions
     if link.kind == "at":
         return Change("arbor", link.item, "at", to)
@@ -223,5 +221,5 @@ def _move(
     to = _solve(pos[axis], pivot, radius, needs)
     if to is None:
         return None
-    change = _change_for(layout.design, layout, axis, link, sense, to)
+    change = _change_for(layout, link, sense, to)
     return Move(axis, to, change, tuple(meshes))

@@ -291,7 +291,6 @@ def _loop_finding(layout: Layout, mm: LoopMismatch) -> Finding | None:
     bearing disagrees, and the bearing the arbors really have is offered.
     """
     link = mm.closing
-    design = layout.design
     changes: tuple[Change, ...] = ()
     pos = layout.placing.positions
     if link is not None and link.kind in ("mesh", "pinslot"):
@@ -315,7 +314,6 @@ def _loop_finding(layout: Layout, mm: LoopMismatch) -> Finding | None:
         else "leave the 'bearing' out of one mesh in the loop (its distance is then"
         " checked), or change 'at', a bearing or the tooth counts so the loop closes"
     )
-    del design
     return Finding(
         "error",
         "layout.loop",

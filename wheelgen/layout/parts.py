@@ -14,7 +14,6 @@ from __future__ import annotations
 
 import math
 from dataclasses import replace
-from typing import Any
 
 from ..design.model import Design, Wheel
 from .part_plan import (
@@ -29,7 +28,7 @@ from .part_plan import (
 from .phasing import rest_angles
 from .placement import tooth_spec
 from .plan import Layout, plan_layout
-from .sleeves import running_bore, wheel_bore
+from .sleeves import Bore, running_bore, wheel_bore
 
 __all__ = ["carried_holes", "plan_parts", "wheel_part"]
 
@@ -105,7 +104,7 @@ def wheel_part(layout: Layout, wheel: Wheel) -> WheelPart:
     )
 
 
-def _fit_text(bore: Any) -> str:
+def _fit_text(bore: Bore) -> str:
     if bore.zone:
         return f"{bore.fit} on {bore.shaft:g} mm: {bore.low:.3f} to {bore.high:.3f} mm"
     return f"{bore.fit} on {bore.shaft:g} mm"
