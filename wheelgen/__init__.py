@@ -16,9 +16,9 @@ from .design import Design as Design  # noqa: E402
 from .design import DesignError as DesignError  # noqa: E402
 from .design import load_design as load_design  # noqa: E402
 from .design import loads_design as loads_design  # noqa: E402
+from .frame import plan_parts as plan_parts  # noqa: E402
 from .kinematics.rates import solve_rates as solve_rates  # noqa: E402
 from .kinematics.targets import evaluate_targets as evaluate_targets  # noqa: E402
-from .layout import plan_parts as plan_parts  # noqa: E402
 from .teeth.gear_data import gear_data as gear_data  # noqa: E402
 from .teeth.mesh_data import mesh_data as mesh_data  # noqa: E402
 from .teeth.spec import ToothSpec as ToothSpec  # noqa: E402

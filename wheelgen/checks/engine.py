@@ -60,10 +60,18 @@ def _process(design: Design, analysis: Analysis) -> list[Finding]:
 def design_checks() -> tuple[DesignCheck, ...]:
     """Every registered check, in the order they run."""
     # Imported here so that each check module may import the engine's types.
+    from ..frame import frame_findings
     from ..layout import layout_findings
     from .pinslot_checks import pinslot_findings
 
-    return (_train, _meshes, _process, layout_findings, pinslot_findings)
+    return (
+        _train,
+        _meshes,
+        _process,
+        layout_findings,
+        pinslot_findings,
+        frame_findings,
+    )
 
 
 #: Most causes whose consequences are worked out (each costs one more run of the

@@ -51,7 +51,7 @@ def _parse_formats(text: str) -> tuple[str, ...]:
     "--formats",
     default=",".join(_FORMATS),
     show_default=True,
-    help="Comma-separated formats to write (dxf and svg only for wheels).",
+    help="Comma-separated formats to write (dxf and svg only for wheels and plates).",
 )
 @click.option(
     "--jobs",
@@ -96,13 +96,17 @@ def build_command(
 ) -> None:
     """Check DESIGN and write its parts, ready for the workshop or the printer.
 
-    DESIGN is a train file (TOML); without it the bundled demo is built. Files go
-    to output/<design name>/ (or -o DIR): step/<part>.step and step/assembly.step,
-    stl/ and 3mf/ meshes lying on z = 0, dxf/ and svg/ 1:1 drawings of every wheel,
-    the workshop sheets (cutting.csv: cutter, indexing and inspection sizes of every
-    wheel; parts.csv: bill of parts; drilling/<plate>.csv and .svg: hole positions
-    from the drive arbor), report.html (one page with drawings, findings, motion and
-    an animated preview), and manifest.json with the SHA-256 of each file.
+    DESIGN is a train file (TOML); without it the bundled demo is built. Every
+    part is made: wheels, arbors, tubes and pins, and the frame (the two plates, the
+    pillars between them and a cock for any arbor one plate alone holds). Files go
+    to output/<design name>/ (or -o DIR): step/<part>.step and step/assembly.step
+    (every part in place, with the screws and any bushes or bearings), stl/ and 3mf/
+    meshes lying on z = 0, dxf/ and svg/ 1:1 drawings of every wheel and plate, the
+    workshop sheets (cutting.csv: cutter, indexing and inspection sizes of every
+    wheel; parts.csv: bill of parts with screws; drilling/<plate>.csv and .svg: the
+    outline and every hole's position from the drive arbor), report.html (one page
+    with drawings, findings, motion and an animated preview), and manifest.json with
+    the SHA-256 of each file.
     Everything is written to a staging folder first and moved into place only when
     all of it succeeded.
 
@@ -131,7 +135,7 @@ def build_command(
     try:
         from ..checks import run_checks
         from ..checks.findings import findings_table
-        from ..layout import plan_parts
+        from ..frame import plan_parts
 
         findings = run_checks(d)
         parts = plan_parts(d) if not _blocked(findings, force) else ()

@@ -23,6 +23,7 @@ from .model import (
     Drive,
     Frame,
     Mesh,
+    PillarSpec,
     PinSlot,
     Process,
     Stock,
@@ -33,6 +34,7 @@ from .model import (
 )
 from .periods import UNIT_SECONDS, PeriodError, parse_period
 from .process_limits import default_backlash
+from .screws import SCREWS
 
 __all__ = ["load_design", "loads_design", "MIN_TEETH", "MAX_TEETH", "SAFE_NAME"]
 
@@ -55,6 +57,7 @@ TOP_KEYS = (
     "pinslot",
     "target",
     "stock",
+    "pillar",
 )
 
 # Per-wheel keys that [defaults] may also set: key -> (default, kind, check)
@@ -83,6 +86,66 @@ def _choice(*options: str) -> _Check:
         )
 
     return check
+
+
+def _finite_number(v: Any) -> bool:
+    return isinstance(v, (int, float)) and not isinstance(v, bool) and math.isfinite(v)
+
+
+def _signed_area(pts: tuple[tuple[float, float], ...]) -> float:
+    """Shoelace area (mm2), positive for corners counter-clockwise."""
+    n = len(pts)
+    return 0.5 * sum(
+        pts[i][0] * pts[(i + 1) % n][1] - pts[(i + 1) % n][0] * pts[i][1]
+        for i in range(n)
+    )
+
+
+def _crosses_itself(pts: tuple[tuple[float, float], ...]) -> bool:
+    """Do two sides of the closed polygon that are not neighbours touch or cross?"""
+
+    def orient(
+        a: tuple[float, float], b: tuple[float, float], c: tuple[float, float]
+    ) -> float:
+        return (b[0] - a[0]) * (c[1] - a[1]) - (b[1] - a[1]) * (c[0] - a[0])
+
+    def meet(
+        p: tuple[float, float],
+        q: tuple[float, float],
+        r: tuple[float, float],
+        s: tuple[float, float],
+    ) -> bool:
+        d1, d2 = orient(r, s, p), orient(r, s, q)
+        d3, d4 = orient(p, q, r), orient(p, q, s)
+        if (
+            ((d1 > 0) != (d2 > 0))
+            and ((d3 > 0) != (d4 > 0))
+            and 0 not in (d1, d2, d3, d4)
+        ):
+            return True
+
+        def on(
+            a: tuple[float, float], b: tuple[float, float], c: tuple[float, float]
+        ) -> bool:
+            return (
+                orient(a, b, c) == 0
+                and min(a[0], b[0]) <= c[0] <= max(a[0], b[0])
+                and min(a[1], b[1]) <= c[1] <= max(a[1], b[1])
+            )
+
+        return on(r, s, p) or on(r, s, q) or on(p, q, r) or on(p, q, s)
+
+    n = len(pts)
+    if len(set(pts)) != n:
+        return True
+    sides = [(pts[i], pts[(i + 1) % n]) for i in range(n)]
+    for i in range(n):
+        for j in range(i + 1, n):
+            if j == i + 1 or (i == 0 and j == n - 1):
+                continue
+            if meet(*sides[i], *sides[j]):
+                return True
+    return False
 
 
 def _spokes(v: Any) -> str | None:
@@ -122,6 +185,20 @@ _WHEEL_FIELD = {
     "pressure_angle": "pressure_angle_deg",
     "tooth_angle": "tooth_angle_deg",
 }
+
+#: Keys of the [frame] table.
+FRAME_KEYS = (
+    "plates",
+    "thickness",
+    "margin",
+    "clearance",
+    "rectangle",
+    "polygon",
+    "corner",
+    "pillars",
+    "pillar_diameter",
+    "screw",
+)
 
 PROCESS_KEYS: dict[str, tuple[str, _Check | None]] = {
     "nozzle": ("number", _positive),
@@ -468,6 +545,7 @@ class _Loader:
         drive = self.drive_table(doc)
         targets = self.targets(doc)
         stock = self.stock(doc)
+        pillars = self.pillars(doc)
         self.cross_check(arbors, wheels, meshes, pinslots, drive, targets)
         if self.problems:
             raise DesignError(self.problems)
@@ -486,6 +564,7 @@ class _Loader:
             stock=tuple(stock),
             process=proc,
             frame=frame,
+            pillars=tuple(pillars),
             source=self.file,
             sha256=hashlib.sha256(self.text.encode("utf-8")).hexdigest(),
         )
@@ -546,7 +625,7 @@ class _Loader:
         if t is None:
             return None
         ctx = ("frame", 0, "[frame]")
-        self.unknown_keys(t, ("plates", "thickness"), ctx)
+        self.unknown_keys(t, FRAME_KEYS, ctx)
         plates = self.pair_of_numbers(t, "plates", ctx, default=(0.0, 40.0))
         if plates[1] <= plates[0]:
             self.problem(
@@ -557,7 +636,130 @@ class _Loader:
         thickness = self.value(
             t, "thickness", "number", ctx, default=2.0, check=_positive
         )
-        return Frame(plates=plates, thickness=thickness)
+        margin = self.value(t, "margin", "number", ctx, check=_non_negative)
+        clearance = self.value(t, "clearance", "number", ctx, check=_non_negative)
+        corner = self.value(
+            t, "corner", "number", ctx, default=3.0, check=_non_negative
+        )
+        pillars = self.value(
+            t,
+            "pillars",
+            "integer",
+            ctx,
+            default=4,
+            check=lambda v: None if 3 <= v <= 12 else "a whole number from 3 to 12",
+        )
+        pillar_d = self.value(t, "pillar_diameter", "number", ctx, check=_positive)
+        screw = self.value(
+            t, "screw", "string", ctx, default="M3", check=_choice(*SCREWS)
+        )
+        rectangle = self.rectangle(t, ctx)
+        polygon = self.polygon(t, ctx)
+        if rectangle is not None and polygon is not None:
+            self.problem(
+                self.where("frame", 0, "[frame]", "polygon"),
+                "both 'rectangle' and 'polygon'",
+                "one of them, or neither (the outline is then found round the wheels)",
+            )
+            polygon = None
+        return Frame(
+            plates=plates,
+            thickness=thickness,
+            margin=margin,
+            clearance=clearance,
+            rectangle=rectangle,
+            polygon=polygon,
+            corner=corner,
+            pillars=pillars,
+            pillar_diameter=pillar_d,
+            screw=screw,
+        )
+
+    def rectangle(
+        self, t: dict[str, Any], ctx: tuple[str, int, str]
+    ) -> tuple[float, float, float, float] | None:
+        if "rectangle" not in t:
+            return None
+        v = t["rectangle"]
+        allowed = "four numbers [x0, y0, x1, y1] (mm) with x1 > x0 and y1 > y0"
+        if not (
+            isinstance(v, list) and len(v) == 4 and all(_finite_number(x) for x in v)
+        ):
+            self.problem(
+                self.where(*ctx, "rectangle"), f"rectangle = {_show(v)}", allowed
+            )
+            return None
+        x0, y0, x1, y1 = (float(x) for x in v)
+        if x1 <= x0 or y1 <= y0:
+            self.problem(
+                self.where(*ctx, "rectangle"), f"rectangle = {_show(v)}", allowed
+            )
+            return None
+        return (x0, y0, x1, y1)
+
+    def polygon(
+        self, t: dict[str, Any], ctx: tuple[str, int, str]
+    ) -> tuple[tuple[float, float], ...] | None:
+        if "polygon" not in t:
+            return None
+        v = t["polygon"]
+        allowed = (
+            "a list of at least 3 corners [[x, y], ...] (mm) that do not cross, such as"
+            " [[-50, -40], [60, -40], [60, 50], [-50, 50]]"
+        )
+        if not (
+            isinstance(v, list)
+            and 3 <= len(v) <= 1000
+            and all(
+                isinstance(p, list)
+                and len(p) == 2
+                and all(_finite_number(x) for x in p)
+                for p in v
+            )
+        ):
+            self.problem(self.where(*ctx, "polygon"), f"polygon = {_show(v)}", allowed)
+            return None
+        pts = tuple((float(p[0]), float(p[1])) for p in v)
+        if _crosses_itself(pts) or abs(_signed_area(pts)) < 1e-9:
+            self.problem(
+                self.where(*ctx, "polygon"),
+                "polygon: its sides cross, or it encloses no area",
+                allowed,
+            )
+            return None
+        return pts
+
+    def pillars(self, doc: dict[str, Any]) -> list[PillarSpec]:
+        out = []
+        tables = self.tables(doc, "pillar")
+        for i, t in enumerate(tables):
+            item = f"the {_ordinal(i + 1)} [[pillar]]"
+            ctx = ("pillar", i, item)
+            self.unknown_keys(t, ("at",), ctx, required=("at",))
+            at = self.pair_of_numbers(t, "at", ctx)
+            if at is None:
+                if "at" not in t:
+                    self.problem(
+                        self.where(*ctx, "at"),
+                        "'at' is missing",
+                        "two numbers [x, y] (mm), the pillar's axis (required)",
+                    )
+                continue
+            out.append(PillarSpec(at, i + 1, self.where("pillar", i, item)))
+        if tables and len(tables) < 3:
+            self.problem(
+                Where(self.file, "[[pillar]]", line=self.lines.line("pillar")),
+                f"{len(tables)} [[pillar]] table(s)",
+                "at least 3 pillars (three hold the plates parallel), or none: they are"
+                " then placed automatically",
+            )
+        if tables and "frame" not in doc:
+            self.problem(
+                Where(self.file, "[[pillar]]", line=self.lines.line("pillar")),
+                "[[pillar]] tables but no [frame]",
+                "a [frame] table with the plates the pillars stand between",
+            )
+        return out
 
     def pair_of_numbers(
         self,
@@ -637,7 +839,7 @@ class _Loader:
 
     def arbors(self, doc: dict[str, Any]) -> list[Arbor]:
         out = []
-        known = ("name", "at", "diameter", "around", "fixed", "carrier")
+        known = ("name", "at", "diameter", "around", "fixed", "carrier", "pivot")
         self.arbor_tables = len(self.tables(doc, "arbor"))
         for i, t in enumerate(self.tables(doc, "arbor")):
             name, item = self.name_of(t, "arbor", i)
@@ -650,6 +852,14 @@ class _Loader:
             around = self.value(t, "around", "string", ctx)
             fixed = self.value(t, "fixed", "bool", ctx, default=False)
             carrier = self.value(t, "carrier", "string", ctx)
+            pivot = self.value(
+                t,
+                "pivot",
+                "string",
+                ctx,
+                default="hole",
+                check=_choice("hole", "bush", "bearing"),
+            )
             w = self.where("arbor", i, item)
             if around is not None and carrier is not None:
                 self.problem(
@@ -675,8 +885,14 @@ class _Loader:
                     "a carried arbor that is also fixed",
                     "'fixed' only on arbors held by the frame",
                 )
+            if pivot != "hole" and (around is not None or carrier is not None or fixed):
+                self.problem(
+                    self.where("arbor", i, item, "pivot"),
+                    f'pivot = "{pivot}" on a sleeve, a carried or a fixed arbor',
+                    "'pivot' only on an arbor that turns in the plates",
+                )
             if name is not None:
-                out.append(Arbor(name, at, diameter, around, fixed, carrier, w))
+                out.append(Arbor(name, at, diameter, around, fixed, carrier, pivot, w))
         return out
 
     def wheels(
@@ -972,7 +1188,18 @@ class _Loader:
             item = f"the {_ordinal(i + 1)} [[stock]]"
             ctx = ("stock", i, item)
             self.unknown_keys(
-                t, ("outside", "inside"), ctx, required=("outside", "inside")
+                t,
+                ("kind", "outside", "inside", "width"),
+                ctx,
+                required=("outside", "inside"),
+            )
+            kind = self.value(
+                t,
+                "kind",
+                "string",
+                ctx,
+                default="tube",
+                check=_choice("tube", "bush", "bearing"),
             )
             outside = self.value(
                 t, "outside", "number", ctx, required=True, check=_positive
@@ -980,6 +1207,21 @@ class _Loader:
             inside = self.value(
                 t, "inside", "number", ctx, required=True, check=_positive
             )
+            width = self.value(t, "width", "number", ctx, check=_positive)
+            if kind in ("bush", "bearing") and width is None and "width" not in t:
+                self.problem(
+                    self.where("stock", i, item, "width"),
+                    f"'width' is missing on a {kind}",
+                    f"the {kind}'s axial width in mm (required for a {kind})",
+                )
+                continue
+            if kind == "tube" and "width" in t:
+                self.problem(
+                    self.where("stock", i, item, "width"),
+                    "'width' on a tube",
+                    "'width' only on a bush or a bearing (a tube is cut to length)",
+                )
+                continue
             if outside is not None and inside is not None:
                 if inside >= outside:
                     self.problem(
@@ -988,7 +1230,15 @@ class _Loader:
                         "an inside diameter smaller than the outside (mm)",
                     )
                     continue
-                out.append(Stock(outside, inside, self.where("stock", i, item)))
+                out.append(
+                    Stock(
+                        outside,
+                        inside,
+                        self.where("stock", i, item),
+                        kind,
+                        width if kind != "tube" else None,
+                    )
+                )
         return out
 
     # -- relations between items ------------------------------------------------------

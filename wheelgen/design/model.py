@@ -16,6 +16,7 @@ __all__ = [
     "Where",
     "Process",
     "Frame",
+    "PillarSpec",
     "Drive",
     "Arbor",
     "Wheel",
@@ -30,6 +31,8 @@ __all__ = [
     "Sense",
     "RelativeSense",
     "axis_root_of",
+    "Pivot",
+    "StockKind",
 ]
 
 ProcessKind = Literal["print", "mill", "hand"]
@@ -40,6 +43,8 @@ Sense = Literal["cw", "ccw"]
 #: How one member turns relative to another (an output and its input, an index plate
 #: and its crank): the one word for that.
 RelativeSense = Literal["same", "opposite"]
+Pivot = Literal["hole", "bush", "bearing"]
+StockKind = Literal["tube", "bush", "bearing"]
 
 
 @dataclass(frozen=True, slots=True)
@@ -92,10 +97,35 @@ class Process:
 
 @dataclass(frozen=True, slots=True)
 class Frame:
-    """Back and front plates: heights of their inner faces and their thickness (mm)."""
+    """Back and front plates: heights of their inner faces and their thickness (mm).
+
+    The outline is found round the wheels unless ``rectangle`` (x0, y0, x1, y1) or
+    ``polygon`` (corner points) gives it; ``corner`` rounds the given outline's corners.
+    ``margin``, ``clearance`` and ``pillar_diameter`` are ``None`` for the process's
+    default (see :mod:`wheelgen.frame.limits`); ``pillars`` is how many pillars are
+    placed when the design gives no ``[[pillar]]``; ``screw`` the metric screw size
+    that fixes pillars and cocks ("M3").
+    """
 
     plates: tuple[float, float] = (0.0, 40.0)
     thickness: float = 2.0
+    margin: float | None = None
+    clearance: float | None = None
+    rectangle: tuple[float, float, float, float] | None = None
+    polygon: tuple[tuple[float, float], ...] | None = None
+    corner: float = 3.0
+    pillars: int = 4
+    pillar_diameter: float | None = None
+    screw: str = "M3"
+
+
+@dataclass(frozen=True, slots=True)
+class PillarSpec:
+    """A pillar placed by the design: its axis at ``at`` (mm, the arbors' frame)."""
+
+    at: tuple[float, float]
+    index: int = 0  # 1-based position among the [[pillar]] tables
+    where: Where | None = field(default=None, compare=False, repr=False)
 
 
 @dataclass(frozen=True, slots=True)
@@ -116,6 +146,7 @@ class Arbor:
     around: str | None = None
     fixed: bool = False
     carrier: str | None = None  # name of the wheel that carries this arbor's axis
+    pivot: Pivot = "hole"  # what it runs in where a plate holds it
     where: Where | None = field(default=None, compare=False, repr=False)
 
 
@@ -208,11 +239,16 @@ class Target:
 
 @dataclass(frozen=True, slots=True)
 class Stock:
-    """A tube on hand: outside and inside diameter in mm."""
+    """A tube, bush or ball bearing on hand: diameters and width in mm.
+
+    ``width`` is the axial length of a bush or bearing (``None`` for a tube).
+    """
 
     outside: float
     inside: float
     where: Where | None = field(default=None, compare=False, repr=False)
+    kind: StockKind = "tube"
+    width: float | None = None
 
 
 @dataclass(frozen=True, slots=True)
@@ -230,6 +266,7 @@ class Design:
     stock: tuple[Stock, ...] = ()
     process: Process = Process()
     frame: Frame | None = None
+    pillars: tuple[PillarSpec, ...] = ()
     source: str = ""  # path of the file it came from
     sha256: str = ""  # of the file's bytes
 

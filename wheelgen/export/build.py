@@ -29,6 +29,7 @@ from pathlib import Path
 from typing import Any
 
 from .. import __version__
+from ..layout.part_plan import BOUGHT_KINDS, FLAT_KINDS
 from . import sheets
 from .cache import PartCache, cache_root_for, part_key
 from .manifest import MANIFEST_NAME, make_manifest, write_manifest
@@ -50,18 +51,24 @@ __all__ = [
 
 #: Every export format, in the order files are written.
 FORMATS: tuple[str, ...] = ("step", "stl", "3mf", "dxf", "svg")
-#: Formats that only flat parts (wheels) get.
+#: Formats that only flat parts (wheels and plates) get.
 PLANAR_FORMATS = frozenset({"dxf", "svg"})
 #: The assembly's file, inside the output folder.
 ASSEMBLY_FILE = "step/assembly.step"
 _MESH_ANGLE_DEG = 30.0
 
-# part colours in the assembly (RGB 0..1): brass wheels, steel arbors, bronze sleeves
+# part colours in the assembly (RGB 0..1): brass wheels, steel arbors, bronze sleeves,
+# pale brass plates and cocks, steel pillars, dark screws
 _COLOURS = {
     "wheel": (0.80, 0.62, 0.25),
     "arbor": (0.62, 0.64, 0.68),
     "sleeve": (0.70, 0.45, 0.25),
     "pin": (0.30, 0.30, 0.32),
+    "plate": (0.86, 0.78, 0.55),
+    "pillar": (0.55, 0.57, 0.60),
+    "cock": (0.78, 0.66, 0.38),
+    "screw": (0.20, 0.20, 0.22),
+    "bearing": (0.45, 0.47, 0.50),
 }
 
 
@@ -127,12 +134,17 @@ def default_output_dir(design: Any, base: Path = Path("output")) -> Path:
 
 
 def part_file_names(part: Any, formats: Sequence[str]) -> list[tuple[str, str]]:
-    """(format, relative path) of every file the part gets."""
+    """(format, relative path) of every file the part gets.
+
+    Bought parts (screws, bushes, bearings) get none: they are only in the assembly.
+    """
+    if part.kind in BOUGHT_KINDS:
+        return []
     out = []
     for fmt in FORMATS:
         if fmt not in formats:
             continue
-        if fmt in PLANAR_FORMATS and part.kind != "wheel":
+        if fmt in PLANAR_FORMATS and part.kind not in FLAT_KINDS:
             continue
         out.append((fmt, f"{fmt}/{part.name}.{fmt}"))
     return out
@@ -173,7 +185,13 @@ class _PartWork:
 
     @property
     def profile(self) -> Any:
+        """A wheel's flat profile; a plate's outline as a closed polyline (mm)."""
         if self._profile is None:
+            if self.part.kind == "plate":
+                from ..frame.outline import edges_polyline
+
+                self._profile = edges_polyline(self.part.outline, 0.005)
+                return self._profile
             from ..layout.wheel_profile import plate_profile
             from ..teeth.spec import outline_for
 
@@ -200,12 +218,22 @@ def _write_3mf(w: _PartWork, path: Path) -> None:
 
 
 def _write_dxf(w: _PartWork, path: Path) -> None:
+    if w.part.kind == "plate":
+        from .dxf import write_plate_dxf
+
+        write_plate_dxf(w.part, path)
+        return
     from .dxf import write_dxf
 
     write_dxf(w.profile, path, w.part.name)
 
 
 def _write_svg(w: _PartWork, path: Path) -> None:
+    if w.part.kind == "plate":
+        from .svg_template import write_plate_svg
+
+        write_plate_svg(w.part, path, w.profile)
+        return
     from .svg_template import write_svg
 
     pins = []
@@ -366,7 +394,7 @@ def build_design(
     if not checked and not options.force:
         raise BuildBlocked(findings)
     if parts is None:
-        from ..layout import plan_parts
+        from ..frame import plan_parts
 
         parts = plan_parts(design)
     parts = list(parts)

@@ -1,5 +1,8 @@
 """DXF of a flat part for cutting: outline, bore, other holes and centre mark on layers.
 
+:func:`write_dxf` draws a wheel's profile; :func:`write_plate_dxf` a frame plate (its
+outline and round holes, grouped on layers by what they hold).
+
 Written from the same exact profile as the solid (no kernel needed): lines as LINE,
 arcs as ARC, each flank as one SPLINE through the generator's exact points, circles
 as CIRCLE. Drawing units are millimetres ($INSUNITS = 4).
@@ -18,13 +21,32 @@ from pathlib import Path
 import ezdxf
 import numpy as np
 
+from ..layout.part_plan import PlatePart
 from ..layout.wheel_profile import Hole, PlateProfile
 from ..teeth.outline import Segment, circle_through
 
-__all__ = ["LAYERS", "write_dxf"]
+__all__ = ["LAYERS", "PLATE_LAYERS", "write_dxf", "write_plate_dxf"]
 
 #: Layer names and ACI colours: toothed outline, seat bore, other holes, centre mark.
 LAYERS: dict[str, int] = {"OUTLINE": 7, "BORE": 1, "HOLES": 5, "CENTRE": 3}
+#: A plate's layers and ACI colours: outline, pivot holes (and held tubes, bushes and
+#: bearings), pillar holes, mounting holes (cock screws), centre marks.
+PLATE_LAYERS: dict[str, int] = {
+    "OUTLINE": 7,
+    "PIVOTS": 1,
+    "PILLARS": 5,
+    "MOUNTING": 6,
+    "CENTRES": 3,
+}
+_PLATE_LAYER_OF_ROLE = {
+    "pivot": "PIVOTS",
+    "held": "PIVOTS",
+    "bush": "PIVOTS",
+    "bearing": "PIVOTS",
+    "pillar": "PILLARS",
+    "screw": "PILLARS",
+    "mounting": "MOUNTING",
+}
 
 
 def _arc_params(p: np.ndarray) -> tuple[tuple[float, float], float, float, float]:
@@ -86,11 +108,47 @@ def write_dxf(profile: PlateProfile, path: Path, name: str) -> Path:
         msp.add_line((-size, 0.0), (size, 0.0), dxfattribs={"layer": "CENTRE"})
         msp.add_line((0.0, -size), (0.0, size), dxfattribs={"layer": "CENTRE"})
         doc.header["$PROJECTNAME"] = name
-        # ezdxf adds a CLASS per entity type in use while saving, iterating a set:
-        # the order followed PYTHONHASHSEED. Add them now, sorted; saving adds none.
-        doc.classes.add_required_classes(doc.dxfversion)
-        doc.classes.classes = OrderedDict(sorted(doc.classes.classes.items()))
-        doc.saveas(path)
+        _save(doc, path)
+    finally:
+        ezdxf.options.write_fixed_meta_data_for_testing = previous
+    return path
+
+
+def _save(doc, path: Path) -> None:  # type: ignore[no-untyped-def]  # ezdxf document
+    # ezdxf adds a CLASS per entity type in use while saving, iterating a set: the
+    # order followed PYTHONHASHSEED. Add them now, sorted; saving adds none.
+    doc.classes.add_required_classes(doc.dxfversion)
+    doc.classes.classes = OrderedDict(sorted(doc.classes.classes.items()))
+    doc.saveas(path)
+
+
+def write_plate_dxf(part: PlatePart, path: Path) -> Path:
+    """Write a plate as a DXF (R2010, mm): outline, holes by layer, centre marks.
+
+    The drawing is in the design's frame (the arbors' ``at``), seen from the front.
+    """
+    previous = ezdxf.options.write_fixed_meta_data_for_testing
+    ezdxf.options.write_fixed_meta_data_for_testing = True  # no dates, fixed GUIDs
+    try:
+        doc = ezdxf.new("R2010", setup=False)
+        doc.units = 4  # millimetres
+        doc.header["$MEASUREMENT"] = 1
+        for layer, colour in PLATE_LAYERS.items():
+            doc.layers.add(layer, color=colour)
+        msp = doc.modelspace()
+        for e in part.outline:
+            _add_segment(
+                msp, Segment(e.kind, np.array(e.points, dtype=float)), "OUTLINE"
+            )
+        for h in part.holes:
+            layer = _PLATE_LAYER_OF_ROLE.get(h.role, "PIVOTS")
+            msp.add_circle((h.x, h.y), h.diameter / 2, dxfattribs={"layer": layer})
+            c = h.diameter / 2 + 1.0
+            attrs = {"layer": "CENTRES"}
+            msp.add_line((h.x - c, h.y), (h.x + c, h.y), dxfattribs=attrs)
+            msp.add_line((h.x, h.y - c), (h.x, h.y + c), dxfattribs=attrs)
+        doc.header["$PROJECTNAME"] = part.name
+        _save(doc, path)
     finally:
         ezdxf.options.write_fixed_meta_data_for_testing = previous
     return path

@@ -18,8 +18,8 @@ __all__ = ["SheetWriter", "SHEET_WRITERS"]
 
 SheetWriter = Callable[[Any, Sequence[Any], Sequence[Any], Path], list[Path]]
 
-from ..layout.drilling import drilling_sheet_writer  # noqa: E402  (after the type alias)
-from ..workshop.cutting import cutting_sheet_writer  # noqa: E402
+from ..workshop.cutting import cutting_sheet_writer  # noqa: E402  (after the type alias)
+from ..workshop.drilling import drilling_sheet_writer  # noqa: E402
 from ..workshop.parts_bill import parts_sheet_writer  # noqa: E402
 from ..workshop.report import report_writer  # noqa: E402
 

@@ -13,9 +13,10 @@ from pathlib import Path
 
 import numpy as np
 
+from ..layout.part_plan import PlatePart
 from ..layout.wheel_profile import PlateProfile
 
-__all__ = ["SCALE_BAR_MM", "write_svg"]
+__all__ = ["SCALE_BAR_MM", "write_plate_svg", "write_svg"]
 
 #: Length of the printed scale bar in mm.
 SCALE_BAR_MM = 50.0
@@ -105,23 +106,94 @@ def write_svg(
         f"teeth {teeth}, module {_fmt(module)} mm, pitch circle dashed "
         f"(d = {_fmt(2 * profile.pitch_radius)} mm)</text>",
         "</g>",
+        *_scale_bar(bar_x0, bar_y),
+        "</svg>",
+        "",
+    ]
+    Path(path).write_text("\n".join(lines), encoding="utf-8", newline="\n")
+    return path
+
+
+def _scale_bar(x0: float, y: float) -> list[str]:
+    """The 50 mm check bar with 10 mm ticks, its left end at (x0, y) (page mm)."""
+    out = [
         '<g id="scale-bar" stroke="#000" stroke-width="0.2" font-family="sans-serif" '
         'font-size="3">',
-        f'<line x1="{_fmt(bar_x0)}" y1="{_fmt(bar_y)}" x2="{_fmt(bar_x0 + SCALE_BAR_MM)}" '
-        f'y2="{_fmt(bar_y)}"/>',
+        f'<line x1="{_fmt(x0)}" y1="{_fmt(y)}" x2="{_fmt(x0 + SCALE_BAR_MM)}" '
+        f'y2="{_fmt(y)}"/>',
     ]
     for k in range(int(SCALE_BAR_MM // 10) + 1):
-        x = bar_x0 + 10.0 * k
-        lines.append(
-            f'<line x1="{_fmt(x)}" y1="{_fmt(bar_y - 2)}" x2="{_fmt(x)}" y2="{_fmt(bar_y)}"/>'
+        x = x0 + 10.0 * k
+        out.append(
+            f'<line x1="{_fmt(x)}" y1="{_fmt(y - 2)}" x2="{_fmt(x)}" y2="{_fmt(y)}"/>'
         )
-    lines += [
-        f'<text x="{_fmt(bar_x0)}" y="{_fmt(bar_y + 4)}" stroke="none">0</text>',
-        f'<text x="{_fmt(bar_x0 + SCALE_BAR_MM)}" y="{_fmt(bar_y + 4)}" stroke="none" '
+    out += [
+        f'<text x="{_fmt(x0)}" y="{_fmt(y + 4)}" stroke="none">0</text>',
+        f'<text x="{_fmt(x0 + SCALE_BAR_MM)}" y="{_fmt(y + 4)}" stroke="none" '
         f'text-anchor="middle">{_fmt(SCALE_BAR_MM)} mm</text>',
-        f'<text x="{_fmt(bar_x0 + SCALE_BAR_MM / 2)}" y="{_fmt(bar_y + 8)}" stroke="none" '
+        f'<text x="{_fmt(x0 + SCALE_BAR_MM / 2)}" y="{_fmt(y + 8)}" stroke="none" '
         'text-anchor="middle">print at 100 % (actual size) and check this bar with a rule</text>',
         "</g>",
+    ]
+    return out
+
+
+_ROLE_COLOUR = {"pillar": "#1f5f8b", "screw": "#1f5f8b", "mounting": "#7a4f9a"}
+
+
+def write_plate_svg(
+    part: PlatePart, path: Path, loop: np.ndarray, title: str = ""
+) -> Path:
+    """Write a plate's 1:1 template: outline, every hole with a centre cross and its
+    size, and the 50 mm check bar. ``loop`` is the outline as a closed polyline (mm)."""
+    x0, y0 = loop.min(axis=0)
+    x1, y1 = loop.max(axis=0)
+    left, top = float(x0) - _MARGIN, -(float(y1) + _MARGIN)
+    width = max(float(x1 - x0) + 2 * _MARGIN, 2 * _MIN_HALF_WIDTH)
+    height = float(y1 - y0) + 2 * _MARGIN + _TEXT_BAND
+    heading = title or f"{part.name}: 1:1 template, millimetres, seen from the front"
+    lines = [
+        '<?xml version="1.0" encoding="UTF-8"?>',
+        f'<svg xmlns="http://www.w3.org/2000/svg" width="{_fmt(width)}mm" '
+        f'height="{_fmt(height)}mm" viewBox="{_fmt(left)} {_fmt(top)} {_fmt(width)} '
+        f'{_fmt(height)}">',
+        f"<title>{_esc(heading)}</title>",
+        '<g id="outline" fill="none" stroke="#000" stroke-width="0.15">',
+        f'<path d="{_path_d(loop)}"/>',
+        "</g>",
+        '<g id="holes" fill="none" stroke-width="0.1">',
+    ]
+    for h in part.holes:
+        colour = _ROLE_COLOUR.get(h.role, "#000")
+        r, c = h.diameter / 2, h.diameter / 2 + 1.5
+        lines += [
+            f'<circle cx="{_fmt(h.x)}" cy="{_fmt(-h.y)}" r="{_fmt(r)}" stroke="{colour}">'
+            f"<title>{_esc(h.role)} hole for {_esc(h.label)}</title></circle>",
+            f'<path d="M{_fmt(h.x - c)},{_fmt(-h.y)} H{_fmt(h.x + c)} '
+            f'M{_fmt(h.x)},{_fmt(-h.y - c)} V{_fmt(-h.y + c)}" stroke="#000"/>',
+        ]
+    lines.append("</g>")
+    lines.append('<g id="sizes" font-family="sans-serif" font-size="2" fill="#000">')
+    placed: list[tuple[float, float]] = []
+    for h in sorted(part.holes, key=lambda h: (-h.y, h.x)):
+        tx, ty = h.x + h.diameter / 2 + 1.8, -h.y - 0.8
+        # labels of holes close together are stacked downwards, one line each
+        while any(abs(ty - py) < 2.4 and abs(tx - px) < 30.0 for px, py in placed):
+            ty += 2.4
+        placed.append((tx, ty))
+        lines.append(
+            f'<text x="{_fmt(tx)}" y="{_fmt(ty)}">'
+            f"\u00d8{_fmt(h.diameter)} {_esc(h.label)}</text>"
+        )
+    lines.append("</g>")
+    y_text = float(-y0) + _MARGIN + 5.0
+    lines += [
+        f'<text x="{_fmt(left + 5)}" y="{_fmt(y_text)}" font-family="sans-serif" '
+        f'font-size="3.5">{_esc(heading)}</text>',
+        f'<text x="{_fmt(left + 5)}" y="{_fmt(y_text + 5)}" font-family="sans-serif" '
+        f'font-size="3">{_fmt(part.thickness)} mm sheet; centre-punch each cross, drill'
+        " small first, then to size (positions: drilling chart)</text>",
+        *_scale_bar(left + 30, y_text + 14.0),
         "</svg>",
         "",
     ]

@@ -110,16 +110,6 @@ def findings_for_layout(layout: Layout, rates: dict[str, Any]) -> list[Finding]:
                     advice="add a [[stock]] tube of that size, or make the tube",
                 )
             )
-    for arbor, other, d in layout.stacking.one_plate:
-        out.append(
-            Finding(
-                "note",
-                "layout.one_plate",
-                f"arbor {arbor}",
-                f'arbor "{arbor}" is held by one plate only: its axis is {_mm(d)} from'
-                f' arbor "{other}", so the two cannot both run plate to plate',
-            )
-        )
     out.extend(_clash_findings(find_clashes(layout, rates)))
     out.extend(_pin_findings(find_pin_clashes(layout, rates)))
     out.extend(_face_findings(design))

@@ -35,7 +35,7 @@ from ..design.model import Design, PinSlot
 from ..kinematics.rates import axis_root
 from ..teeth.spec import ToothSpec, outline_for
 from .pinslot_geometry import pin_boss
-from .placement import tooth_spec
+from .placement import nominal_tip_radius, tooth_spec
 from .plan import Layout
 
 __all__ = [
@@ -80,16 +80,6 @@ class Clash:
     depth: float
     z0: float
     z1: float
-
-
-def nominal_tip_radius(spec: ToothSpec) -> float:
-    """Tip radius (mm) before any tip shortening: ``m (z/2 + h_a + x)``.
-
-    ISO 21771:2007, tip diameter ``d_a = d + 2 m (h_aP* + x)`` with no tip shortening;
-    triangular teeth have no profile shift.
-    """
-    shift = spec.shift if spec.form == "involute" else 0.0
-    return spec.module * (spec.teeth / 2.0 + spec.addendum + shift)
 
 
 @lru_cache(maxsize=256)

@@ -20,8 +20,17 @@ __all__ = [
     "ArborPart",
     "SleevePart",
     "PinPart",
+    "FlatEdge",
+    "FlatHole",
+    "PlatePart",
+    "PillarPart",
+    "CockPart",
+    "ScrewPart",
+    "BearingPart",
     "Part",
     "SeatShape",
+    "BOUGHT_KINDS",
+    "FLAT_KINDS",
 ]
 
 SeatShape = Literal["round", "square", "hex", "pinned"]
@@ -132,4 +141,141 @@ class PinPart:
     kind: Literal["pin"] = "pin"
 
 
-Part = Union[WheelPart, ArborPart, SleevePart, PinPart]
+@dataclass(frozen=True, slots=True)
+class FlatEdge:
+    """One piece of a flat part's outline: a ``line`` (2 points) or an ``arc`` (start,
+    a point on it, end), in mm in the part's own frame."""
+
+    kind: Literal["line", "arc"]
+    points: tuple[tuple[float, float], ...]
+
+
+@dataclass(frozen=True, slots=True)
+class FlatHole:
+    """A round hole through a flat part: centre and diameter (mm), what it is for.
+
+    ``role`` groups holes by their use (``"pivot"``, ``"held"``, ``"bush"``,
+    ``"bearing"``, ``"pillar"``, ``"screw"``, ``"mounting"``): each group gets its own
+    layer in the DXF. ``label`` names what goes through it.
+    """
+
+    x: float
+    y: float
+    diameter: float
+    role: str
+    label: str
+
+
+@dataclass(frozen=True, slots=True)
+class PlatePart:
+    """A frame plate: a closed outline (counter-clockwise) with round holes, ``thickness``
+    mm thick from z = 0 up. Its frame is the design's own (x, y as the arbors' ``at``)."""
+
+    name: str
+    thickness: float
+    outline: tuple[FlatEdge, ...]
+    holes: tuple[FlatHole, ...]
+    placement: Placement = Placement()
+    kind: Literal["plate"] = "plate"
+
+
+@dataclass(frozen=True, slots=True)
+class PillarPart:
+    """A pillar between the plates, standing on z = 0 along +Z.
+
+    ``spigot`` > 0: a turned pillar with a spigot of that diameter at each end, passing
+    through the plates (``back_spigot`` and ``front_spigot`` mm long); 0: a plain bar.
+    ``length`` is the body between the plates' inner faces. Each end may have a blind
+    hole (``*_hole`` diameter, ``*_depth`` deep; 0: none) for a screw.
+    """
+
+    name: str
+    diameter: float
+    length: float
+    spigot: float = 0.0
+    back_spigot: float = 0.0
+    front_spigot: float = 0.0
+    back_hole: float = 0.0
+    back_depth: float = 0.0
+    front_hole: float = 0.0
+    front_depth: float = 0.0
+    placement: Placement = Placement()
+    kind: Literal["pillar"] = "pillar"
+
+
+@dataclass(frozen=True, slots=True)
+class CockPart:
+    """A cock (bridge) that holds an arbor's second pivot, screwed to a plate.
+
+    In its own frame the pivot is on the origin and the bar runs along +X to ``length``
+    (the centre of its far end), ``width`` wide with round ends and ``thickness``
+    thick. A foot of the same width stands from ``foot_from`` to ``length`` along the
+    bar and ``foot_height`` high, on the plate: below the bar (``hanging`` false, the
+    foot's face on z = 0) or above it (``hanging`` true, the bar's face on z = 0).
+    ``pivot_hole`` is the hole for the arbor (mm); ``screws`` are the x positions of the
+    tapped holes for its screws, ``screw_hole`` across and ``screw_depth`` deep from
+    the foot's face (through foot and bar when that is their height).
+    """
+
+    name: str
+    length: float
+    width: float
+    thickness: float
+    foot_from: float
+    foot_height: float
+    pivot_hole: float
+    screws: tuple[float, ...]
+    screw_hole: float
+    screw_depth: float
+    hanging: bool = False
+    placement: Placement = Placement()
+    kind: Literal["cock"] = "cock"
+
+
+@dataclass(frozen=True, slots=True)
+class ScrewPart:
+    """A bought socket head cap screw, drawn as fitted: its head and the core of its
+    thread (so it never seems to overlap the tapped hole it holds in). Head down on
+    z = 0 unless ``head_up`` (then the shank stands on z = 0 and the head on top)."""
+
+    name: str
+    size: str  # "M3"
+    length: float  # under the head
+    head_diameter: float
+    head_height: float
+    core: float
+    head_up: bool = False
+    placement: Placement = Placement()
+    kind: Literal["screw"] = "screw"
+
+
+@dataclass(frozen=True, slots=True)
+class BearingPart:
+    """A bought bush or ball bearing from the design's stock list: a ring ``width`` mm
+    long from z = 0 up; ``stock_kind`` is ``"bush"`` or ``"bearing"``."""
+
+    name: str
+    inside: float
+    outside: float
+    width: float
+    stock_kind: str
+    placement: Placement = Placement()
+    kind: Literal["bearing"] = "bearing"
+
+
+Part = Union[
+    WheelPart,
+    ArborPart,
+    SleevePart,
+    PinPart,
+    PlatePart,
+    PillarPart,
+    CockPart,
+    ScrewPart,
+    BearingPart,
+]
+
+#: Kinds of part that are bought, not made: no part files, only in the assembly.
+BOUGHT_KINDS = frozenset({"screw", "bearing"})
+#: Kinds of part that are flat (a profile cut from sheet): DXF and SVG as well.
+FLAT_KINDS = frozenset({"wheel", "plate"})

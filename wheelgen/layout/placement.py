@@ -32,6 +32,7 @@ __all__ = [
     "Placing",
     "arbor_positions",
     "mesh_centre_distance",
+    "nominal_tip_radius",
     "place_axes",
     "tooth_spec",
     "working_centre_distance",
@@ -58,6 +59,16 @@ def tooth_spec(wheel: Wheel) -> ToothSpec:
         tip_radius=wheel.tip_radius,
         thinning=thinning_for(wheel.backlash),
     )
+
+
+def nominal_tip_radius(spec: ToothSpec) -> float:
+    """Tip radius (mm) before any tip shortening: ``m (z/2 + h_a + x)``.
+
+    ISO 21771:2007, tip diameter ``d_a = d + 2 m (h_aP* + x)`` with no tip shortening;
+    triangular teeth have no profile shift.
+    """
+    shift = spec.shift if spec.form == "involute" else 0.0
+    return spec.module * (spec.teeth / 2.0 + spec.addendum + shift)
 
 
 def working_centre_distance(spec1: ToothSpec, spec2: ToothSpec) -> float:

@@ -32,6 +32,7 @@ __all__ = [
     "running_bore",
     "seat_factor",
     "size_sleeves",
+    "stock_fits",
     "wheel_bore",
 ]
 
@@ -127,7 +128,8 @@ def _round_up(x: float, step: float) -> float:
     return round(math.ceil(x / step - 1e-9) * step, 6)
 
 
-def _stock_fits(process: Process, bore: Bore, s: Stock) -> bool:
+def stock_fits(process: Process, bore: Bore, s: Stock) -> bool:
+    """Does the bore of stock ``s`` give ``bore``'s running fit (tube or bush)?"""
     if process.kind == "print":
         # derived: within half to one and a half times the radial clearance asked for
         c = process.clearance
@@ -141,6 +143,7 @@ def size_sleeves(design: Design) -> dict[str, SleeveSize]:
     wall_min = proc.wall_minimum
     sizes: dict[str, SleeveSize] = {}
     outside: dict[str, float] = {}
+    tubes = [s for s in design.stock if s.kind == "tube"]
     for root, members in coaxial_groups(design).items():
         outside[root] = design.arbor(root).diameter
         for name in members[1:]:
@@ -153,8 +156,8 @@ def size_sleeves(design: Design) -> dict[str, SleeveSize]:
             stock: Stock | None = None
             fitting = [
                 s
-                for s in design.stock
-                if _stock_fits(proc, bore, s)
+                for s in tubes
+                if stock_fits(proc, bore, s)
                 and (s.outside * factor - s.inside) / 2 >= wall_min - 1e-9
             ]
             if fitting:
@@ -173,7 +176,7 @@ def size_sleeves(design: Design) -> dict[str, SleeveSize]:
                 round((out * factor - inside) / 2, 6),
                 wall_min,
                 stock,
-                bool(design.stock) and stock is None,
+                bool(tubes) and stock is None,
             )
     return sizes
 

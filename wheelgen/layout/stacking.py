@@ -8,7 +8,10 @@ hub_length`` (the hub stands on the front face). The rules:
   pin-and-slot coupling) cannot both do so: the one whose wheels lie further back runs
   from the back plate to its last wheel, the other from its first wheel to the front
   plate, each held by one plate. The two axes of a pin-and-slot coupling are always
-  split so, whatever their offset.
+  split so, whatever their offset. An arbor whose way to one plate is barred by a
+  wheel (or hub) of another axis fixed in the frame, lying across its axis between its
+  own wheels and that plate, runs to the other plate only. (The frame then gives each
+  such arbor a cock: :mod:`wheelgen.frame.cocks`.)
 - A carried arbor spans its wheels and the carrier wheel, in which it turns.
 - A sleeve spans its own wheel seats and everything around it: an outer tube rides on
   the inner one, so inner tubes are longer and every seat must lie outside the tubes
@@ -29,6 +32,7 @@ from dataclasses import dataclass
 from ..design.model import Design
 from ..design.model import Seat as SeatShape
 from ..kinematics.rates import axis_root
+from .placement import nominal_tip_radius, tooth_spec
 from .sleeves import SleeveSize, coaxial_groups, member_outside
 
 __all__ = [
@@ -230,6 +234,10 @@ def stack_axes(
                 lower, upper = (a, b) if za <= zb else (b, a)
                 split[lower], split[upper] = "back", "front"
                 one_plate.extend([(lower, upper, d), (upper, lower, d)])
+    for root, (plate, wheel, d) in _barred(design, spans, positions, mounted, plate_z):
+        if root not in split:
+            split[root] = "front" if plate == "back" else "back"
+            one_plate.append((root, wheel, d))
     for root in groups:
         arbor = design.arbor(root)
         s = spans[root]
@@ -262,6 +270,49 @@ def stack_axes(
                 if overlap > _EPS:
                     hidden.append(HiddenSeat(seat.wheel, name, c, overlap))
     return Stacking(spans, tuple(hidden), tuple(one_plate))
+
+
+def _barred(
+    design: Design,
+    spans: dict[str, MemberSpan],
+    positions: dict[str, tuple[float, float]],
+    mounted: list[str],
+    plate_z: dict[str, tuple[float, float]],
+) -> list[tuple[str, tuple[str, str, float]]]:
+    """Mounted axes that one plate only is barred from: (axis, (that plate, the wheel in
+    the way, distance between the axes in mm)). An axis barred from both plates is left
+    out (it runs to both, and the collision check reports it)."""
+    if not plate_z:
+        return []
+    discs = []  # (axis, z0, z1, radius, wheel) of wheels and hubs on fixed axes
+    for w in design.wheels:
+        root = axis_root(design, w.arbor)
+        if root not in mounted:
+            continue
+        top = w.height + w.face_width
+        discs.append((root, w.height, top, nominal_tip_radius(tooth_spec(w)), w.name))
+        if w.hub_diameter > 0 and w.hub_length > 0:
+            discs.append((root, top, top + w.hub_length, w.hub_diameter / 2, w.name))
+    out = []
+    for a in mounted:
+        span = spans[a]
+        if not span.seats:
+            continue
+        ways = {
+            "back": (plate_z["back"][1], span.z0),
+            "front": (span.z1, plate_z["front"][0]),
+        }
+        ra = design.arbor(a).diameter / 2
+        barred: dict[str, tuple[str, float]] = {}
+        for plate, (lo, hi) in ways.items():
+            for b, z0, z1, r, wheel in discs:
+                d = math.dist(positions[a], positions[b])
+                if b != a and z0 < hi - _EPS and z1 > lo + _EPS and d < r + ra - _EPS:
+                    barred.setdefault(plate, (wheel, d))
+        if len(barred) == 1:
+            ((plate, (wheel, d)),) = barred.items()
+            out.append((a, (plate, wheel, d)))
+    return out
 
 
 def _mean_z(span: MemberSpan) -> float:

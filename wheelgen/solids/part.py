@@ -6,8 +6,20 @@ from typing import Any
 
 import cadquery as cq
 
-from ..layout.part_plan import ArborPart, Part, PinPart, SleevePart, WheelPart
+from ..layout.part_plan import (
+    ArborPart,
+    BearingPart,
+    CockPart,
+    Part,
+    PillarPart,
+    PinPart,
+    PlatePart,
+    ScrewPart,
+    SleevePart,
+    WheelPart,
+)
 from .arbor import make_arbor
+from .frame import make_bearing, make_cock, make_pillar, make_plate, make_screw
 from .pin import make_pin
 from .sleeve import make_sleeve
 from .wheel import make_wheel
@@ -25,6 +37,16 @@ def make_part(part: Part) -> cq.Shape:
         return make_sleeve(part)
     if isinstance(part, PinPart):
         return make_pin(part)
+    if isinstance(part, PlatePart):
+        return make_plate(part)
+    if isinstance(part, PillarPart):
+        return make_pillar(part)
+    if isinstance(part, CockPart):
+        return make_cock(part)
+    if isinstance(part, ScrewPart):
+        return make_screw(part)
+    if isinstance(part, BearingPart):
+        return make_bearing(part)
     raise TypeError(f"cannot build a part of type {type(part).__name__}")
 
 
@@ -36,7 +58,7 @@ def part_location(part: Part) -> cq.Location:
 
 def design_parts(design: Any) -> dict[str, tuple[cq.Shape, cq.Location]]:
     """Every part of a loaded design: name -> (solid in its own frame, placement)."""
-    from ..layout import plan_parts
+    from ..frame import plan_parts
 
     return {p.name: (make_part(p), part_location(p)) for p in plan_parts(design)}
 

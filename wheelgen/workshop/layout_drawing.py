@@ -1,4 +1,5 @@
-"""The layout drawing: plates, arbors, pitch circles, meshes and couplings, with names.
+"""The layout drawing: plate outline, pillars, cocks, arbors, pitch circles, meshes and
+couplings, with names.
 
 Seen from the front, in millimetres (one SVG user unit is one mm; the page scales it).
 Arbor positions come from :func:`wheelgen.layout.arbor_positions`; a carried arbor is
@@ -12,7 +13,8 @@ import math
 from typing import Mapping
 
 from ..design.model import Design
-from ._svg import colour, esc, fmt
+from ..frame.plan import FramePlan, plan_frame
+from ._svg import colour, esc, fmt, path_d
 
 __all__ = [
     "layout_svg",
@@ -99,13 +101,27 @@ def _arbor_colours(design: Design) -> dict[str, str]:
 def layout_svg(design: Design, positions: Mapping[str, Point]) -> str:
     """The layout drawing as one ``<svg>`` element (text), seen from the front.
 
-    Plates are drawn as the rectangle round every wheel (their exact shape is on the
-    drilling chart); pitch circles in their arbor's colour; a mesh as a line between
-    centres labelled with both tooth counts; a pin-and-slot coupling as the pin circle
-    and the offset between the two axes.
+    The plates are drawn with their real outline, the pillars and the cocks' bars
+    (:func:`wheelgen.frame.plan.plan_frame`); pitch circles in their arbor's colour; a
+    mesh as a line between centres labelled with both tooth counts; a pin-and-slot
+    coupling as the pin circle and the offset between the two axes.
     """
     centres = axis_centres(design, positions)
     ext = drawing_extent(design, centres)
+    frame: FramePlan | None = None
+    if design.frame is not None:
+        try:
+            frame = plan_frame(design)
+        except ValueError:  # no layout: the findings say why
+            frame = None
+    if frame is not None:
+        loop = frame.outline_loop(0.1)
+        ext = (
+            min(ext[0], float(loop[:, 0].min())),
+            min(ext[1], float(loop[:, 1].min())),
+            max(ext[2], float(loop[:, 0].max())),
+            max(ext[3], float(loop[:, 1].max())),
+        )
     fs = label_size(ext)
     margin = 4 * fs
     x0, y0, x1, y1 = ext[0] - margin, ext[1] - margin, ext[2] + margin, ext[3] + margin
@@ -117,19 +133,33 @@ def layout_svg(design: Design, positions: Mapping[str, Point]) -> str:
         f'font-family="sans-serif" font-size="{fmt(fs)}">',
         "<title>Layout seen from the front (mm)</title>",
     ]
-    if design.frame is not None:
-        px0, py0, px1, py1 = ext[0] - fs, ext[1] - fs, ext[2] + fs, ext[3] + fs
+    if frame is not None and design.frame is not None:
         out.append(
-            f'<rect x="{fmt(px0)}" y="{fmt(-py1)}" width="{fmt(px1 - px0)}" '
-            f'height="{fmt(py1 - py0)}" rx="{fmt(2 * fs)}" fill="#f4f1ea" '
-            f'stroke="#8a8170" stroke-width="{fmt(fs / 8)}"/>'
+            f'<path d="{path_d([loop], 2)}" fill="#f4f1ea" stroke="#8a8170" '
+            f'stroke-width="{fmt(fs / 8)}"><title>plate outline</title></path>'
         )
         plates = ", ".join(f"{h:g}" for h in design.frame.plates)
         out.append(
-            f'<text x="{fmt(px0)}" y="{fmt(-py1 - fs / 2)}" fill="#6b6354">'
-            f"plates (outline indicative): inner faces at {plates} mm, "
-            f"{design.frame.thickness:g} mm thick</text>"
+            f'<text x="{fmt(ext[0])}" y="{fmt(-ext[3] - fs)}" fill="#6b6354">'
+            f"plates: inner faces at {plates} mm, {design.frame.thickness:g} mm thick;"
+            f" {len(frame.pillars)} pillars"
+            + (f", {len(frame.cocks)} cock(s)" if frame.cocks else "")
+            + "</text>"
         )
+        for c in frame.cocks:
+            (ax, ay), (bx, by) = (c.x, c.y), c.along(c.length)
+            out.append(
+                f'<line x1="{fmt(ax)}" y1="{fmt(-ay)}" x2="{fmt(bx)}" y2="{fmt(-by)}" '
+                f'stroke="#b8a36a" stroke-width="{fmt(c.width)}" stroke-linecap="round" '
+                f'stroke-opacity="0.8"><title>{esc(c.name)}</title></line>'
+            )
+        r_p = frame.limits.pillar_diameter / 2
+        for p in frame.pillars:
+            out.append(
+                f'<circle cx="{fmt(p.x)}" cy="{fmt(-p.y)}" r="{fmt(r_p)}" fill="#8d9096" '
+                f'stroke="#333" stroke-width="{fmt(fs / 10)}"><title>{esc(p.name)}'
+                "</title></circle>"
+            )
     # pitch circles, biggest first so small ones stay visible on top
     wheels = sorted(
         (w for w in design.wheels if w.arbor in centres),

@@ -1,9 +1,11 @@
-"""A small drawing of one part for the report: a wheel face-on, a shaft or tube side-on.
+"""A small drawing of one part for the report: a wheel or plate face-on, a shaft, tube
+or pillar side-on, a cock from above.
 
 The wheel is its flat profile (toothed outline and every hole, the very loops the
-solid is extruded from) with the pitch circle dashed; an arbor, sleeve or pin is a
-side view with its seats and collars. Sizes in mm; the SVG scales to the page, and
-the caption gives the real size.
+solid is extruded from) with the pitch circle dashed; a plate its outline and holes; an
+arbor, sleeve, pin or pillar is a side view with its seats, collars and spigots; a cock
+its bar with the foot dashed. Sizes in mm; the SVG scales to the page, and the caption
+gives the real size.
 """
 
 from __future__ import annotations
@@ -12,7 +14,16 @@ from typing import Any
 
 import numpy as np
 
-from ..layout.part_plan import ArborPart, PinPart, SleevePart, WheelPart
+from ..frame.outline import edges_polyline
+from ..layout.part_plan import (
+    ArborPart,
+    CockPart,
+    PillarPart,
+    PinPart,
+    PlatePart,
+    SleevePart,
+    WheelPart,
+)
 from ..layout.wheel_profile import plate_profile
 from ..teeth.outline import WheelOutline
 from ..teeth.spec import outline_for
@@ -105,10 +116,103 @@ def _side_svg(part: ArborPart | SleevePart | PinPart) -> str:
     return "".join(out)
 
 
+def _plate_svg(part: PlatePart) -> str:
+    loop = edges_polyline(part.outline, 0.2)
+    (x0, y0), (x1, y1) = loop.min(axis=0), loop.max(axis=0)
+    pad = 0.04 * max(x1 - x0, y1 - y0)
+    sw = max(x1 - x0, y1 - y0) / 300
+    holes = [
+        f'<circle cx="{fmt(h.x)}" cy="{fmt(-h.y)}" r="{fmt(h.diameter / 2)}" '
+        f'fill="#fff" stroke="#333" stroke-width="{fmt(sw, 4)}"/>'
+        for h in part.holes
+    ]
+    return (
+        f'<svg xmlns="http://www.w3.org/2000/svg" class="part" '
+        f'viewBox="{fmt(x0 - pad)} {fmt(-y1 - pad)} {fmt(x1 - x0 + 2 * pad)} '
+        f'{fmt(y1 - y0 + 2 * pad)}"><title>{esc(part.name)}</title>'
+        f'<path d="{path_d([loop], 2)}" fill="#e6dcb8" stroke="#333" '
+        f'stroke-width="{fmt(sw, 4)}"/>' + "".join(holes) + "</svg>"
+    )
+
+
+def _pillar_svg(part: PillarPart) -> str:
+    spigots = (part.back_spigot + part.front_spigot) if part.spigot > 0 else 0.0
+    length = part.length + spigots
+    h = max(part.diameter * 1.4, length / 6)
+    pad = max(length, h) * 0.04
+    sw = max(length, h) / 300
+    x = part.back_spigot if part.spigot > 0 else 0.0
+    out = [
+        f'<svg xmlns="http://www.w3.org/2000/svg" class="part side" '
+        f'viewBox="{fmt(-pad)} {fmt(-h / 2)} {fmt(length + 2 * pad)} {fmt(h)}">'
+        f"<title>{esc(part.name)}</title>",
+        f'<rect x="{fmt(x)}" y="{fmt(-part.diameter / 2)}" width="{fmt(part.length)}" '
+        f'height="{fmt(part.diameter)}" fill="#d0d2d6" stroke="#333" '
+        f'stroke-width="{fmt(sw, 4)}"/>',
+    ]
+    if part.spigot > 0:
+        for x0, w in ((0.0, part.back_spigot), (x + part.length, part.front_spigot)):
+            out.append(
+                f'<rect x="{fmt(x0)}" y="{fmt(-part.spigot / 2)}" width="{fmt(w)}" '
+                f'height="{fmt(part.spigot)}" fill="#d0d2d6" stroke="#333" '
+                f'stroke-width="{fmt(sw, 4)}"/>'
+            )
+    for x0, d, depth in (
+        (0.0, part.back_hole, part.back_depth),
+        (length - part.front_depth, part.front_hole, part.front_depth),
+    ):
+        if d > 0 and depth > 0:
+            out.append(
+                f'<rect x="{fmt(x0)}" y="{fmt(-d / 2)}" width="{fmt(depth)}" '
+                f'height="{fmt(d)}" fill="#fff" stroke="#333" stroke-width="{fmt(sw, 4)}" '
+                f'stroke-dasharray="{fmt(4 * sw, 4)} {fmt(2 * sw, 4)}"/>'
+            )  # fmt: skip
+    out.append("</svg>")
+    return "".join(out)
+
+
+def _cock_svg(part: CockPart) -> str:
+    w, r = part.width, part.width / 2
+    pad = 0.1 * (part.length + w)
+    sw = (part.length + w) / 200
+
+    def stadium(start: float, dash: str) -> str:
+        return (
+            f'<path d="M{fmt(start)},{fmt(-r)} L{fmt(part.length)},{fmt(-r)} '
+            f"A{fmt(r)},{fmt(r)} 0 0 1 {fmt(part.length)},{fmt(r)} L{fmt(start)},{fmt(r)} "
+            f'A{fmt(r)},{fmt(r)} 0 0 1 {fmt(start)},{fmt(-r)}Z" fill="none" stroke="#333" '
+            f'stroke-width="{fmt(sw, 4)}"{dash}/>'
+        )
+
+    holes = [(0.0, part.pivot_hole)] + [(x, part.screw_hole) for x in part.screws]
+    return (
+        f'<svg xmlns="http://www.w3.org/2000/svg" class="part" '
+        f'viewBox="{fmt(-r - pad)} {fmt(-r - pad)} {fmt(part.length + w + 2 * pad)} '
+        f'{fmt(w + 2 * pad)}"><title>{esc(part.name)}</title>'
+        + stadium(0.0, "").replace('fill="none"', 'fill="#e6dcb8"')
+        + stadium(
+            part.foot_from, f' stroke-dasharray="{fmt(3 * sw, 4)} {fmt(2 * sw, 4)}"'
+        )
+        + "".join(
+            f'<circle cx="{fmt(x)}" cy="0" r="{fmt(d / 2)}" fill="#fff" stroke="#333" '
+            f'stroke-width="{fmt(sw, 4)}"/>'
+            for x, d in holes
+        )
+        + "</svg>"
+    )
+
+
 def part_svg(part: Any) -> str:
-    """One part as an ``<svg>`` element (text); wheels face-on, the rest side-on."""
+    """One part as an ``<svg>`` element (text); wheels and plates face-on, shafts,
+    tubes and pillars side-on, cocks from above."""
     if isinstance(part, WheelPart):
         return _wheel_svg(part)
     if isinstance(part, (ArborPart, SleevePart, PinPart)):
         return _side_svg(part)
+    if isinstance(part, PlatePart):
+        return _plate_svg(part)
+    if isinstance(part, PillarPart):
+        return _pillar_svg(part)
+    if isinstance(part, CockPart):
+        return _cock_svg(part)
     raise ValueError(f"unknown part kind {type(part).__name__!r}")

@@ -1,13 +1,16 @@
 """The bill of parts: every part with its stock, quantity, overall size and volume.
 
-Stock is what the part is cut from: sheet of the wheel's face width, round rod for
-arbors and pins, tube (outside x inside diameter) for sleeves; a sleeve whose sizes
-match a tube listed in the design's ``[[stock]]`` says so. The volume is an estimate
-from plain numbers, not from the CAD kernel: a wheel's flat profile area (toothed
-outline minus bore, windows, slot and pin hole, from the same profile the solids are
-extruded from) times its face width, plus hub boss and pin boss; a sleeve is a round
-tube plus its collars (seat flats ignored). For printed parts that is the plastic used
-at 100 % infill. Lengths in mm, volumes in mm³.
+Stock is what the part is cut from: sheet of the wheel's face width or the plate's
+thickness, round rod for arbors, pins and pillars, tube (outside x inside diameter) for
+sleeves, a block for a cock; a sleeve whose sizes match a tube listed in the design's
+``[[stock]]`` says so. Bought parts (screws, bushes, bearings) are counted: one row per
+size, with how many and what they fix. The volume is an estimate from plain numbers,
+not from the CAD kernel: a wheel's flat profile area (toothed outline minus bore,
+windows, slot and pin hole, from the same profile the solids are extruded from) times
+its face width, plus hub boss and pin boss; a plate's outline area minus its holes,
+times its thickness; a sleeve is a round tube plus its collars (seat flats ignored).
+For printed parts that is the plastic used at 100 % infill. Lengths in mm, volumes in
+mm³.
 """
 
 from __future__ import annotations
@@ -21,7 +24,18 @@ from typing import Any, Sequence
 
 import numpy as np
 
-from ..layout.part_plan import ArborPart, PinPart, SleevePart, WheelPart
+from ..frame.outline import edges_polyline
+from ..layout.part_plan import (
+    ArborPart,
+    BearingPart,
+    CockPart,
+    PillarPart,
+    PinPart,
+    PlatePart,
+    ScrewPart,
+    SleevePart,
+    WheelPart,
+)
 from ..layout.wheel_profile import plate_profile
 from ..teeth.spec import outline_for
 
@@ -47,10 +61,10 @@ _AREA_TOL = 0.002
 class BillRow:
     """One line of the bill; lengths in mm, volume in mm³.
 
-    ``stock`` is ``"sheet"``, ``"rod"`` or ``"tube"``; ``thickness`` is the sheet
-    thickness, ``stock_outside``/``stock_inside`` the rod or tube diameters.
-    ``diameter`` x ``length`` is the part's overall size (largest diameter, axial
-    length).
+    ``stock`` is ``"sheet"``, ``"rod"``, ``"tube"``, ``"block"`` or ``"bought"``;
+    ``thickness`` is the sheet or block thickness, ``stock_outside``/``stock_inside``
+    the rod or tube diameters. ``diameter`` x ``length`` is the part's overall size
+    (largest diameter or across, axial length).
     """
 
     part: str
@@ -71,6 +85,10 @@ class BillRow:
         """The stock in words, e.g. ``"sheet 3 mm"``, ``"tube 5 x 3.2 mm"``."""
         if self.stock == "sheet":
             return f"sheet {self.thickness:g} mm"
+        if self.stock == "block":
+            return f"block {self.thickness:g} mm thick"
+        if self.stock == "bought":
+            return "bought"
         if self.stock == "tube":
             return f"tube {self.stock_outside:g} x {self.stock_inside:g} mm"
         return f"rod {self.stock_outside:g} mm"
@@ -149,8 +167,10 @@ def _wheel_row(part: WheelPart) -> BillRow:
 
 def _tube_note(design: Any, part: SleevePart) -> str:
     for tube in getattr(design, "stock", ()):
-        if math.isclose(tube.outside, part.outside, abs_tol=1e-6) and math.isclose(
-            tube.inside, part.inside, abs_tol=1e-6
+        if (
+            getattr(tube, "kind", "tube") == "tube"
+            and math.isclose(tube.outside, part.outside, abs_tol=1e-6)
+            and math.isclose(tube.inside, part.inside, abs_tol=1e-6)
         ):
             return "tube from the design's stock list"
     return ""
@@ -199,9 +219,139 @@ def _rod_row(part: ArborPart | PinPart) -> BillRow:
     )
 
 
-def bill_rows(design: Any, parts: Sequence[Any]) -> tuple[BillRow, ...]:
-    """One row per part, in the order of the part plan."""
+def _plate_row(part: PlatePart) -> BillRow:
+    loop = edges_polyline(part.outline, _AREA_TOL)
+    area = _loop_area(loop) - sum(math.pi / 4 * h.diameter**2 for h in part.holes)
+    w = float(loop[:, 0].max() - loop[:, 0].min())
+    h = float(loop[:, 1].max() - loop[:, 1].min())
+    return BillRow(
+        part=part.name,
+        kind="plate",
+        stock="sheet",
+        thickness=part.thickness,
+        stock_outside=None,
+        stock_inside=None,
+        quantity=1,
+        diameter=max(w, h),
+        length=part.thickness,
+        volume=area * part.thickness,
+        note=f"{w:.1f} x {h:.1f} mm, {len(part.holes)} holes (drilling chart)",
+    )
+
+
+def _pillar_row(part: PillarPart) -> BillRow:
+    r = part.diameter / 2
+    volume = math.pi * r**2 * part.length
+    length = part.length
+    notes = []
+    if part.spigot > 0:
+        spigots = part.back_spigot + part.front_spigot
+        volume += math.pi / 4 * part.spigot**2 * spigots
+        length += spigots
+        notes.append(
+            f"turned; spigots {part.spigot:g} mm at each end through the plates; back"
+            " end riveted over"
+        )
+    for end, d, depth in (
+        ("back", part.back_hole, part.back_depth),
+        ("front", part.front_hole, part.front_depth),
+    ):
+        if d > 0 and depth > 0:
+            volume -= math.pi / 4 * d**2 * depth
+            notes.append(f"{end} end drilled {d:g} mm x {depth:g} deep and tapped")
+    return BillRow(
+        part=part.name,
+        kind="pillar",
+        stock="rod",
+        thickness=None,
+        stock_outside=part.diameter,
+        stock_inside=None,
+        quantity=1,
+        diameter=part.diameter,
+        length=length,
+        volume=volume,
+        note="; ".join(notes),
+    )
+
+
+def _cock_row(part: CockPart) -> BillRow:
+    w = part.width
+    bar = (part.length * w + math.pi / 4 * w**2) * part.thickness
+    foot = ((part.length - part.foot_from) * w + math.pi / 4 * w**2) * part.foot_height
+    holes = math.pi / 4 * part.pivot_hole**2 * part.thickness
+    holes += len(part.screws) * math.pi / 4 * part.screw_hole**2 * part.screw_depth
+    height = part.thickness + part.foot_height
+    return BillRow(
+        part=part.name,
+        kind="cock",
+        stock="block",
+        thickness=height,
+        stock_outside=None,
+        stock_inside=None,
+        quantity=1,
+        diameter=part.length + w,
+        length=height,
+        volume=bar + foot - holes,
+        note=(
+            f"bar {w:g} mm wide, {part.thickness:g} mm thick, pivot hole"
+            f" {part.pivot_hole:g} mm; foot {part.foot_height:g} mm high with"
+            f" {len(part.screws)} holes {part.screw_hole:g} mm x {part.screw_depth:g}"
+            " deep, tapped; screw it on, then ream its pivot hole through the plate's"
+        ),
+    )
+
+
+def _bought_rows(parts: Sequence[Any]) -> list[BillRow]:
+    groups: dict[tuple[Any, ...], list[Any]] = {}
+    for p in parts:
+        if isinstance(p, ScrewPart):
+            key: tuple[Any, ...] = ("screw", p.size, p.length, p.head_diameter)
+        else:
+            key = (p.stock_kind, p.outside, p.inside, p.width)
+        groups.setdefault(key, []).append(p)
     rows = []
+    for key, items in groups.items():
+        first = items[0]
+        if isinstance(first, ScrewPart):
+            name = f"{first.size} x {first.length:g} screw"
+            note = "socket head cap screw, ISO 4762"
+            diameter, length = first.head_diameter, first.length + first.head_height
+            volume = (
+                math.pi
+                / 4
+                * (
+                    first.head_diameter**2 * first.head_height
+                    + first.core**2 * first.length
+                )
+            )
+        else:
+            name = f"{first.stock_kind} {first.outside:g} x {first.inside:g} x {first.width:g}"
+            note = "from the design's stock list"
+            diameter, length = first.outside, first.width
+            volume = math.pi / 4 * (first.outside**2 - first.inside**2) * first.width
+        rows.append(
+            BillRow(
+                part=name,
+                kind=key[0],
+                stock="bought",
+                thickness=None,
+                stock_outside=None,
+                stock_inside=None,
+                quantity=len(items),
+                diameter=diameter,
+                length=length,
+                volume=volume * len(items),
+                note=f"{note}; " + ", ".join(p.name for p in items),
+            )
+        )
+    return rows
+
+
+def bill_rows(design: Any, parts: Sequence[Any]) -> tuple[BillRow, ...]:
+    """One row per made part, in the order of the part plan, then one row per size
+    of bought part (screws, bushes, bearings) with the count."""
+    rows = []
+    bought = []
     for part in parts:
         if isinstance(part, WheelPart):
             rows.append(_wheel_row(part))
@@ -209,9 +359,17 @@ def bill_rows(design: Any, parts: Sequence[Any]) -> tuple[BillRow, ...]:
             rows.append(_sleeve_row(design, part))
         elif isinstance(part, (ArborPart, PinPart)):
             rows.append(_rod_row(part))
+        elif isinstance(part, PlatePart):
+            rows.append(_plate_row(part))
+        elif isinstance(part, PillarPart):
+            rows.append(_pillar_row(part))
+        elif isinstance(part, CockPart):
+            rows.append(_cock_row(part))
+        elif isinstance(part, (ScrewPart, BearingPart)):
+            bought.append(part)
         else:
             raise ValueError(f"unknown part kind {type(part).__name__!r}")
-    return tuple(rows)
+    return tuple(rows + _bought_rows(bought))
 
 
 def _num(value: float | None, digits: int = 3) -> str:

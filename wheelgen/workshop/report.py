@@ -28,9 +28,9 @@ from ..kinematics.targets import (
     arbor_sense,
     evaluate_targets,
 )
-from ..layout.drilling import drilling_svg, plate_holes
 from ..layout.placement import arbor_positions
 from .cutting import CuttingRow, cutting_rows, indexing_text
+from .drilling import chart_holes, drilling_svg
 from .layout_drawing import layout_svg
 from .motion_plot import motion_plot_svg
 from .part_drawing import part_svg
@@ -295,12 +295,17 @@ def _preview(
 
 def _parts(parts: Sequence[Any], bill: Sequence[BillRow]) -> str:
     figs = []
-    for part, row in zip(parts, bill):
-        size = (
-            f"\u00d8{row.diameter:.2f} x {row.length:g} mm"
-            if row.kind != "wheel"
-            else f"\u00d8{row.diameter:.2f} mm, {row.length:g} mm thick"
-        )
+    by_name = {r.part: r for r in bill}
+    for part in parts:
+        row = by_name.get(part.name)
+        if row is None:  # a bought part: counted in the bill, not drawn
+            continue
+        if row.kind == "wheel":
+            size = f"\u00d8{row.diameter:.2f} mm, {row.length:g} mm thick"
+        elif row.kind in ("plate", "cock"):
+            size = f"{row.diameter:.1f} mm across, {row.length:g} mm thick"
+        else:
+            size = f"\u00d8{row.diameter:.2f} x {row.length:g} mm"
         figs.append(
             f"<figure>{part_svg(part)}<figcaption><b>{_e(row.part)}</b> ({_e(row.kind)})"
             f"<br>{_e(size)}</figcaption></figure>"
@@ -404,7 +409,7 @@ def _drilling(design: Design, unchecked: bool) -> str:
         "charts are in the <code>drilling</code> folder of the build.</p>"
     ]
     for plate in ("back", "front"):
-        holes = plate_holes(design, plate)
+        holes = chart_holes(design, plate)
         rows = [
             [
                 _e(h.number),
