@@ -25,8 +25,8 @@ from wheelgen.checks.findings import Finding
 from wheelgen.design import load_design
 from wheelgen.frame import plan_parts
 from wheelgen.layout.part_plan import BOUGHT_KINDS
-from wheelgen.workshop.drilling import chart_holes
 from wheelgen.workshop.cutting import cutting_rows, cutting_sheet_writer
+from wheelgen.workshop.drilling import chart_holes
 from wheelgen.workshop.parts_bill import parts_sheet_writer
 from wheelgen.workshop.report import report_html, report_writer
 
