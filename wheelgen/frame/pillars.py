@@ -367,13 +367,13 @@ def _fillers(
     zones: Sequence[Zone], outline: np.ndarray, centre: np.ndarray, mid_deg: float
 ) -> list[str]:
     """The zones that cover the plate in the wedge of +-22.5 degrees about ``mid_deg``."""
-    ang = np.degrees(np.arctan2(*(outline - centre).T[::-1]))
-    near = np.abs((ang - mid_deg + 180.0) % 360.0 - 180.0) <= 22.5
-    reach = float(np.max(np.hypot(*(outline[near] - centre).T))) if near.any() else 0.0
-    t = np.radians(np.linspace(mid_deg - 22.5, mid_deg + 22.5, 7))
-    r = np.linspace(0.0, reach, 12)
+    reach = float(np.max(np.hypot(*(outline - centre).T)))
+    t = np.radians(np.linspace(mid_deg - 22.5, mid_deg + 22.5, 10))
+    r = np.linspace(0.0, reach, 40)
     px = centre[0] + np.outer(r, np.cos(t)).ravel()
     py = centre[1] + np.outer(r, np.sin(t)).ravel()
+    keep = inside_outline(np.column_stack((px, py)), outline)
+    px, py = px[keep], py[keep]
     names = []
     for z in zones:
         if np.any(disc_gap(px, py, 0.0, z) < 0) and z.label not in names:

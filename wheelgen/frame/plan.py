@@ -145,9 +145,15 @@ def _free(name: str, taken: set[str]) -> str:
     return out
 
 
-def _screw_length(limits: FrameLimits, depth: float, blind: bool) -> float | None:
-    """Shortest ISO 4762 length (mm) that holds and stays in a hole ``depth`` deep."""
-    t = limits.plate_thickness
+def _screw_length(
+    limits: FrameLimits, depth: float, blind: bool, plate: bool = True
+) -> float | None:
+    """Shortest ISO 4762 length (mm) that holds and stays in a hole ``depth`` deep.
+
+    ``plate``: the screw passes the plate before it reaches the hole (else the hole
+    starts at the face its head bears on, as in a pillar's spigot).
+    """
+    t = limits.plate_thickness if plate else 0.0
     top = t + depth - (0.5 if blind else 0.0)
     for length in SCREW_LENGTHS:
         if length >= t + limits.engagement - 1e-9:
@@ -348,7 +354,7 @@ def _fasteners(
     for p in pillars:
         ends = ("front",) if limits.spigot > 0 else ("back", "front")
         for side in ends:
-            length = _screw_length(limits, depth, blind=True)
+            length = _screw_length(limits, depth, blind=True, plate=limits.spigot <= 0)
             if length is None:
                 short.append((p.name, depth))
                 continue

@@ -1,0 +1,133 @@
+"""Frame outlines: the rounded hull round circles, rounded rectangles and polygons.
+
+Every expected value is derived beside the test from plane geometry; the outlines are
+measured on their own exact edges (lines and arcs), sampled finely.
+"""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+import pytest
+from hypothesis import given, settings
+from hypothesis import strategies as st
+
+from wheelgen.frame.outline import (
+    edges_polyline,
+    inside_outline,
+    outline_distance,
+    polygon_outline,
+    rectangle_outline,
+    rounded_hull,
+)
+
+
+def area(loop: np.ndarray) -> float:
+    x, y = loop[:, 0], loop[:, 1]
+    return 0.5 * float(np.dot(x, np.roll(y, -1)) - np.dot(y, np.roll(x, -1)))
+
+
+def closed_chain(edges) -> None:
+    for a, b in zip(edges, edges[1:] + edges[:1]):
+        assert a.points[-1] == b.points[0]
+
+
+def test_hull_of_two_equal_circles_is_a_stadium():
+    # derived: two circles of radius r, centres d apart: the hull is a stadium of area
+    # pi r^2 + 2 r d and perimeter 2 pi r + 2 d
+    r, d = 5.0, 30.0
+    edges = rounded_hull([(0.0, 0.0, r), (d, 0.0, r)])
+    closed_chain(list(edges))
+    assert [e.kind for e in edges].count("line") == 2
+    loop = edges_polyline(edges, 1e-4)
+    # chords of at most 1e-4 mm sagitta cut about 2/3 of that along the arcs' length
+    # (derived: a parabolic segment), 0.002 mm2 here
+    cut = 2 / 3 * 1e-4 * 2 * math.pi * r
+    assert area(loop) == pytest.approx(math.pi * r * r + 2 * r * d - cut, abs=1e-4)
+    perimeter = float(np.sum(np.hypot(*np.diff(np.vstack((loop, loop[:1])), axis=0).T)))
+    # chords are shorter than their arcs by theta^2 / 24 of the arcs (derived), 2e-4 mm
+    assert perimeter == pytest.approx(2 * math.pi * r + 2 * d, abs=5e-4)
+
+
+def test_sides_are_tangent_to_both_their_circles():
+    circles = [(0.0, 0.0, 10.0), (40.0, 5.0, 4.0), (10.0, 45.0, 7.0), (5.0, 5.0, 2.0)]
+    edges = rounded_hull(circles)
+    closed_chain(list(edges))
+    for e in edges:
+        if e.kind != "line":
+            continue
+        (ax, ay), (bx, by) = e.points
+        # derived: a tangent touches a circle where the distance from its centre to
+        # the line equals the radius; both ends of each side lie on such a circle
+        for px, py in e.points:
+            (cx, cy, r) = min(
+                circles, key=lambda c: abs(math.hypot(px - c[0], py - c[1]) - c[2])
+            )
+            dist = abs((bx - ax) * (ay - cy) - (ax - cx) * (by - ay)) / math.hypot(
+                bx - ax, by - ay
+            )
+            assert dist == pytest.approx(r, abs=1e-6)
+
+
+@settings(max_examples=40, deadline=None)
+@given(
+    st.lists(
+        st.tuples(
+            st.floats(-80, 80),
+            st.floats(-80, 80),
+            st.floats(0.5, 40),
+        ),
+        min_size=1,
+        max_size=8,
+    )
+)
+def test_hull_holds_every_circle_and_is_convex(circles):
+    edges = rounded_hull(circles)
+    loop = edges_polyline(edges, 0.001)
+    assert area(loop) > 0  # counter-clockwise
+    centres = np.array([(x, y) for x, y, _ in circles])
+    inside = inside_outline(centres, loop)
+    dist = outline_distance(centres, loop)
+    for (_, _, r), ins, d in zip(circles, inside, dist):
+        # each circle lies within the hull (within the sampling of 0.001 mm chords
+        # and the 1.2e-6 r bound of a missed arc)
+        assert ins and d >= r - 2e-3 - 2e-6 * r
+    # convex: every turn of the polyline goes left (or straight)
+    a, b, c = loop, np.roll(loop, -1, axis=0), np.roll(loop, -2, axis=0)
+    cross = (b[:, 0] - a[:, 0]) * (c[:, 1] - b[:, 1]) - (b[:, 1] - a[:, 1]) * (
+        c[:, 0] - b[:, 0]
+    )
+    assert np.all(cross >= -1e-6)
+
+
+def test_rounded_rectangle_area():
+    # derived: each rounded corner removes a square of side r less a quarter circle,
+    # r^2 (1 - pi / 4)
+    w, h, r = 120.0, 70.0, 6.0
+    loop = edges_polyline(rectangle_outline(-20.0, -10.0, w - 20.0, h - 10.0, r), 1e-4)
+    assert area(loop) == pytest.approx(w * h - 4 * r * r * (1 - math.pi / 4), rel=1e-6)
+    assert loop[:, 0].min() == pytest.approx(-20.0) and loop[
+        :, 1
+    ].max() == pytest.approx(h - 10.0)
+
+
+def test_polygon_with_a_reflex_corner_is_rounded_both_ways():
+    # an L of 60 x 60 with a 30 x 30 notch: five convex right corners lose
+    # r^2 (1 - pi/4) each and the reflex one gains as much (derived)
+    pts = [(0, 0), (60, 0), (60, 30), (30, 30), (30, 60), (0, 60)]
+    r = 4.0
+    edges = polygon_outline(pts, r)
+    closed_chain(list(edges))
+    loop = edges_polyline(edges, 1e-4)
+    expected = 60 * 60 - 30 * 30 - 4 * r * r * (1 - math.pi / 4)
+    assert area(loop) == pytest.approx(expected, rel=1e-6)
+    # given clockwise, the same outline comes back counter-clockwise
+    loop_cw = edges_polyline(polygon_outline(pts[::-1], r), 1e-4)
+    assert area(loop_cw) == pytest.approx(expected, rel=1e-6)
+
+
+def test_sharp_polygon_keeps_its_corners():
+    pts = [(0.0, 0.0), (50.0, 0.0), (25.0, 40.0)]
+    loop = edges_polyline(polygon_outline(pts, 0.0), 0.01)
+    assert area(loop) == pytest.approx(0.5 * 50 * 40)
