@@ -25,6 +25,7 @@ from typing import Any, Sequence
 import numpy as np
 
 from ..frame.outline import edges_polyline
+from ..frame.plan import plan_frame
 from ..layout.part_plan import (
     ArborPart,
     BearingPart,
@@ -274,7 +275,19 @@ def _pillar_row(part: PillarPart) -> BillRow:
     )
 
 
-def _cock_row(part: CockPart) -> BillRow:
+def _cock_how(design: Any, part: CockPart) -> str:
+    """How to line the cock's pivot up with the plate that holds its arbor."""
+    if getattr(design, "frame", None) is not None:
+        for c in plan_frame(design).cocks:
+            if c.name == part.name and c.plate != c.held_by:
+                return (
+                    f"screw it on, then ream its pivot hole in line with the {c.held_by}"
+                    " plate's (a rod through both)"
+                )
+    return "screw it on, then ream its pivot hole through the plate's"
+
+
+def _cock_row(design: Any, part: CockPart) -> BillRow:
     w = part.width
     bar = (part.length * w + math.pi / 4 * w**2) * part.thickness
     foot = ((part.length - part.foot_from) * w + math.pi / 4 * w**2) * part.foot_height
@@ -296,7 +309,7 @@ def _cock_row(part: CockPart) -> BillRow:
             f"bar {w:g} mm wide, {part.thickness:g} mm thick, pivot hole"
             f" {part.pivot_hole:g} mm; foot {part.foot_height:g} mm high with"
             f" {len(part.screws)} holes {part.screw_hole:g} mm x {part.screw_depth:g}"
-            " deep, tapped; screw it on, then ream its pivot hole through the plate's"
+            f" deep, tapped; {_cock_how(design, part)}"
         ),
     )
 
@@ -364,7 +377,7 @@ def bill_rows(design: Any, parts: Sequence[Any]) -> tuple[BillRow, ...]:
         elif isinstance(part, PillarPart):
             rows.append(_pillar_row(part))
         elif isinstance(part, CockPart):
-            rows.append(_cock_row(part))
+            rows.append(_cock_row(design, part))
         elif isinstance(part, (ScrewPart, BearingPart)):
             bought.append(part)
         else:

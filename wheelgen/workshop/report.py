@@ -21,6 +21,7 @@ from .. import __version__
 from ..checks.findings import Finding, has_errors, sort_findings
 from ..design.model import Design
 from ..design.periods import format_period
+from ..frame.plan import plan_frame
 from ..kinematics.rates import TrainSolution, solve_rates
 from ..kinematics.targets import (
     TargetResult,
@@ -403,10 +404,17 @@ def _cutting(rows: Sequence[CuttingRow]) -> str:
 def _drilling(design: Design, unchecked: bool) -> str:
     if design.frame is None:
         return "<p>The design has no frame plates: nothing to drill.</p>"
+    frame = plan_frame(design)
     out = [
         "<p>Datum: the axis of the drive arbor; X to the right, Y up, seen from the "
-        "front. The same figures drill the back plate from its inner face. The 1:1 "
-        "charts are in the <code>drilling</code> folder of the build.</p>"
+        "front. The same figures drill the back plate from its inner face. Every "
+        f"hole's position is held to \u00b1{frame.limits.position_tolerance:.3f} mm "
+        "(half the process's centre tolerance, so that two holes keep a mesh's "
+        "centre distance); diameters within the limits listed. The charts list the "
+        "pivots, the pillars' holes and the cocks' mounting holes; the 1:1 charts "
+        "(with the plate's outline and a 50 mm check bar) are in the "
+        "<code>drilling</code> folder of the build, the plates themselves in "
+        "<code>dxf</code> and <code>svg</code>.</p>"
     ]
     for plate in ("back", "front"):
         holes = chart_holes(design, plate)
