@@ -435,3 +435,30 @@ def test_frame_part_names_never_clash_with_the_design():
     design = loads_design(text, "clash.toml")
     names = [p.name for p in plan_parts(design)]
     assert "back_plate_frame" in names and len(names) == len(set(names))
+
+
+def test_thin_pillars_are_an_error():
+    # derived: a milled M3 pillar's 5 mm spigot with 0.75 mm of shoulder each side
+    # needs 6.5 mm
+    design = demo_variant(("thickness = 2.0", "thickness = 2.0\npillar_diameter = 6.0"))
+    (f,) = errors(design, "frame.pillar_size")
+    assert f.limit == ">= 6.500 mm"
+    ok = demo_variant(("thickness = 2.0", "thickness = 2.0\npillar_diameter = 6.5"))
+    assert errors(ok, "frame.pillar_size") == []
+
+
+def test_small_train_gets_its_pillars_on_a_larger_plate():
+    # two wheels of module 0.25 (tips 2.75 and 5.25 mm): three 10 mm printed pillars
+    # could not stand apart on the line round them; the outline grows instead
+    text = (DATA / "checks" / "print_fine.toml").read_text()
+    design = loads_design(
+        text.replace("[drive]", "[frame]\nplates = [-2.0, 10.0]\n\n[drive]", 1),
+        "fine.toml",
+    )
+    plan = plan_frame(design)
+    assert len(plan.pillars) == 4
+    pts = [(p.x, p.y) for p in plan.pillars]
+    for i, a in enumerate(pts):
+        for b in pts[i + 1 :]:
+            assert math.dist(a, b) >= 10.0 + 1.5  # bodies 1.5 mm apart (print)
+    assert errors(design, "frame.pillar_room") == []

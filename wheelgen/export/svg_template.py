@@ -150,7 +150,7 @@ def write_plate_svg(
     x1, y1 = loop.max(axis=0)
     left, top = float(x0) - _MARGIN, -(float(y1) + _MARGIN)
     width = max(float(x1 - x0) + 2 * _MARGIN, 2 * _MIN_HALF_WIDTH)
-    height = float(y1 - y0) + 2 * _MARGIN + _TEXT_BAND
+    height = float(y1 - y0) + 2 * _MARGIN + _TEXT_BAND + 4.0
     heading = title or f"{part.name}: 1:1 template, millimetres, seen from the front"
     lines = [
         '<?xml version="1.0" encoding="UTF-8"?>',
@@ -191,9 +191,11 @@ def write_plate_svg(
         f'<text x="{_fmt(left + 5)}" y="{_fmt(y_text)}" font-family="sans-serif" '
         f'font-size="3.5">{_esc(heading)}</text>',
         f'<text x="{_fmt(left + 5)}" y="{_fmt(y_text + 5)}" font-family="sans-serif" '
-        f'font-size="3">{_fmt(part.thickness)} mm sheet; centre-punch each cross, drill'
-        " small first, then to size (positions: drilling chart)</text>",
-        *_scale_bar(left + 30, y_text + 14.0),
+        f'font-size="3">{_fmt(part.thickness)} mm sheet. Centre-punch each cross, drill'
+        " small first, then to size;</text>",
+        f'<text x="{_fmt(left + 5)}" y="{_fmt(y_text + 9)}" font-family="sans-serif" '
+        'font-size="3">positions and fits: the drilling chart.</text>',
+        *_scale_bar(left + 30, y_text + 17.0),
         "</svg>",
         "",
     ]

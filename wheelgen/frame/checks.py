@@ -17,7 +17,9 @@
   between a hole and the edge (limits of :mod:`wheelgen.frame.limits`);
 - ``frame.stock``: an arbor asks for a bush or bearing that the ``[[stock]]`` list
   does not have;
-- ``frame.screw``: no ISO 4762 screw length both holds and fits a hole.
+- ``frame.screw``: no ISO 4762 screw length both holds and fits a hole;
+- ``frame.pillar_size``: a ``pillar_diameter`` too small for the spigots' shoulders or
+  the wall round the screw holes.
 
 Lengths in mm.
 """
@@ -34,7 +36,9 @@ from ..layout.sleeves import coaxial_groups
 from .keepout import Zone, bar_gap, disc_gap, zones_between
 from .limits import (
     EDGE_FACTOR,
+    SHOULDER_MIN,
     SPACING_FACTOR,
+    WALL_MIN,
     min_centre_distance,
     min_edge_distance,
 )
@@ -119,6 +123,7 @@ def findings_for_frame(plan: FramePlan) -> list[Finding]:
                 + ', or set pivot = "hole"',
             )
         )
+    out.extend(_pillar_size(plan))
     for what, depth in plan.screw_troubles:
         lim = plan.limits
         out.append(
@@ -135,6 +140,34 @@ def findings_for_frame(plan: FramePlan) -> list[Finding]:
             )
         )
     return out
+
+
+def _pillar_size(plan: FramePlan) -> list[Finding]:
+    lim = plan.limits
+    if not plan.pillars:
+        return []
+    if lim.spigot > 0:
+        need = lim.spigot + 2 * SHOULDER_MIN
+        what = f"its {lim.spigot:g} mm spigots and a {SHOULDER_MIN:g} mm shoulder for each plate"
+    else:
+        need = lim.screw.tap_drill + 2 * WALL_MIN
+        what = (
+            f"a {WALL_MIN:g} mm wall round its {lim.screw.tap_drill:g} mm screw holes"
+        )
+    if lim.pillar_diameter >= need - 1e-9:
+        return []
+    return [
+        Finding(
+            "error",
+            "frame.pillar_size",
+            "frame pillars",
+            f"pillars {lim.pillar_diameter:g} mm across are too thin for {what}",
+            _mm(lim.pillar_diameter),
+            f">= {_mm(need)}",
+            "leave [frame] pillar_diameter out, or make it larger (or use a smaller"
+            " screw)",
+        )
+    ]
 
 
 def _held(plan: FramePlan) -> list[Finding]:

@@ -26,6 +26,8 @@ Every rule the frame planner and its checks use lives here once:
   plus 3 mm (a 1.5 mm shoulder for each plate to sit on). Hand-made and printed
   pillars are plain bars with a tapped (hand) or pilot (print) hole at each end; hand
   pillars are as thick as milled ones, printed ones ``3 d + 1`` for screw size ``d``.
+  A pillar given thinner keeps at least :data:`SHOULDER_MIN` of shoulder, or
+  :data:`WALL_MIN` of wall round its screw holes.
 - **screw engagement**: at least ``1.5 d`` of thread in brass or steel, ``2 d`` in a
   printed part (common practice, no source).
 - **cocks**: a bar ``2 d`` wide (``d`` the screw size) and at least the plate's
@@ -47,8 +49,10 @@ from ..design.screws import Screw, screw
 
 __all__ = [
     "EDGE_FACTOR",
+    "SHOULDER_MIN",
     "SPACING_FACTOR",
     "SPIGOTS",
+    "WALL_MIN",
     "FrameLimits",
     "frame_limits",
     "min_centre_distance",
@@ -63,6 +67,11 @@ SPACING_FACTOR = 1.1
 #: Spigot diameter (mm) of a turned pillar for each screw size (common practice, no
 #: source; see the module docstring).
 SPIGOTS: dict[str, float] = {"M2": 3.5, "M2.5": 4.0, "M3": 5.0, "M4": 6.0, "M5": 8.0}
+
+#: mm, the least shoulder a turned pillar keeps round its spigot for a plate to sit on,
+#: and the least wall round a plain pillar's screw holes (common practice, no source).
+SHOULDER_MIN = 0.75
+WALL_MIN = 1.5
 
 _CLEARANCE = {"mill": 1.0, "hand": 1.5, "print": 1.5}
 _MARGIN = {"mill": 3.0, "hand": 3.0, "print": 4.0}

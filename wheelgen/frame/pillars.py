@@ -24,9 +24,11 @@ A design may give its pillars (``[[pillar]]`` tables, at least three); otherwise
    largest polygon lies on that outside), then each pillar is moved along it, within
    one such step, to a better candidate until none improves.
 
-When fewer than three places are far enough apart (two pillar diameters and the
-clearance), the design is refused; :func:`room_report` says in which directions from
-the middle of the plate the wheels leave no room and which of them fill it.
+When fewer than three places are far enough apart (:func:`pillar_spacing`): with the
+outline found automatically, the line is moved out one pillar diameter at a time (a
+small train gets a larger plate); with a given outline the design is refused, and
+:func:`room_report` says in which directions from the middle of the plate the wheels
+leave no room and which of them fill it.
 """
 
 from __future__ import annotations
@@ -45,16 +47,21 @@ from .limits import FrameLimits, min_centre_distance, min_edge_distance
 from .outline import edges_polyline, inside_outline, outline_distance, rounded_hull
 
 __all__ = [
+    "GROW_STEPS",
     "Pillar",
     "PillarTrouble",
     "choose_pillars",
     "given_pillars",
     "pillar_candidates",
     "pillar_hole",
+    "pillar_spacing",
     "room_report",
 ]
 
 _COARSE = 40  # candidates searched exhaustively for the largest polygon
+#: With the outline found automatically, a train too small to keep the pillars apart
+#: on the line round it gets them on lines further out, one pillar diameter at a time.
+GROW_STEPS = 6
 _DIRECTIONS = (
     "to the right", "to the upper right", "above", "to the upper left",
     "to the left", "to the lower left", "below", "to the lower right",
@@ -88,6 +95,15 @@ def pillar_hole(limits: FrameLimits) -> float:
     return limits.spigot if limits.spigot > 0 else limits.screw.clearance_hole
 
 
+def pillar_spacing(limits: FrameLimits) -> float:
+    """Least distance (mm) between two pillars' axes: their bodies keep the clearance
+    and their holes the spacing of :func:`~wheelgen.frame.limits.min_centre_distance`."""
+    d = pillar_hole(limits)
+    return max(
+        limits.pillar_diameter + limits.clearance, min_centre_distance(d, d, limits)
+    )
+
+
 def _clear(
     x: np.ndarray, y: np.ndarray, zones: Sequence[Zone], radius: float, gap: float
 ) -> np.ndarray:
@@ -118,17 +134,21 @@ def pillar_candidates(
     holes: Sequence[FrameHole],
     limits: FrameLimits,
     outline: np.ndarray | None,
+    grow: float = 0.0,
 ) -> np.ndarray:
     """Places (``(n, 2)``, mm) where a pillar may stand, in order round the train.
 
     ``outline`` is the given outline as a closed polyline, or ``None`` when the outline
-    is found round the train (then the candidates run round it at the clearance).
+    is found round the train (then the candidates run round it at the clearance, plus
+    ``grow`` mm).
     """
     r = limits.pillar_diameter / 2
-    reach = r + limits.clearance
+    reach = r + limits.clearance + grow
     d = pillar_hole(limits)
     if outline is None:
         circles = [(x, y, rad + reach) for z in zones for (x, y, rad) in z.circles]
+        if not circles:
+            return np.zeros((0, 2))
         loop = edges_polyline(rounded_hull(circles), 0.05)
         pts = _resample(loop, 1.0)
     else:
@@ -268,7 +288,7 @@ def choose_pillars(
     if len(candidates) < 3:
         return []
     hull = candidates[_hull_order(candidates)]
-    apart = 2 * limits.pillar_diameter + limits.clearance
+    apart = pillar_spacing(limits)
     for k in range(count, 2, -1):
         idx = _largest(hull, k, pivots)
         if len(idx) < k:
@@ -333,7 +353,7 @@ def room_report(
     centre = outline.mean(axis=0)
     text = []
     if len(candidates):
-        spots = _spots(candidates, 2 * limits.pillar_diameter + limits.clearance)
+        spots = _spots(candidates, pillar_spacing(limits))
         places = ", ".join(f"({x:.1f}, {y:.1f})" for x, y in spots[:6])
         text.append(f"room for a pillar only near {places}")
     else:

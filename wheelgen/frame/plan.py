@@ -42,12 +42,14 @@ from .outline import (
     rounded_hull,
 )
 from .pillars import (
+    GROW_STEPS,
     Pillar,
     PillarTrouble,
     choose_pillars,
     given_pillars,
     pillar_candidates,
     pillar_hole,
+    pillar_spacing,
     room_report,
 )
 
@@ -213,10 +215,24 @@ def _plan(layout: Layout) -> FramePlan:
             design, all_zones, holes["back"] + holes["front"], limits
         )
     else:
-        cands = pillar_candidates(
-            all_zones, holes["back"] + holes["front"], limits, given_outline
-        )
-        pillars = choose_pillars(cands, frame.pillars, limits, pivots)
+        pillars = []
+        for k in [0] if given_outline is not None else range(GROW_STEPS):
+            found = choose_pillars(
+                cands := pillar_candidates(
+                    all_zones,
+                    holes["back"] + holes["front"],
+                    limits,
+                    given_outline,
+                    k * limits.pillar_diameter,
+                ),
+                frame.pillars,
+                limits,
+                pivots,
+            )
+            if len(found) > len(pillars):
+                pillars = found
+            if len(pillars) == frame.pillars:
+                break
         if not pillars:
             loop = given_outline if given_outline is not None else _zone_loop(all_zones)
             pillar_troubles.append(
@@ -224,7 +240,7 @@ def _plan(layout: Layout) -> FramePlan:
                     "frame pillars",
                     f"no room for 3 pillars ({limits.pillar_diameter:g} mm across,"
                     f" {limits.clearance:g} mm clear of every wheel, path and part, at"
-                    f" least {2 * limits.pillar_diameter + limits.clearance:g} mm apart)"
+                    f" least {pillar_spacing(limits):g} mm apart)"
                     " inside the plate outline: "
                     + room_report(all_zones, cands, loop, limits),
                     f"{_spot_count(cands, limits)} place(s)",
@@ -307,7 +323,7 @@ def _zone_loop(zones: list[Zone]) -> np.ndarray:
 
 
 def _spot_count(cands: np.ndarray, limits: FrameLimits) -> int:
-    apart = 2 * limits.pillar_diameter + limits.clearance
+    apart = pillar_spacing(limits)
     spots: list[np.ndarray] = []
     for p in cands:
         if all(float(np.hypot(*(p - q))) >= apart for q in spots):
