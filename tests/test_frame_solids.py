@@ -60,6 +60,13 @@ def coupling(tmp_path_factory):
     return design, out
 
 
+@pytest.fixture(scope="module")
+def printed(tmp_path_factory):
+    out = tmp_path_factory.mktemp("frame") / "printed"
+    design = _build(DATA / "frame" / "print_week.toml", out, ("step", "stl"))
+    return design, out
+
+
 def _chart(out: Path, plate: str) -> list[dict[str, str]]:
     return list(
         csv.DictReader(open(out / "drilling" / f"{plate}.csv", encoding="utf-8"))
@@ -195,13 +202,14 @@ def test_browser_draws_the_plate_at_true_size(example, tmp_path):
     page = tmp_path / "page.html"
     page.write_text(
         "<!DOCTYPE html><html><body style='margin:0'>"
-        f"<img id='p' src='{(out / 'svg' / 'back_plate.svg').as_uri()}'>"
-        "<script>document.title = document.getElementById('p').naturalWidth;</script>"
+        f"<img src='{(out / 'svg' / 'back_plate.svg').as_uri()}'"
+        " onload='document.title = this.naturalWidth'>"
         "</body></html>"
     )
     done = subprocess.run(
         ["chromium", "--headless", "--no-sandbox", "--disable-gpu", "--dump-dom",
-         "--allow-file-access-from-files", page.as_uri()],
+         "--allow-file-access-from-files", "--virtual-time-budget=10000",
+         page.as_uri()],
         capture_output=True, text=True, timeout=120,
     )  # fmt: skip
     found = re.search(r"<title>(\d+)</title>", done.stdout)
@@ -214,7 +222,7 @@ def _frame_pairs(a: str, b: str, frame: set[str]) -> bool:
     return a in frame or b in frame
 
 
-@pytest.mark.parametrize("which", ["example", "coupling"])
+@pytest.mark.parametrize("which", ["example", "coupling", "printed"])
 def test_no_frame_part_shares_volume_with_anything(which, request):
     design, out = request.getfixturevalue(which)
     parts = plan_parts(design)
@@ -302,3 +310,20 @@ def test_demo_frame_shares_no_volume(tmp_path):
     path = out / "step" / "assembly.step"
     assert {s.name for s in placed_solids(path)} == {p.name for p in parts}
     assert shared_volumes(path, only=lambda a, b: _frame_pairs(a, b, frame)) == []
+
+
+def test_printed_plate_holds_the_bearing(printed):
+    # the crank runs in a 3 x 7 x 3 ball bearing (the design's stock list): the plates
+    # have a 7 mm hole for it, the bearing is in the assembly, flush with the back
+    # plate's outer face, and the printed plate's mesh is as thick as the plate
+    from wheelgen.export.mesh import read_stl
+
+    design, out = printed
+    solids = {s.name: s for s in placed_solids(out / "step" / "assembly.step")}
+    bearings = [n for n in solids if n.startswith("crank_") and n.endswith("_bearing")]
+    assert len(bearings) == 2
+    back = solids["crank_back_bearing"]
+    x0, y0, z0, x1, y1, z1 = back.box
+    assert (x1 - x0, z0, z1) == pytest.approx((7.0, -3.0, 0.0), abs=1e-4)
+    verts, _ = read_stl(out / "stl" / "back_plate.stl")
+    assert float(np.ptp(verts[:, 2])) == pytest.approx(3.0, abs=1e-5)

@@ -99,6 +99,7 @@ def findings_for_frame(plan: FramePlan) -> list[Finding]:
         )
     out.extend(_held(plan))
     out.extend(_clearance(plan))
+    out.extend(_frame_overlaps(plan))
     out.extend(_material(plan))
     for arbor, kind in plan.missing_stock:
         have = [
@@ -242,7 +243,7 @@ def frame_bodies(plan: FramePlan) -> list[tuple[Zone, frozenset[str]]]:
         for z in c.zones:
             out.append((z, group_of.get(c.arbor, frozenset({c.arbor}))))
     for b in plan.bearings:
-        member = b.holds.split(" ")[0]
+        member = b.member
         z = Zone(
             b.name,
             b.x,
@@ -297,6 +298,46 @@ def _clearance(plan: FramePlan) -> list[Finding]:
                     )
                 )
     return out
+
+
+def _frame_overlaps(plan: FramePlan) -> list[Finding]:
+    """Two still parts of the frame that overlap (a cock on a pillar, a bush in a
+    cock's foot); a cock and the bush seated in it are one."""
+    bodies = [z for z, _ in frame_bodies(plan)]
+    out = []
+    for i, a in enumerate(bodies):
+        for b in bodies[i + 1 :]:
+            if min(a.z1, b.z1) - max(a.z0, b.z0) <= 1e-6:
+                continue
+            if _same_seat(plan, a, b):
+                continue
+            gap = _gap(a, b) if b.to is None else _gap(b, a)
+            if gap < -1e-6:
+                out.append(
+                    Finding(
+                        "error",
+                        "frame.clearance",
+                        f"{a.label} / {b.label}",
+                        f"{a.label} and {b.label} overlap by {_mm(-gap)}",
+                        _mm(gap),
+                        ">= 0 mm",
+                        "move one of them",
+                    )
+                )
+    return out
+
+
+def _same_seat(plan: FramePlan, a: Zone, b: Zone) -> bool:
+    for c in plan.cocks:
+        cock = {f"cock {c.name}", f"foot of cock {c.name}"}
+        if {a.label, b.label} == cock:
+            return True
+        seat = {x.name for x in plan.bearings if x.holds.endswith(f"the {c.name}")}
+        if (a.label in cock and b.label in seat) or (
+            b.label in cock and a.label in seat
+        ):
+            return True
+    return False
 
 
 def _material(plan: FramePlan) -> list[Finding]:

@@ -39,7 +39,7 @@ import numpy as np
 from ..design.model import Design
 from ..layout.plan import Layout
 from ..layout.sleeves import coaxial_groups
-from .holes import FrameHole, seat_hole
+from .holes import FrameHole, pivot_stock, seat_hole
 from .keepout import Zone, bar_gap, disc_gap, zones_between
 from .limits import FrameLimits, min_centre_distance
 
@@ -217,6 +217,9 @@ def _place_one(
     hole = seat_hole(design, root, layout.outside(root), False, f"cock of {root}", *pos)
     width = max(limits.cock_width, 2 * 1.2 * hole.diameter)
     thick = limits.cock_thickness
+    seat = pivot_stock(design, root, layout.outside(root))
+    if seat is not None and seat.width is not None:
+        thick = max(thick, seat.width)  # the bush or bearing sits wholly in the bar
     spacing = limits.cock_screw_spacing
     need = limits.bearing_spacing_factor * design.arbor(root).diameter
     held_mid = back - t_plate / 2 if held == "back" else front + t_plate / 2

@@ -101,6 +101,7 @@ class BearingPlace:
 
     name: str
     stock: Stock
+    member: str  # the arbor that runs in it
     x: float
     y: float
     z0: float
@@ -184,7 +185,8 @@ def _plan(layout: Layout) -> FramePlan:
     }
     zones = train_zones(layout)
     holes = {side: member_holes(layout, side) for side in PLATES}
-    cocks, cock_troubles = place_cocks(layout, limits, zones, holes)
+    seats = _seat_zones(layout, holes)
+    cocks, cock_troubles = place_cocks(layout, limits, zones + seats, holes)
     cocks = [_renamed(c, _free(c.name, taken)) for c in cocks]
     cock_zones = [z for c in cocks for z in c.zones]
     cock_zones += [
@@ -205,7 +207,7 @@ def _plan(layout: Layout) -> FramePlan:
         edges = polygon_outline(frame.polygon, frame.corner)
     if edges is not None:
         given_outline = edges_polyline(edges, 0.05)
-    all_zones = zones + cock_zones
+    all_zones = zones + seats + cock_zones
     pivots = np.array([(h.x, h.y) for side in PLATES for h in holes[side]]).reshape(
         -1, 2
     )
@@ -308,6 +310,40 @@ def _plan(layout: Layout) -> FramePlan:
         missing_stock=tuple(missing),
         screw_troubles=tuple(short),
     )
+
+
+def _seat_zones(layout: Layout, holes: dict[str, list[FrameHole]]) -> list[Zone]:
+    """Bushes and bearings that stand proud of a plate's inner face, as zones."""
+    design = layout.design
+    assert design.frame is not None
+    back, front = design.frame.plates
+    t = design.frame.thickness
+    out = []
+    for side in PLATES:
+        for h in holes[side]:
+            stock = pivot_stock(design, h.what, layout.outside(h.what))
+            if (
+                h.role not in ("bush", "bearing")
+                or stock is None
+                or stock.width is None
+            ):
+                continue
+            proud = stock.width - t
+            if proud <= 0:
+                continue
+            z0, z1 = (back, back + proud) if side == "back" else (front - proud, front)
+            out.append(
+                Zone(
+                    f"{stock.kind} of {h.what}",
+                    h.x,
+                    h.y,
+                    0.0,
+                    stock.outside / 2,
+                    z0,
+                    z1,
+                )
+            )
+    return out
 
 
 def _renamed(c: Cock, name: str) -> Cock:
@@ -415,8 +451,8 @@ def _fasteners(
         label = f"{where} plate" if where in PLATES else where
         bearings.append(
             BearingPlace(
-                _free(f"{h.what}_{where}_{stock.kind}", taken), stock, h.x, h.y,
-                round(z0, 6), f"{h.what} in the {label}",
+                _free(f"{h.what}_{where}_{stock.kind}", taken), stock, h.what, h.x,
+                h.y, round(z0, 6), f"{h.what} in the {label}",
             )
         )  # fmt: skip
     for a in design.arbors:
