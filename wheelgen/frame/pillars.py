@@ -235,7 +235,12 @@ def _largest(pts: np.ndarray, count: int, pivots: np.ndarray) -> list[int]:
         return list(range(n))
     coarse = np.unique(np.linspace(0, n, min(n, _COARSE), endpoint=False).astype(int))
     k0 = min(count, 4, len(coarse))
-    combos = np.array(list(itertools.combinations(range(len(coarse)), k0)), dtype=int)
+    count_all = math.comb(len(coarse), k0)
+    combos = np.fromiter(
+        itertools.chain.from_iterable(itertools.combinations(range(len(coarse)), k0)),
+        dtype=np.int64,
+        count=count_all * k0,
+    ).reshape(count_all, k0)
     p = pts[coarse][combos]  # (m, k0, 2)
     x, y = p[..., 0], p[..., 1]
     areas = 0.5 * np.abs(
