@@ -472,7 +472,8 @@ def report_html(
     body = {
         "layout": (
             f"<figure>{layout_svg(design, positions)}<figcaption>Seen from the front, "
-            "in millimetres: pitch circles in their arbor's colour (dashed: fixed), "
+            "in millimetres: the plates' outline with the pillars (grey discs) and the "
+            "cocks (tan bars), pitch circles in their arbor's colour (dashed: fixed), "
             "meshes as dashed lines between centres with a dot at the pitch point, "
             "pin-and-slot couplings in red.</figcaption></figure>"
         ),
