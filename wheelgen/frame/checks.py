@@ -30,7 +30,7 @@ from typing import Any
 
 import numpy as np
 
-from ..checks.findings import Finding
+from ..checks.findings import Finding, Level
 from ..design.model import Design
 from ..layout.sleeves import coaxial_groups
 from .keepout import Zone, bar_gap, disc_gap, zones_between
@@ -81,9 +81,10 @@ def findings_for_frame(plan: FramePlan) -> list[Finding]:
             if t.subject == "frame pillars"
             else "frame.pillar_clearance"
         )
+        level: Level = "warning" if t.level == "warning" else "error"
         out.append(
-            Finding(t.level, check, t.subject, t.message, t.measured, t.limit, t.advice)
-        )  # type: ignore[arg-type]  # "error" or "warning"
+            Finding(level, check, t.subject, t.message, t.measured, t.limit, t.advice)
+        )
     for c in plan.cock_troubles:
         blocked = f"; in the way: {', '.join(c.blockers)}" if c.blockers else ""
         out.append(

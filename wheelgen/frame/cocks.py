@@ -259,6 +259,7 @@ def _place_one(
         else:
             foot_z = (zb + thick, front)
         arbor_z = None
+        way = (0.0, 0.0)
         if place.grows == "up":
             arbor_z = (span.z0, zb + thick)
             way = (span.z1, zb + thick)
@@ -272,9 +273,9 @@ def _place_one(
             for z in zones_between(zones, *way, 0.0):
                 if z.member in group:
                     continue
-                gap = float(disc_gap(np.array(px), np.array(py), r, z))
-                if gap < clr - 1e-9:
-                    blockers[z.label] = min(blockers.get(z.label, math.inf), gap)
+                step = float(disc_gap(np.array(px), np.array(py), r, z))
+                if step < clr - 1e-9:
+                    blockers[z.label] = min(blockers.get(z.label, math.inf), step)
                     barred = True
             if barred:
                 continue

@@ -78,8 +78,8 @@ def rounded_hull(circles: Sequence[Circle]) -> tuple[FlatEdge, ...]:
     # the support function: in each direction u the hull's farthest point belongs to
     # the circle with the largest c.u + r; turning u counter-clockwise walks the hull
     t = np.linspace(0.0, 2 * math.pi, _SAMPLES, endpoint=False)
-    c = np.array(unique)
-    reach = np.outer(np.cos(t), c[:, 0]) + np.outer(np.sin(t), c[:, 1]) + c[:, 2]
+    cs = np.array(unique)
+    reach = np.outer(np.cos(t), cs[:, 0]) + np.outer(np.sin(t), cs[:, 1]) + cs[:, 2]
     owner = np.argmax(reach, axis=1)
     seq: list[int] = []
     for i in owner:
@@ -88,20 +88,21 @@ def rounded_hull(circles: Sequence[Circle]) -> tuple[FlatEdge, ...]:
     while len(seq) > 1 and seq[0] == seq[-1]:
         seq.pop()
     if len(seq) == 1:
-        c = unique[seq[0]]
-        return (_arc(c, 0.0, math.pi), _arc(c, math.pi, 2 * math.pi))
+        only = unique[seq[0]]
+        return (_arc(only, 0.0, math.pi), _arc(only, math.pi, 2 * math.pi))
     n = len(seq)
     tangents = [_tangent(unique[seq[i]], unique[seq[(i + 1) % n]]) for i in range(n)]
     edges: list[FlatEdge] = []
     for i in range(n):
-        c = unique[seq[i]]
+        circle = unique[seq[i]]
+        cx, cy, radius = circle
         arrive = tangents[i - 1][1]  # where the side before meets this circle
         leave = tangents[i][0]
-        a0 = math.atan2(arrive[1] - c[1], arrive[0] - c[0])
-        a1 = math.atan2(leave[1] - c[1], leave[0] - c[0])
+        a0 = math.atan2(arrive[1] - cy, arrive[0] - cx)
+        a1 = math.atan2(leave[1] - cy, leave[0] - cx)
         sweep = (a1 - a0) % (2 * math.pi)
-        if sweep * c[2] > 1e-6 and sweep < 2 * math.pi - 1e-9:
-            edges.append(_arc(c, a0, a0 + sweep))
+        if sweep * radius > 1e-6 and sweep < 2 * math.pi - 1e-9:
+            edges.append(_arc(circle, a0, a0 + sweep))
         start, end = _pt(leave), _pt(tangents[i][1])
         if math.dist(start, end) > 1e-6:
             edges.append(FlatEdge("line", (start, end)))

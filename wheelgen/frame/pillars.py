@@ -166,7 +166,7 @@ def pillar_candidates(
         return pts.reshape(0, 2)
     ok = _clear(pts[:, 0], pts[:, 1], zones, r, limits.clearance)
     ok &= _holes_clear(pts[:, 0], pts[:, 1], holes, d, limits)
-    return pts[ok]
+    return np.asarray(pts[ok])
 
 
 def _resample(loop: np.ndarray, step: float) -> np.ndarray:

@@ -218,6 +218,7 @@ def _plan(layout: Layout) -> FramePlan:
         )
     else:
         pillars = []
+        cands = np.zeros((0, 2))
         for k in [0] if given_outline is not None else range(GROW_STEPS):
             found = choose_pillars(
                 cands := pillar_candidates(
