@@ -15,12 +15,12 @@ from hypothesis import strategies as st
 
 from wheelgen.frame.outline import (
     edges_polyline,
-    inside_outline,
     outline_distance,
     polygon_outline,
     rectangle_outline,
     rounded_hull,
 )
+from wheelgen.layout.collisions import inside_polygon
 
 
 def area(loop: np.ndarray) -> float:
@@ -87,7 +87,7 @@ def test_hull_holds_every_circle_and_is_convex(circles):
     loop = edges_polyline(edges, 0.001)
     assert area(loop) > 0  # counter-clockwise
     centres = np.array([(x, y) for x, y, _ in circles])
-    inside = inside_outline(centres, loop)
+    inside = inside_polygon(centres, loop)
     dist = outline_distance(centres, loop)
     for (_, _, r), ins, d in zip(circles, inside, dist):
         # each circle lies within the hull (within the sampling of 0.001 mm chords

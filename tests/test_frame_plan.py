@@ -21,7 +21,8 @@ from tests._demo import DEMO_TEXT, demo_variant
 from wheelgen.checks.engine import analyse
 from wheelgen.design import DesignError, load_design, loads_design
 from wheelgen.frame import frame_findings, frame_parts, plan_frame, plan_parts
-from wheelgen.frame.outline import edges_polyline, inside_outline, outline_distance
+from wheelgen.frame.outline import edges_polyline, outline_distance
+from wheelgen.layout.collisions import inside_polygon
 from wheelgen.layout.part_plan import ArborPart, BearingPart, PillarPart, ScrewPart
 from wheelgen.layout.plan import plan_layout
 
@@ -229,7 +230,7 @@ def test_demo_holes_inside_the_outline_with_their_edge_distance(demo):
     loop = edges_polyline(plan.outline, 0.005)
     for plate in plan.plates:
         centres = np.array([(h.x, h.y) for h in plate.holes])
-        assert inside_outline(centres, loop).all()
+        assert inside_polygon(centres, loop).all()
         dist = outline_distance(centres, loop)
         for h, d in zip(plate.holes, dist):
             # EN 1993-1-8, e2 >= 1.2 d0 (less the chords' 0.005 mm)

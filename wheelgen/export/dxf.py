@@ -9,14 +9,18 @@ as CIRCLE. Drawing units are millimetres ($INSUNITS = 4).
 
 ezdxf normally stamps dates and GUIDs; its fixed-metadata switch makes them constant.
 The CLASSES section came out in hash-seed order (ezdxf collects entity types in a
-set); we sort it before saving, so no interpreter setting (PYTHONHASHSEED) is needed.
+set); we sort it before saving, so no interpreter setting (PYTHONHASHSEED) is needed
+(both in :func:`_drawing`, which every writer here uses).
 """
 
 from __future__ import annotations
 
 import math
 from collections import OrderedDict
+from collections.abc import Iterator
+from contextlib import contextmanager
 from pathlib import Path
+from typing import Any
 
 import ezdxf
 import numpy as np
@@ -88,17 +92,35 @@ def _add_hole(msp, hole: Hole) -> None:  # type: ignore[no-untyped-def]  # ezdxf
         _add_segment(msp, seg, layer)
 
 
-def write_dxf(profile: PlateProfile, path: Path, name: str) -> Path:
-    """Write the profile as a DXF (R2010, mm); the same profile gives the same bytes."""
+@contextmanager
+def _drawing(path: Path, name: str, layers: dict[str, int]) -> Iterator[Any]:
+    """A new DXF (R2010, mm) with ``layers``; yields its modelspace, saves on leaving.
+
+    ezdxf normally stamps dates and GUIDs: its fixed-metadata switch makes them
+    constant. It also adds a CLASS per entity type in use while saving, iterating a
+    set, so their order followed PYTHONHASHSEED: they are added here, sorted, and
+    saving adds none.
+    """
     previous = ezdxf.options.write_fixed_meta_data_for_testing
     ezdxf.options.write_fixed_meta_data_for_testing = True  # no dates, fixed GUIDs
     try:
         doc = ezdxf.new("R2010", setup=False)
         doc.units = 4  # millimetres
         doc.header["$MEASUREMENT"] = 1
-        for layer, colour in LAYERS.items():
+        for layer, colour in layers.items():
             doc.layers.add(layer, color=colour)
-        msp = doc.modelspace()
+        yield doc.modelspace()
+        doc.header["$PROJECTNAME"] = name
+        doc.classes.add_required_classes(doc.dxfversion)
+        doc.classes.classes = OrderedDict(sorted(doc.classes.classes.items()))
+        doc.saveas(path)
+    finally:
+        ezdxf.options.write_fixed_meta_data_for_testing = previous
+
+
+def write_dxf(profile: PlateProfile, path: Path, name: str) -> Path:
+    """Write the profile as a DXF (R2010, mm); the same profile gives the same bytes."""
+    with _drawing(path, name, LAYERS) as msp:
         for seg in profile.outline.segments():
             _add_segment(msp, seg, "OUTLINE")
         for hole in profile.holes:
@@ -107,19 +129,7 @@ def write_dxf(profile: PlateProfile, path: Path, name: str) -> Path:
         size = max(2.0, 0.6 * (2 * bore.circle[2] if bore and bore.circle else 2.0))
         msp.add_line((-size, 0.0), (size, 0.0), dxfattribs={"layer": "CENTRE"})
         msp.add_line((0.0, -size), (0.0, size), dxfattribs={"layer": "CENTRE"})
-        doc.header["$PROJECTNAME"] = name
-        _save(doc, path)
-    finally:
-        ezdxf.options.write_fixed_meta_data_for_testing = previous
     return path
-
-
-def _save(doc, path: Path) -> None:  # type: ignore[no-untyped-def]  # ezdxf document
-    # ezdxf adds a CLASS per entity type in use while saving, iterating a set: the
-    # order followed PYTHONHASHSEED. Add them now, sorted; saving adds none.
-    doc.classes.add_required_classes(doc.dxfversion)
-    doc.classes.classes = OrderedDict(sorted(doc.classes.classes.items()))
-    doc.saveas(path)
 
 
 def write_plate_dxf(part: PlatePart, path: Path) -> Path:
@@ -127,19 +137,10 @@ def write_plate_dxf(part: PlatePart, path: Path) -> Path:
 
     The drawing is in the design's frame (the arbors' ``at``), seen from the front.
     """
-    previous = ezdxf.options.write_fixed_meta_data_for_testing
-    ezdxf.options.write_fixed_meta_data_for_testing = True  # no dates, fixed GUIDs
-    try:
-        doc = ezdxf.new("R2010", setup=False)
-        doc.units = 4  # millimetres
-        doc.header["$MEASUREMENT"] = 1
-        for layer, colour in PLATE_LAYERS.items():
-            doc.layers.add(layer, color=colour)
-        msp = doc.modelspace()
+    with _drawing(path, part.name, PLATE_LAYERS) as msp:
         for e in part.outline:
-            _add_segment(
-                msp, Segment(e.kind, np.array(e.points, dtype=float)), "OUTLINE"
-            )
+            points = np.array(e.points, dtype=float)
+            _add_segment(msp, Segment(e.kind, points), "OUTLINE")
         for h in part.holes:
             layer = _PLATE_LAYER_OF_ROLE.get(h.role, "PIVOTS")
             msp.add_circle((h.x, h.y), h.diameter / 2, dxfattribs={"layer": layer})
@@ -147,8 +148,4 @@ def write_plate_dxf(part: PlatePart, path: Path) -> Path:
             attrs = {"layer": "CENTRES"}
             msp.add_line((h.x - c, h.y), (h.x + c, h.y), dxfattribs=attrs)
             msp.add_line((h.x, h.y - c), (h.x, h.y + c), dxfattribs=attrs)
-        doc.header["$PROJECTNAME"] = part.name
-        _save(doc, path)
-    finally:
-        ezdxf.options.write_fixed_meta_data_for_testing = previous
     return path

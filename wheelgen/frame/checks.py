@@ -32,6 +32,7 @@ import numpy as np
 
 from ..checks.findings import Finding, Level
 from ..design.model import Design
+from ..layout.collisions import inside_polygon
 from ..layout.sleeves import coaxial_groups
 from .keepout import Zone, bar_gap, disc_gap, zones_between
 from .limits import (
@@ -42,7 +43,7 @@ from .limits import (
     min_centre_distance,
     min_edge_distance,
 )
-from .outline import edges_polyline, inside_outline, outline_distance
+from .outline import edges_polyline, outline_distance
 from .plan import FramePlan, plan_frame
 
 __all__ = ["frame_bodies", "frame_findings", "findings_for_frame"]
@@ -357,7 +358,7 @@ def _material(plan: FramePlan) -> list[Finding]:
     for plate in plan.plates:
         holes = plate.holes
         centres = np.array([(h.x, h.y) for h in holes]).reshape(-1, 2)
-        inside = inside_outline(centres, loop) if len(holes) else np.array([], bool)
+        inside = inside_polygon(centres, loop) if len(holes) else np.array([], bool)
         dist = outline_distance(centres, loop) if len(holes) else np.array([])
         for k, h in enumerate(holes):
             need = min_edge_distance(h.diameter, lim)

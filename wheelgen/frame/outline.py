@@ -26,7 +26,6 @@ from ..layout.part_plan import FlatEdge
 __all__ = [
     "Circle",
     "edges_polyline",
-    "inside_outline",
     "outline_distance",
     "polygon_outline",
     "rectangle_outline",
@@ -212,17 +211,6 @@ def edges_polyline(edges: Sequence[FlatEdge], tol: float = 0.01) -> np.ndarray:
         else:
             parts.append(_arc_points(e.points, tol)[:-1])
     return np.vstack(parts)
-
-
-def inside_outline(points: np.ndarray, loop: np.ndarray) -> np.ndarray:
-    """Which of ``points`` (``(m, 2)``, mm) lie inside the closed polyline ``loop``."""
-    a = loop
-    b = np.roll(loop, -1, axis=0)
-    px, py = points[:, 0][:, None], points[:, 1][:, None]
-    cross = (a[:, 1] > py) != (b[:, 1] > py)
-    with np.errstate(divide="ignore", invalid="ignore"):
-        xs = a[:, 0] + (py - a[:, 1]) * (b[:, 0] - a[:, 0]) / (b[:, 1] - a[:, 1])
-    return np.asarray((np.count_nonzero(cross & (xs > px), axis=1) % 2) == 1)
 
 
 def outline_distance(points: np.ndarray, loop: np.ndarray) -> np.ndarray:

@@ -41,10 +41,11 @@ from dataclasses import dataclass
 import numpy as np
 
 from ..design.model import Design
+from ..layout.collisions import inside_polygon
 from .holes import FrameHole
 from .keepout import Zone, disc_gap
 from .limits import FrameLimits, min_centre_distance, min_edge_distance
-from .outline import edges_polyline, inside_outline, outline_distance, rounded_hull
+from .outline import edges_polyline, outline_distance, rounded_hull
 
 __all__ = [
     "GROW_STEPS",
@@ -158,7 +159,7 @@ def pillar_candidates(
             np.arange(math.floor(lo[1]), math.ceil(hi[1]) + 1.0, 1.0),
         )
         pts = np.column_stack((gx.ravel(), gy.ravel()))
-        pts = pts[inside_outline(pts, outline)]
+        pts = pts[inside_polygon(pts, outline)]
         if len(pts):
             edge = max(min_edge_distance(d, limits), r)
             pts = pts[outline_distance(pts, outline) >= edge - 1e-9]
@@ -397,7 +398,7 @@ def _fillers(
     r = np.linspace(0.0, reach, 40)
     px = centre[0] + np.outer(r, np.cos(t)).ravel()
     py = centre[1] + np.outer(r, np.sin(t)).ravel()
-    keep = inside_outline(np.column_stack((px, py)), outline)
+    keep = inside_polygon(np.column_stack((px, py)), outline)
     px, py = px[keep], py[keep]
     names = []
     for z in zones:

@@ -47,6 +47,7 @@ __all__ = [
     "bodies",
     "find_clashes",
     "find_pin_clashes",
+    "inside_polygon",
     "pin_sweeps",
     "signed_distance",
     "nominal_tip_radius",
@@ -178,7 +179,9 @@ def signed_distance(point: np.ndarray, poly: np.ndarray) -> float:
     return -d if inside else d
 
 
-def _inside(points: np.ndarray, poly: np.ndarray) -> np.ndarray:
+def inside_polygon(points: np.ndarray, poly: np.ndarray) -> np.ndarray:
+    """Which of ``points`` (``(m, 2)``, mm) lie inside the closed polygon ``poly``
+    (even-odd rule, a ray towards +X)."""
     a = poly
     b = np.roll(poly, -1, axis=0)
     px, py = points[:, 0][:, None], points[:, 1][:, None]
@@ -192,7 +195,7 @@ def _polygon_depth(pa: np.ndarray, pb: np.ndarray) -> float:
     """Largest depth (mm) of a vertex of one polygon inside the other; <= 0 if apart."""
     depth = -math.inf
     for p, q in ((pa, pb), (pb, pa)):
-        inside = p[_inside(p, q)]
+        inside = p[inside_polygon(p, q)]
         for pt in inside[:: max(1, len(inside) // 400)]:
             depth = max(depth, -signed_distance(pt, q))
     if depth == -math.inf:
