@@ -100,7 +100,9 @@ class Stacking:
     hidden: tuple[HiddenSeat, ...]
     one_plate: tuple[
         tuple[str, str, float], ...
-    ]  # (arbor, its close neighbour, distance)
+    ]  # (arbor, its close neighbour or the wheel in its way, distance)
+    # (arbor, plate it cannot reach, wheel in its way, how far it covers the arbor, mm)
+    barred: tuple[tuple[str, str, str, float], ...] = ()
 
 
 def wheel_extent(design: Design, name: str) -> tuple[float, float]:
@@ -234,10 +236,14 @@ def stack_axes(
                 lower, upper = (a, b) if za <= zb else (b, a)
                 split[lower], split[upper] = "back", "front"
                 one_plate.extend([(lower, upper, d), (upper, lower, d)])
-    for root, (plate, wheel, d) in _barred(design, spans, positions, mounted, plate_z):
+    barred: list[tuple[str, str, str, float]] = []
+    for root, (plate, wheel, d, depth) in _barred(
+        design, spans, positions, mounted, plate_z
+    ):
         if root not in split:
             split[root] = "front" if plate == "back" else "back"
             one_plate.append((root, wheel, d))
+            barred.append((root, plate, wheel, depth))
     for root in groups:
         arbor = design.arbor(root)
         s = spans[root]
@@ -269,7 +275,7 @@ def stack_axes(
                 overlap = min(seat.z1, spans[c].z1) - max(seat.z0, spans[c].z0)
                 if overlap > _EPS:
                     hidden.append(HiddenSeat(seat.wheel, name, c, overlap))
-    return Stacking(spans, tuple(hidden), tuple(one_plate))
+    return Stacking(spans, tuple(hidden), tuple(one_plate), tuple(barred))
 
 
 def _barred(
@@ -278,10 +284,11 @@ def _barred(
     positions: dict[str, tuple[float, float]],
     mounted: list[str],
     plate_z: dict[str, tuple[float, float]],
-) -> list[tuple[str, tuple[str, str, float]]]:
+) -> list[tuple[str, tuple[str, str, float, float]]]:
     """Mounted axes that one plate only is barred from: (axis, (that plate, the wheel in
-    the way, distance between the axes in mm)). An axis barred from both plates is left
-    out (it runs to both, and the collision check reports it)."""
+    the way, distance between the axes, how far the wheel covers the arbor; mm)). An
+    axis barred from both plates is left out (it runs to both, and the collision check
+    reports it)."""
     if not plate_z:
         return []
     discs = []  # (axis, z0, z1, radius, wheel) of wheels and hubs on fixed axes
@@ -303,15 +310,15 @@ def _barred(
             "front": (span.z1, plate_z["front"][0]),
         }
         ra = design.arbor(a).diameter / 2
-        barred: dict[str, tuple[str, float]] = {}
+        barred: dict[str, tuple[str, float, float]] = {}
         for plate, (lo, hi) in ways.items():
             for b, z0, z1, r, wheel in discs:
                 d = math.dist(positions[a], positions[b])
                 if b != a and z0 < hi - _EPS and z1 > lo + _EPS and d < r + ra - _EPS:
-                    barred.setdefault(plate, (wheel, d))
+                    barred.setdefault(plate, (wheel, d, r + ra - d))
         if len(barred) == 1:
-            ((plate, (wheel, d)),) = barred.items()
-            out.append((a, (plate, wheel, d)))
+            ((plate, (wheel, d, depth)),) = barred.items()
+            out.append((a, (plate, wheel, d, depth)))
     return out
 
 

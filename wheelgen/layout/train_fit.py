@@ -328,6 +328,20 @@ def fit_train(
     design = design_of(plan)
     problems = tuple(f for f in layout_findings(design, None) if f.level == "error")
     layout = plan_layout(design)
+    # an arbor with a wheel across its way to a plate can only be held by the other
+    # plate and a cock: the trains offered run every arbor from plate to plate
+    problems += tuple(
+        Finding(
+            "error",
+            "layout.cuts_arbor",
+            f"arbor {arbor} / wheel {wheel}",
+            f"wheel {wheel} covers arbor {arbor} by {depth:.3f} mm on the arbor's way"
+            f" to the {plate} plate, so the arbor cannot run from plate to plate",
+            f"{depth:.3f} mm",
+            "0 mm",
+        )
+        for arbor, plate, wheel, depth in layout.stacking.barred
+    )
     radii = []
     for w in plan.wheels:
         pos = layout.position(w.arbor)
