@@ -20,10 +20,13 @@ cq = pytest.importorskip("cadquery")
 
 from OCP.BRepExtrema import BRepExtrema_DistShapeShape  # noqa: E402
 
-from wheelgen.export.step import write_step  # noqa: E402
+from wheelgen.export.step import compact_step, write_step  # noqa: E402
 from wheelgen.layout.part_plan import WheelPart  # noqa: E402
+from wheelgen.solids.spline_fit import SPLINE_FIT_TOLERANCE  # noqa: E402
 from wheelgen.solids.wheel import make_wheel  # noqa: E402
+from wheelgen.teeth.involute_tooth import generate_tooth  # noqa: E402
 from wheelgen.teeth.spec import ToothSpec, outline_for  # noqa: E402
+from wheelgen.teeth.trochoid import fillet_trochoid  # noqa: E402
 
 pytestmark = pytest.mark.cad
 
@@ -41,18 +44,28 @@ def _inv(a: float) -> float:
 
 
 @pytest.fixture(scope="module")
-def reimported(tmp_path_factory):
-    """z -> (re-imported solid, outline radii) for module 1, x = 0, no thinning."""
+def written(tmp_path_factory):
+    """z -> STEP file of a module-1 wheel, x = 0, no thinning, face width 3 mm."""
     out = tmp_path_factory.mktemp("step")
     result = {}
     for z in TEETH:
         spec = ToothSpec(z, 1.0)
-        outline = outline_for(spec)
         bore = 1.0 if z < 12 else 2.0
-        solid = make_wheel(WheelPart(f"w{z}", spec, 3.0, bore), outline)
-        path = write_step(solid, out / f"w{z}.step", f"w{z}")
-        result[z] = (cq.importers.importStep(str(path)).val(), dict(outline.radii))
+        solid = make_wheel(WheelPart(f"w{z}", spec, 3.0, bore), outline_for(spec))
+        result[z] = write_step(solid, out / f"w{z}.step", f"w{z}")
     return result
+
+
+@pytest.fixture(scope="module")
+def reimported(written):
+    """z -> (re-imported solid, outline radii)."""
+    return {
+        z: (
+            cq.importers.importStep(str(path)).val(),
+            dict(outline_for(ToothSpec(z, 1.0)).radii),
+        )
+        for z, path in written.items()
+    }
 
 
 @pytest.mark.parametrize("z", TEETH)
@@ -163,9 +176,85 @@ def test_span_measurement_z60_matches_formula(reimported):
     a = math.radians(20.0)
     formula = math.cos(a) * (math.pi * 6.5 + 60 * _inv(a))
     assert formula == pytest.approx(20.0292, abs=2e-4)
+    # each anvil touches a flank that is a B-spline within SPLINE_FIT_TOLERANCE of
+    # the exact involute (0.05 um), so the span may be off by twice that
     assert _span_measured(solid, 60, 7, radii["pitch"], radii["base"]) == pytest.approx(
-        formula, abs=1e-6
+        formula, abs=2 * SPLINE_FIT_TOLERANCE
     )
+
+
+def _edge_points(edge, count: int) -> np.ndarray:
+    """``count`` points of an edge, evenly spaced in its curve parameter (x, y in mm)."""
+    t0, t1 = edge._bounds()
+    pts = edge.positions(np.linspace(t0, t1, count), mode="parameter")
+    return np.array([(p.x, p.y) for p in pts])
+
+
+def _distance_to_polyline(points: np.ndarray, poly: np.ndarray) -> np.ndarray:
+    """Distance (mm) of each point from a dense polyline (nearest vertex, both sides)."""
+    from scipy.spatial import cKDTree
+
+    _, i = cKDTree(poly).query(points)
+    best = np.full(len(points), np.inf)
+    for j0, j1 in ((i - 1, i), (i, i + 1)):
+        ok = (j0 >= 0) & (j1 < len(poly))
+        a, b = poly[np.clip(j0, 0, len(poly) - 1)], poly[np.clip(j1, 0, len(poly) - 1)]
+        ab = b - a
+        s = np.clip(
+            ((points - a) * ab).sum(1) / np.maximum((ab**2).sum(1), 1e-300), 0, 1
+        )
+        d = np.hypot(*(a + s[:, None] * ab - points).T)
+        best = np.where(ok, np.minimum(best, d), best)
+    return best
+
+
+@pytest.mark.parametrize("z", [8, 12, 127])
+def test_root_fillets_lie_on_the_exact_trochoid(reimported, z):
+    # every fillet edge of the top face, 401 points each, against the trochoid the
+    # cutter's tip rounding leaves (teeth.trochoid), sampled at 200001 points
+    solid, radii = reimported[z]
+    gen = generate_tooth(ToothSpec(z, 1.0))
+    pitch = 2 * math.pi / z
+    beta = np.linspace(0.0, gen.junction_beta_rad, 200_001)
+    q = -math.pi / z  # the generator's space frame -> tooth frame (tooth on +X)
+    raw = fillet_trochoid(gen.cutter, gen.ref_radius, beta)
+    exact = raw @ np.array([[math.cos(q), -math.sin(q)], [math.sin(q), math.cos(q)]]).T
+    worst, fillets = 0.0, 0
+    for edge in solid.faces(">Z").Edges():
+        if edge.geomType() != "BSPLINE":
+            continue
+        ends = sorted(
+            math.hypot(p.x, p.y) for p in (edge.startPoint(), edge.endPoint())
+        )
+        if abs(ends[1] - radii["form"]) > 1e-6 or abs(ends[0] - radii["tip"]) < 1e-6:
+            continue  # a flank
+        fillets += 1
+        pts = _edge_points(edge, 401)
+        # back to tooth 0, and the upper fillet mirrored onto the lower one
+        k = round(math.atan2(*pts[len(pts) // 2][::-1]) / pitch)
+        c, s = math.cos(-k * pitch), math.sin(-k * pitch)
+        pts = pts @ np.array([[c, -s], [s, c]]).T
+        if pts[:, 1].mean() > 0:
+            pts[:, 1] *= -1
+        worst = max(worst, float(_distance_to_polyline(pts, exact).max()))
+    assert fillets == 2 * z
+    assert worst < FLANK_LIMIT_MM, f"z={z}: worst {worst * 1e3:.2e} um"
+
+
+@pytest.mark.parametrize("z", [12, 127, 200])
+def test_step_is_at_most_10_kb_per_tooth(written, z):
+    # the size a shop receives: at most 10 kB per tooth (module 1, face 3 mm, bore)
+    assert written[z].stat().st_size <= 10_000 * z
+
+
+def test_shared_geometry_is_written_once_and_reads_back_the_same(written):
+    text = written[20].read_text(encoding="latin-1")
+    assert compact_step(text) == text  # already compact: nothing left to merge
+    data = text.split("\nDATA;\n", 1)[1]
+    # one upward direction for all side edges, one circle for all tip arcs
+    assert data.count("DIRECTION('',(0.,0.,1.))") == 1
+    solid = cq.importers.importStep(str(written[20])).val()
+    assert solid.isValid() and len(solid.Faces()) == 2 + 20 * 6 + 1
 
 
 _SCRIPT = textwrap.dedent(

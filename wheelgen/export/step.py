@@ -30,7 +30,13 @@ from OCP.StepRepr import StepRepr_NextAssemblyUsageOccurrence
 from OCP.TCollection import TCollection_HAsciiString
 from OCP.XSControl import XSControl_WorkSession
 
-__all__ = ["STEP_TIME_STAMP", "canonical_step", "write_step", "write_step_assembly"]
+__all__ = [
+    "STEP_TIME_STAMP",
+    "canonical_step",
+    "compact_step",
+    "write_step",
+    "write_step_assembly",
+]
 
 #: Fixed header time stamp, so that the same design gives the same bytes.
 STEP_TIME_STAMP = "2000-01-01T00:00:00"
@@ -140,6 +146,80 @@ def canonical_step(text: str) -> str:
     return pre + "\nDATA;\n" + "\n".join(chunks[:i0] + body) + "\nENDSEC;" + post
 
 
+#: Geometry entities that carry no identity of their own: two with the same contents
+#: are the same point, direction, curve or surface, and a reader may share them.
+#: Topology (vertices, edges, faces) is never merged: two coincident vertices would
+#: be a different solid.
+_SHAREABLE = frozenset(
+    {
+        "CARTESIAN_POINT",
+        "DIRECTION",
+        "VECTOR",
+        "AXIS2_PLACEMENT_3D",
+        "LINE",
+        "CIRCLE",
+        "PLANE",
+        "CYLINDRICAL_SURFACE",
+        "B_SPLINE_CURVE_WITH_KNOTS",
+        "SURFACE_OF_LINEAR_EXTRUSION",
+    }
+)
+_TYPE = re.compile(r"\s*([A-Z_0-9]+)\(")
+_WRAP = re.compile(r"\n\s*")
+_STRING_OR_REF = re.compile(r"('(?:[^']|'')*')|#(\d+)")
+
+
+def compact_step(text: str) -> str:
+    """Write every geometry entity once: identical ones are merged, ids renumbered.
+
+    OCC writes each use of a geometry anew: the direction (0, 0, 1) once per line,
+    every vertex's point twice (the vertex and the side edge's line), and a flank's
+    curve again as the base of its side face. Shared, the file of a wheel shrinks by
+    about half (measured in ``benchmarks/bench_step.py``). Only the
+    :data:`_SHAREABLE` types with empty names are merged; the first of equal
+    entities (in file order) stays, and the ids are then numbered from 1 in file
+    order, so equal input gives equal output.
+    """
+    pre, rest = text.split("\nDATA;\n", 1)
+    data, post = rest.split("\nENDSEC;", 1)
+    chunks = _ENTITY.split(data)
+    ids = [int(c[1 : c.index(" ")]) for c in chunks]
+    shareable = {}
+    for n, c in zip(ids, chunks):
+        body = c[c.index("=") + 1 :]
+        m = _TYPE.match(body)
+        if m and m[1] in _SHAREABLE and set(_STRING.findall(body)) <= {"''"}:
+            shareable[n] = _WRAP.sub("", body)
+    same: dict[int, int] = {}
+    first: dict[str, int] = {}
+
+    def keep(n: int) -> int:
+        # the entity that stands for n: the first one with the same contents
+        if n not in shareable:
+            return n
+        if n not in same:
+            key = _REF.sub(lambda m: "#%d" % keep(int(m[1])), shareable[n])
+            same[n] = first.setdefault(key, n)
+        return same[n]
+
+    kept = [c for n, c in zip(ids, chunks) if keep(n) == n]
+    new = {n: "#%d" % i for i, n in enumerate((n for n in ids if keep(n) == n), 1)}
+    target = {str(n): new[keep(n)] for n in ids}
+
+    def renumber(m: re.Match[str]) -> str:
+        # a quoted string stays as it is; a reference goes to its kept entity
+        return m[0] if m[2] is None else target[m[2]]
+
+    out = _STRING_OR_REF.sub(renumber, "\n".join(kept))
+    return pre + "\nDATA;\n" + out + "\nENDSEC;" + post
+
+
+def _compact_file(path: Path) -> None:
+    text = compact_step(path.read_text(encoding="latin-1"))
+    with open(path, "w", encoding="latin-1", newline="") as fh:
+        fh.write(text)
+
+
 def write_step(shape: cq.Shape, path: Path, name: str) -> Path:
     """Write one shape as STEP, its product called ``name``; the same bytes each run."""
     writer = STEPControl_Writer()
@@ -163,6 +243,7 @@ def write_step(shape: cq.Shape, path: Path, name: str) -> Path:
     context = IFSelect_ContextWrite(model, session.Protocol(), None, str(path))
     if not session.WorkLibrary().WriteFile(context):
         raise OSError(f"could not write STEP file {path}")
+    _compact_file(path)
     return path
 
 
@@ -186,7 +267,7 @@ def write_step_assembly(
     _normalize(writer.ChangeWriter().Model(), name)
     if writer.Write(str(path)) != IFSelect_ReturnStatus.IFSelect_RetDone:
         raise OSError(f"could not write STEP file {path}")
-    text = canonical_step(path.read_text(encoding="latin-1"))
+    text = compact_step(canonical_step(path.read_text(encoding="latin-1")))
     with open(path, "w", encoding="latin-1", newline="") as fh:
         fh.write(text)
     return path

@@ -23,7 +23,14 @@ from ..layout.wheel_profile import (
     seat_extent,
 )
 from ..teeth.outline import WheelOutline
-from .profile import CadBuildError, chain_wire, hole_wire, holed_face, prism
+from .profile import (
+    CadBuildError,
+    chain_wire,
+    hole_wire,
+    holed_face,
+    outline_wire,
+    prism,
+)
 
 __all__ = ["check_solid", "make_wheel", "wheel_from_profile"]
 
@@ -75,7 +82,7 @@ def _overlaps(a: Hole, b: Hole) -> bool:
 
 def wheel_from_profile(part: WheelPart, profile: PlateProfile) -> cq.Solid:
     """The wheel solid from its flat profile; the back face lies on z = 0 (mm)."""
-    outer = chain_wire(profile.outline.segments(), 0.0, f"{part.name} outline")
+    outer = outline_wire(profile.outline, 0.0, f"{part.name} outline")
     inner = [h for h in profile.holes if h.role != "slot"]
     slots = [h for h in profile.holes if h.role == "slot"]
     cut_later: list[Hole] = []
