@@ -58,6 +58,13 @@ def test_build_json_reports_files_and_writes_them(tmp_path):
     assert not any(f.startswith(("stl/", "3mf/", "svg/")) for f in data["files"])
     for rel in data["files"]:
         assert (out / rel).is_file()
+    # the sizes of what was written, the manifest itself aside
+    written = {rel: (out / rel).stat().st_size for rel in data["files"]}
+    assert data["sizes"]["total_bytes"] == sum(
+        n for rel, n in written.items() if rel != "manifest.json"
+    )
+    dxf = [rel for rel in data["files"] if rel.endswith(".dxf")]
+    assert data["sizes"]["formats"]["dxf"]["files"] == len(dxf) > 0
     assert data["cache"] == str(tmp_path / ".wheelgen-cache")
     # again: everything from the cache
     again = CliRunner().invoke(main, args)

@@ -90,6 +90,22 @@ def test_manifest_lists_every_file_with_its_hash(first, design):
     assert names["wheel_b"]["parameters"]["spokes"] == 4
 
 
+def test_manifest_gives_the_sizes_a_shop_receives(first, design):
+    _, out, _, files = first
+    m = json.loads(files["manifest.json"])
+    sizes = {r["path"]: r["bytes"] for r in m["files"]}
+    assert sizes == {k: len(v) for k, v in files.items() if k != "manifest.json"}
+    assert m["sizes"]["total_bytes"] == sum(sizes.values())
+    step = m["sizes"]["formats"]["step"]
+    assert step["files"] == len(plan_parts(design)) + 1  # and the assembly
+    assert step["bytes"] == sum(v for k, v in sizes.items() if k.endswith(".step"))
+    wheel = next(p for p in m["parts"] if p["name"] == "wheel_b")
+    assert set(wheel["file_bytes"]) == {"step", "stl", "3mf", "dxf", "svg"}
+    assert wheel["file_bytes"]["dxf"] == sizes["dxf/wheel_b.dxf"]
+    arbor = next(p for p in m["parts"] if p["kind"] != "wheel")
+    assert set(arbor["file_bytes"]) == {"step", "stl", "3mf"}
+
+
 def test_rebuild_reuses_the_cache_and_gives_the_same_bytes(first, design):
     base, out, _, files = first
     result = build_design(design, out, BuildOptions())

@@ -154,6 +154,28 @@ def test_writers_write_into_staging(tmp_path: Path, demo) -> None:
     assert written == ["cutting.csv", "parts.csv", "report.html"]
 
 
+def test_report_lists_every_file_with_its_size(tmp_path: Path, demo) -> None:
+    design, parts, analysis, page = demo
+    assert "listed when <code>wheelgen build</code> writes the report" in page
+    # a staging folder as the build leaves it for the sheet writers
+    wheel = next(p for p in parts if p.kind == "wheel")
+    (tmp_path / "step").mkdir()
+    (tmp_path / "step" / f"{wheel.name}.step").write_bytes(b"x" * 12_345)
+    (tmp_path / "step" / "assembly.step").write_bytes(b"x" * 2_000_000)
+    (tmp_path / "dxf").mkdir()
+    (tmp_path / "dxf" / f"{wheel.name}.dxf").write_bytes(b"x" * 999)
+    (tmp_path / ".work").mkdir()  # a working folder: not a build file
+    (tmp_path / ".work" / "junk").write_bytes(b"x" * 5)
+    (path,) = report_writer(design, parts, analysis.findings, tmp_path)
+    text = path.read_text()
+    section = text[text.index('<section id="files">') :]
+    # derived: 1 kB = 1000 bytes, 3 significant digits
+    assert "12.3 kB" in section and "999 B" in section and "2.00 MB" in section
+    assert "step/assembly.step" in section and ".work" not in section
+    # together: 12345 + 2000000 + 999 = 2013344 bytes
+    assert "3 files, 2.01 MB in all" in section
+
+
 def test_workshop_never_starts_the_cad_kernel() -> None:
     code = (
         "import sys\n"

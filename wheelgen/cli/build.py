@@ -105,8 +105,8 @@ def build_command(
     workshop sheets (cutting.csv: cutter, indexing and inspection sizes of every
     wheel; parts.csv: bill of parts with screws; drilling/<plate>.csv and .svg: the
     outline and every hole's position from the drive arbor), report.html (one page
-    with drawings, findings, motion and an animated preview), and manifest.json with
-    the SHA-256 of each file.
+    with drawings, findings, motion, an animated preview and the size of every
+    file), and manifest.json with the SHA-256 and size of each file.
     Everything is written to a staging folder first and moved into place only when
     all of it succeeded.
 
@@ -194,6 +194,7 @@ def build_command(
                 "parts_reused": result.reused,
                 "cache": None if result.cache_root is None else str(result.cache_root),
                 "files": result.files,
+                "sizes": result.manifest.get("sizes", {}),
                 "findings": [f.as_dict() for f in result.findings],
             }
         )
@@ -202,9 +203,20 @@ def build_command(
             f"{d.title}: {len(result.files)} files in {result.out_dir} ({status}); "
             f"{result.built} part(s) built, {result.reused} reused from the cache"
         )
+        click.echo(_sizes_line(result.manifest.get("sizes", {})))
         if result.findings:  # warnings and notes (and, with --force, the errors)
             click.echo(findings_table(result.findings))
     sys.exit(EXIT_OK)
+
+
+def _sizes_line(sizes: dict[str, Any]) -> str:
+    from ..workshop.file_sizes import size_text
+
+    per = ", ".join(
+        f"{fmt.upper() or 'other'} {size_text(row['bytes'])}"
+        for fmt, row in sizes.get("formats", {}).items()
+    )
+    return f"Sizes: {size_text(sizes.get('total_bytes', 0))} in all ({per})."
 
 
 def _blocked(findings: Any, force: bool) -> bool:

@@ -1,5 +1,9 @@
 """manifest.json: what was built, from which design, and the SHA-256 of every file.
 
+Sizes: each file's ``bytes``; ``sizes`` with the total and the files and bytes of
+each format (``"step"``, ``"dxf"``...); and each part's ``file_bytes`` per format, so
+a user sees what will be sent to a shop before sending it.
+
 The manifest holds no dates or machine paths, so two builds of the same design give
 the same manifest byte for byte.
 """
@@ -13,6 +17,7 @@ from pathlib import Path
 from typing import Any
 
 from .. import __version__
+from ..workshop.file_sizes import part_file, size_summary
 from .cache import part_parameters
 
 __all__ = ["MANIFEST_NAME", "file_sha256", "make_manifest", "write_manifest"]
@@ -44,6 +49,11 @@ def make_manifest(
         rows.append({"path": rel, "sha256": file_sha256(p), "bytes": p.stat().st_size})
     rows.sort(key=lambda r: r["path"])
     found = [f.as_dict() for f in findings]
+    per_part: dict[str, dict[str, int]] = {}
+    for r in rows:
+        owner = part_file(r["path"])
+        if owner is not None:
+            per_part.setdefault(owner[0], {})[owner[1]] = r["bytes"]
     return {
         "wheelgen": __version__,
         "design": {
@@ -63,10 +73,16 @@ def make_manifest(
             "items": found,
         },
         "parts": [
-            {"name": p.name, "kind": p.kind, "parameters": part_parameters(p)}
+            {
+                "name": p.name,
+                "kind": p.kind,
+                "parameters": part_parameters(p),
+                "file_bytes": per_part.get(p.name, {}),
+            }
             for p in parts
         ],
         "files": rows,
+        "sizes": size_summary((r["path"], r["bytes"]) for r in rows),
     }
 
 

@@ -5,9 +5,10 @@ stylesheet is our own and short; there is no script, no web font and no link out
 the page opens from a USB stick in a classroom and prints on plain paper. Sections:
 title and job, layout drawing, train diagram with every arbor's period, findings,
 target verdicts, uneven motion plots, the animated preview, parts (a drawing each and
-the bill), the cutting sheet and the drilling chart. The page is written from the
-numbers (the same functions that write ``cutting.csv`` and ``parts.csv``), never by
-reading those files back.
+the bill), the cutting sheet, the drilling chart, and the build's files with their
+sizes. The page is written from the numbers (the same functions that write
+``cutting.csv`` and ``parts.csv``), never by reading those files back; of the other
+files only their sizes are read.
 """
 
 from __future__ import annotations
@@ -32,6 +33,7 @@ from ..kinematics.targets import (
 from ..layout.placement import arbor_positions
 from .cutting import CuttingRow, cutting_rows, indexing_text
 from .drilling import chart_holes, drilling_svg
+from .file_sizes import file_format, list_files, part_file, size_summary, size_text
 from .layout_drawing import layout_svg
 from .motion_plot import motion_plot_svg
 from .part_drawing import part_svg
@@ -97,6 +99,7 @@ _SECTIONS = (
     ("parts", "Parts"),
     ("cutting", "Cutting sheet"),
     ("drilling", "Drilling chart"),
+    ("files", "Files and sizes"),
 )
 
 
@@ -451,14 +454,59 @@ def _drilling(design: Design, unchecked: bool) -> str:
     return "".join(out)
 
 
+def _files(parts: Sequence[Any], files: Sequence[tuple[str, int]] | None) -> str:
+    if files is None:
+        return "<p>The files are listed when <code>wheelgen build</code> writes the report.</p>"
+    cells: dict[str, dict[str, int]] = {}
+    others = []
+    names = {p.name for p in parts}
+    for path, size in files:
+        owner = part_file(path)
+        if owner is None or owner[0] not in names:  # the assembly, the sheets
+            others.append((path, size))
+        else:
+            cells.setdefault(owner[0], {})[owner[1]] = size
+    summary = size_summary(files)
+    formats = [f for f in summary["formats"] if any(f in c for c in cells.values())]
+    rows = []
+    for part in parts:
+        got = cells.get(part.name, {})
+        rows.append(
+            [_e(part.name)]
+            + [_e(size_text(got[f])) if f in got else "" for f in formats]
+            + [_e(size_text(sum(got.values())))]
+        )
+    for path, size in others:
+        fmt = file_format(path)
+        rows.append(
+            [_e(path)]
+            + [_e(size_text(size)) if f == fmt else "" for f in formats]
+            + [_e(size_text(size))]
+        )
+    rows.append(
+        ["<b>all files</b>"]
+        + [f"<b>{_e(size_text(summary['formats'][f]['bytes']))}</b>" for f in formats]
+        + [f"<b>{_e(size_text(summary['total_bytes']))}</b>"]
+    )
+    head = ["file or part"] + [f.upper() for f in formats] + ["together"]
+    return (
+        _table(head, rows, set(range(1, len(formats) + 2)))
+        + f"<p>{len(files)} files, {_e(size_text(summary['total_bytes']))} in all "
+        "(1 kB = 1000 bytes), besides this report and manifest.json. Send a workshop "
+        "only the formats its machines read: DXF or STEP for cutting, STL or 3MF for "
+        "printing, SVG for templates on paper.</p>"
+    )
+
+
 def report_html(
     design: Design,
     parts: Sequence[Any],
     findings: Sequence[Finding],
     solution: TrainSolution | None = None,
     targets: Sequence[TargetResult] | None = None,
+    files: Sequence[tuple[str, int]] | None = None,
 ) -> str:
-    """The whole report page as text."""
+    """The whole report page as text; ``files`` are (path, bytes) of the build's files."""
     solution = solve_rates(design) if solution is None else solution
     targets = evaluate_targets(design, solution) if targets is None else targets
     positions = arbor_positions(design)
@@ -491,6 +539,7 @@ def report_html(
         "parts": _parts(parts, bill),
         "cutting": _cutting(cutting),
         "drilling": _drilling(design, has_errors(findings)),
+        "files": _files(parts, files),
     }
     sections = "".join(
         f'<section id="{k}"><h2>{i}. {_e(v)}</h2>{body[k]}</section>'
@@ -513,5 +562,6 @@ def report_writer(
 ) -> list[Path]:
     """Sheet writer for ``wheelgen build``: writes ``report.html`` into ``staging_dir``."""
     path = Path(staging_dir) / REPORT_FILE
-    path.write_text(report_html(design, parts, findings), encoding="utf-8")
+    files = list_files(staging_dir, skip={REPORT_FILE})
+    path.write_text(report_html(design, parts, findings, files=files), encoding="utf-8")
     return [path]
