@@ -104,6 +104,7 @@ def test_manifest_gives_the_sizes_a_shop_receives(first, design):
     assert wheel["file_bytes"]["dxf"] == sizes["dxf/wheel_b.dxf"]
     arbor = next(p for p in m["parts"] if p["kind"] != "wheel")
     assert set(arbor["file_bytes"]) == {"step", "stl", "3mf"}
+    assert m["options"]["dxf_curves"] == "splines"
 
 
 def test_rebuild_reuses_the_cache_and_gives_the_same_bytes(first, design):

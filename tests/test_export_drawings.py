@@ -1,23 +1,19 @@
-"""DXF and 1:1 SVG of flat parts: layers, exact geometry, scale, same bytes every run.
+"""1:1 SVG templates of flat parts: page in millimetres, scale bar, outline, marks.
 
-These writers work from the numeric profile and need no CAD kernel.
+The writer works from the numeric profile and needs no CAD kernel. The DXF writer's
+tests are in test_export_dxf.py.
 """
 
 from __future__ import annotations
 
 import math
 import re
-import subprocess
-import sys
-import textwrap
 import xml.etree.ElementTree as ET
 from pathlib import Path
 
-import ezdxf
 import numpy as np
 import pytest
 
-from wheelgen.export.dxf import write_dxf
 from wheelgen.export.svg_template import SCALE_BAR_MM, write_svg
 from wheelgen.layout.part_plan import WheelPart
 from wheelgen.layout.wheel_profile import plate_profile
@@ -29,77 +25,6 @@ ROOT = Path(__file__).resolve().parents[1]
 def _profile(z=24, module=1.0, **kw):
     part = WheelPart("wheel_a", ToothSpec(z, module), 3.0, 4.0, **kw)
     return part, plate_profile(part, outline_for(part.tooth))
-
-
-@pytest.fixture(scope="module")
-def dxf_doc(tmp_path_factory):
-    part, prof = _profile(spokes=4, rim=2.0, round_radius=0.5)
-    path = write_dxf(prof, tmp_path_factory.mktemp("dxf") / "w.dxf", part.name)
-    return prof, ezdxf.readfile(path)
-
-
-def test_dxf_layers_hold_outline_bore_holes_and_centre(dxf_doc):
-    prof, doc = dxf_doc
-    assert doc.header["$INSUNITS"] == 4  # millimetres
-    msp = doc.modelspace()
-    by_layer: dict[str, list] = {}
-    for e in msp:
-        by_layer.setdefault(e.dxf.layer, []).append(e)
-    assert set(by_layer) == {"OUTLINE", "BORE", "HOLES", "CENTRE"}
-    assert len(by_layer["OUTLINE"]) == 24 * len(prof.outline.tooth)
-    (bore,) = by_layer["BORE"]
-    assert bore.dxftype() == "CIRCLE" and bore.dxf.radius == pytest.approx(2.0)
-    assert [e.dxftype() for e in by_layer["CENTRE"]] == ["LINE", "LINE"]
-    # four windows, each closed: every end point meets another start point
-    holes = by_layer["HOLES"]
-    assert len(holes) == 4 * len(prof.holes[1].segments)
-
-
-def test_dxf_flanks_are_splines_through_the_exact_points(dxf_doc):
-    prof, doc = dxf_doc
-    splines = doc.modelspace().query("SPLINE")
-    exact = [s.points for s in prof.outline.segments() if s.kind == "spline"]
-    assert len(splines) == len(exact)
-    for sp, pts in zip(splines, exact):
-        fit = np.array([tuple(p)[:2] for p in sp.fit_points])
-        assert np.abs(fit - pts).max() < 1e-12
-
-
-def test_dxf_arcs_have_the_tip_and_root_radii(dxf_doc):
-    prof, doc = dxf_doc
-    radii = {
-        round(a.dxf.radius, 9) for a in doc.modelspace().query('ARC[layer=="OUTLINE"]')
-    }
-    # derived: tip radius m z / 2 + m = 13 mm (ISO 53 addendum 1 m)
-    assert 13.0 in radii
-    for arc in doc.modelspace().query('ARC[layer=="OUTLINE"]'):
-        # every outline arc runs counter-clockwise from start to end, < 180 deg
-        span = (arc.dxf.end_angle - arc.dxf.start_angle) % 360
-        assert 0 < span < 180
-
-
-_SCRIPT = textwrap.dedent(
-    """
-    import sys
-    from pathlib import Path
-    from wheelgen.export.dxf import write_dxf
-    from wheelgen.layout.part_plan import WheelPart
-    from wheelgen.layout.wheel_profile import plate_profile
-    from wheelgen.teeth.spec import ToothSpec, outline_for
-    part = WheelPart("w", ToothSpec(30, 1.0), 3.0, 4.0, spokes=5, rim=2.0, round_radius=0.5)
-    write_dxf(plate_profile(part, outline_for(part.tooth)), Path(sys.argv[1]), "w")
-    """
-)
-
-
-def test_dxf_bytes_identical_across_processes_and_hash_seeds(tmp_path):
-    outs = []
-    for seed in ("0", "123", "random"):
-        out = tmp_path / f"{seed}.dxf"
-        env = {"PYTHONHASHSEED": seed, "PATH": "/usr/bin:/bin", "PYTHONPATH": str(ROOT)}
-        subprocess.run([sys.executable, "-c", _SCRIPT, str(out)], check=True, env=env)
-        outs.append(out.read_bytes())
-    assert outs[0] == outs[1] == outs[2]
 
 
 @pytest.fixture(scope="module")

@@ -12,6 +12,7 @@ from typing import Any
 
 import click
 
+from ..export.build import DXF_CURVES
 from ._common import (
     DEFAULT_DESIGN,
     EXIT_FINDINGS,
@@ -71,7 +72,17 @@ def _parse_formats(text: str) -> tuple[str, ...]:
     type=click.FloatRange(0.0005, 1.0),
     default=0.01,
     show_default=True,
-    help="Largest chord deviation of STL/3MF meshes, mm.",
+    help="Largest chord deviation of STL/3MF meshes, and of DXF arcs from the "
+    "exact flanks with --dxf-curves arcs, mm.",
+)
+@click.option(
+    "--dxf-curves",
+    type=click.Choice(DXF_CURVES),
+    default=DXF_CURVES[0],
+    show_default=True,
+    help="How DXF files draw curved flanks: 'splines' (B-splines with control and "
+    "fit points, for CAD and most CAM) or 'arcs' (lines and arcs only, within "
+    "--tolerance, for laser and router programs that cannot read splines).",
 )
 @click.option(
     "--no-cache",
@@ -91,6 +102,7 @@ def build_command(
     jobs: int,
     force: bool,
     tolerance: float,
+    dxf_curves: str,
     no_cache: bool,
     as_json: bool,
 ) -> None:
@@ -106,7 +118,9 @@ def build_command(
     wheel; parts.csv: bill of parts with screws; drilling/<plate>.csv and .svg: the
     outline and every hole's position from the drive arbor), report.html (one page
     with drawings, findings, motion, an animated preview and the size of every
-    file), and manifest.json with the SHA-256 and size of each file.
+    file), and manifest.json with the SHA-256 and size of each file. DXF files hold
+    the outline, bore, windows, slots and pin holes as cut lines and the marks of
+    pins and hub bosses, each on its own layer.
     Everything is written to a staging folder first and moved into place only when
     all of it succeeded.
 
@@ -129,6 +143,7 @@ def build_command(
         force=force,
         use_cache=not no_cache,
         mesh_tolerance=tolerance,
+        dxf_curves=dxf_curves,
     )
     out_dir = Path(output) if output else None
     bar: Any = None

@@ -37,6 +37,7 @@ from .staging import Staging, UnsafeNameError, inside, safe_name
 
 __all__ = [
     "ASSEMBLY_FILE",
+    "DXF_CURVES",
     "FORMATS",
     "PART_WRITERS",
     "PLANAR_FORMATS",
@@ -49,6 +50,9 @@ __all__ = [
     "part_file_names",
 ]
 
+#: How DXF files may draw curves: B-splines (control and fit points), or lines and
+#: arcs only (see :mod:`wheelgen.export.dxf`).
+DXF_CURVES: tuple[str, ...] = ("splines", "arcs")
 #: Every export format, in the order files are written.
 FORMATS: tuple[str, ...] = ("step", "stl", "3mf", "dxf", "svg")
 #: Formats that only flat parts (wheels and plates) get.
@@ -74,13 +78,18 @@ _COLOURS = {
 
 @dataclass(frozen=True, slots=True)
 class BuildOptions:
-    """How to build: formats, jobs, force past errors, cache, mesh tolerance (mm)."""
+    """How to build: formats, jobs, force past errors, cache, mesh tolerance (mm).
+
+    ``dxf_curves`` says how DXF files draw curves: ``"splines"`` (control and fit
+    points) or ``"arcs"`` (lines and arcs only, within ``mesh_tolerance``).
+    """
 
     formats: tuple[str, ...] = FORMATS
     jobs: int = 1
     force: bool = False
     use_cache: bool = True
     mesh_tolerance: float = 0.01
+    dxf_curves: str = "splines"
 
     def __post_init__(self) -> None:
         bad = [f for f in self.formats if f not in FORMATS]
@@ -96,6 +105,11 @@ class BuildOptions:
                 "'mesh_tolerance' must be from 0.0005 to 1 mm,"
                 f" got {self.mesh_tolerance}"
             )
+        if self.dxf_curves not in DXF_CURVES:
+            raise ValueError(
+                f"'dxf_curves' must be one of {', '.join(DXF_CURVES)},"
+                f" got {self.dxf_curves!r}"
+            )
 
     def key_options(self) -> dict[str, Any]:
         """The options that decide a part's bytes (part of its cache key)."""
@@ -103,6 +117,7 @@ class BuildOptions:
             "formats": sorted(set(self.formats)),
             "mesh_tolerance": self.mesh_tolerance,
             "mesh_angle_deg": _MESH_ANGLE_DEG,
+            "dxf_curves": self.dxf_curves,
         }
 
 
@@ -153,9 +168,12 @@ def part_file_names(part: Any, formats: Sequence[str]) -> list[tuple[str, str]]:
 class _PartWork:
     """One part's solid, mesh and flat profile, each made on first use."""
 
-    def __init__(self, part: Any, tolerance: float) -> None:
+    def __init__(
+        self, part: Any, tolerance: float, dxf_curves: str = "splines"
+    ) -> None:
         self.part = part
         self.tolerance = tolerance
+        self.dxf_curves = dxf_curves
         self._solid: Any = None
         self._mesh: Any = None
         self._profile: Any = None
@@ -217,6 +235,15 @@ def _write_3mf(w: _PartWork, path: Path) -> None:
     write_3mf(w.mesh, path, w.part.name)
 
 
+def _face_pins(part: Any) -> list[tuple[float, float, float]]:
+    """(x, y, diameter) in mm of a pin standing on the wheel's face, to be marked."""
+    pin = part.pin
+    if pin is None or pin.hole_only:  # a through hole is drawn as a hole already
+        return []
+    a = math.radians(pin.angle_deg)
+    return [(pin.radius * math.cos(a), pin.radius * math.sin(a), pin.diameter)]
+
+
 def _write_dxf(w: _PartWork, path: Path) -> None:
     if w.part.kind == "plate":
         from .dxf import write_plate_dxf
@@ -225,7 +252,16 @@ def _write_dxf(w: _PartWork, path: Path) -> None:
         return
     from .dxf import write_dxf
 
-    write_dxf(w.profile, path, w.part.name)
+    hub = w.part.hub_diameter if w.part.hub_length > 0 else 0.0
+    write_dxf(
+        w.profile,
+        path,
+        w.part.name,
+        curves=w.dxf_curves,
+        tolerance=w.tolerance,
+        pins=_face_pins(w.part),
+        hub_diameter=hub,
+    )
 
 
 def _write_svg(w: _PartWork, path: Path) -> None:
@@ -236,15 +272,13 @@ def _write_svg(w: _PartWork, path: Path) -> None:
         return
     from .svg_template import write_svg
 
-    pins = []
-    pin = w.part.pin
-    if (
-        pin is not None and not pin.hole_only
-    ):  # a through hole is drawn as a hole already
-        a = math.radians(pin.angle_deg)
-        pins.append((pin.radius * math.cos(a), pin.radius * math.sin(a), pin.diameter))
     write_svg(
-        w.profile, path, w.part.name, w.part.tooth.teeth, w.part.tooth.module, pins=pins
+        w.profile,
+        path,
+        w.part.name,
+        w.part.tooth.teeth,
+        w.part.tooth.module,
+        pins=_face_pins(w.part),
     )
 
 
@@ -262,7 +296,7 @@ _BREP = "solid.brep"  # kept in the cache entry only, for the assembly
 def build_part_files(part: Any, options: BuildOptions, dest: Path) -> list[str]:
     """Write every file of ``part`` under ``dest``; returns their relative paths."""
     safe_name(part.name)
-    work = _PartWork(part, options.mesh_tolerance)
+    work = _PartWork(part, options.mesh_tolerance, options.dxf_curves)
     written = []
     for fmt, rel in part_file_names(part, options.formats):
         path = inside(dest, rel)

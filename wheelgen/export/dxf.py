@@ -1,38 +1,84 @@
-"""DXF of a flat part for cutting: outline, bore, other holes and centre mark on layers.
+"""DXF of a flat part for cutting: outline, holes and marks, each on a named layer.
 
 :func:`write_dxf` draws a wheel's profile; :func:`write_plate_dxf` a frame plate (its
 outline and round holes, grouped on layers by what they hold).
 
-Written from the same exact profile as the solid (no kernel needed): lines as LINE,
-arcs as ARC, each flank as one SPLINE through the generator's exact points, circles
-as CIRCLE. Drawing units are millimetres ($INSUNITS = 4).
+Written from the same exact profile as the solid (no kernel needed), in one of two
+flavours (:data:`wheelgen.export.build.DXF_CURVES`, the build option):
 
-ezdxf normally stamps dates and GUIDs; its fixed-metadata switch makes them constant.
-The CLASSES section came out in hash-seed order (ezdxf collects entity types in a
-set); we sort it before saving, so no interpreter setting (PYTHONHASHSEED) is needed
-(both in :func:`_drawing`, which every writer here uses).
+- ``"splines"`` (the default): lines as LINE, arcs as ARC, circles as CIRCLE, and each
+  flank as one SPLINE carrying both its control points (the same cubic B-spline the
+  STEP file holds, within 0.05 um of the exact curve) and its fit points (the exact
+  points of the tooth generator), for readers that take either;
+- ``"arcs"``: no splines at all; each flank becomes a tangent-continuous chain of
+  arcs (biarcs, :mod:`wheelgen.export.biarcs`) within the given tolerance, for CAM
+  programs that read only lines, arcs and circles.
+
+Cut lines and marks lie on separate layers (:data:`LAYERS`), so a CAM program can
+cut the outline, the bore, windows, slots and pin holes in their own passes and
+leave the marks (a pin standing on the face, a hub boss) as scribe or drill lines.
+Drawing units are millimetres ($INSUNITS = 4).
+
+ezdxf normally stamps dates and GUIDs; its fixed-metadata switch, on from creating
+the document to saving it, makes them constant. The CLASSES section came out in hash-seed order (ezdxf collects entity types in a
+set); we sort it before saving, so no interpreter setting (PYTHONHASHSEED) is needed.
 """
 
 from __future__ import annotations
 
 import math
 from collections import OrderedDict
-from collections.abc import Iterator
+from collections.abc import Iterable, Iterator, Sequence
 from contextlib import contextmanager
 from pathlib import Path
 from typing import Any
 
 import ezdxf
 import numpy as np
+from scipy.interpolate import BSpline
 
 from ..layout.part_plan import PlatePart
 from ..layout.wheel_profile import Hole, PlateProfile
-from ..teeth.outline import Segment, circle_through
+from ..solids.spline_fit import SplineFit, fit_segments
+from ..teeth.outline import Segment, WheelOutline, circle_through
+from .biarcs import biarc_segments
+from .build import DXF_CURVES
 
-__all__ = ["LAYERS", "PLATE_LAYERS", "write_dxf", "write_plate_dxf"]
+__all__ = [
+    "HOLE_LAYERS",
+    "LAYERS",
+    "add_chain",
+    "PLATE_LAYERS",
+    "add_outline",
+    "dxf_document",
+    "save_dxf",
+    "write_dxf",
+    "write_plate_dxf",
+]
 
-#: Layer names and ACI colours: toothed outline, seat bore, other holes, centre mark.
-LAYERS: dict[str, int] = {"OUTLINE": 7, "BORE": 1, "HOLES": 5, "CENTRE": 3}
+#: Layer names and ACI colours. Cut lines: the toothed outline, the seat bore,
+#: spoke windows, slots, pin holes (and any other hole). Marks, not to be cut: a
+#: pin standing on the face, a hub boss on the face, the centre cross.
+LAYERS: dict[str, int] = {
+    "OUTLINE": 7,
+    "BORE": 1,
+    "WINDOWS": 5,
+    "SLOTS": 6,
+    "PIN_HOLES": 4,
+    "HOLES": 5,
+    "PIN_MARK": 2,
+    "HUB_MARK": 30,
+    "CENTRE": 3,
+}
+
+#: The layer of each hole role of a wheel profile; any other role goes on HOLES.
+HOLE_LAYERS: dict[str, str] = {
+    "bore": "BORE",
+    "window": "WINDOWS",
+    "slot": "SLOTS",
+    "pin_hole": "PIN_HOLES",
+}
+
 #: A plate's layers and ACI colours: outline, pivot holes (and held tubes, bushes and
 #: bearings), pillar holes, mounting holes (cock screws), centre marks.
 PLATE_LAYERS: dict[str, int] = {
@@ -63,73 +109,189 @@ def _arc_params(p: np.ndarray) -> tuple[tuple[float, float], float, float, float
     # the sign of the triangle's area: start, mid, end turn left
     d = (b[0] - a[0]) * (c[1] - a[1]) - (b[1] - a[1]) * (c[0] - a[0])
     ang = [math.degrees(math.atan2(q[1] - uy, q[0] - ux)) for q in (a, b, c)]
-    ccw = d > 0  # the sign of the triangle's area: start, mid, end turn left
-    start, end = (ang[0], ang[2]) if ccw else (ang[2], ang[0])
+    start, end = (ang[0], ang[2]) if d > 0 else (ang[2], ang[0])
     return (float(ux), float(uy)), float(r), start % 360.0, end % 360.0
 
 
-def _add_segment(msp, seg: Segment, layer: str) -> None:  # type: ignore[no-untyped-def]
-    attrs = {"layer": layer}
-    pts = seg.points
-    if seg.kind == "line" or (seg.kind == "spline" and len(pts) == 2):
-        msp.add_line(tuple(pts[0]), tuple(pts[-1]), dxfattribs=attrs)
-    elif seg.kind == "arc":
-        centre, r, a0, a1 = _arc_params(pts)
-        msp.add_arc(centre, r, a0, a1, dxfattribs=attrs)
-    else:
-        msp.add_spline(
-            fit_points=[(float(x), float(y), 0.0) for x, y in pts], dxfattribs=attrs
+def _check_curves(curves: str) -> None:
+    if curves not in DXF_CURVES:
+        raise ValueError(
+            f"'curves' must be one of {', '.join(map(repr, DXF_CURVES))}, got {curves!r}"
         )
 
 
-def _add_hole(msp, hole: Hole) -> None:  # type: ignore[no-untyped-def]  # ezdxf layout
-    layer = "BORE" if hole.role == "bore" else "HOLES"
+def _xyz(points: Iterable[Any]) -> list[tuple[float, float, float]]:
+    return [(float(x), float(y), 0.0) for x, y in points]
+
+
+def _add_spline(msp: Any, seg: Segment, fit: SplineFit, attrs: dict[str, Any]) -> None:
+    spline = msp.add_open_spline(
+        _xyz(fit.poles),
+        degree=fit.degree,
+        knots=fit.full_knots().tolist(),
+        dxfattribs=attrs,
+    )
+    spline.fit_points = _xyz(seg.points)
+    # end tangents of the fitted curve, for readers that rebuild it from fit points
+    d = BSpline(fit.full_knots(), fit.poles, fit.degree).derivative()
+    t0, t1 = (np.asarray(d(u), dtype=float) for u in (0.0, 1.0))
+    spline.dxf.start_tangent = (*(t0 / math.hypot(*t0)), 0.0)
+    spline.dxf.end_tangent = (*(t1 / math.hypot(*t1)), 0.0)
+
+
+def _add_simple(msp: Any, seg: Segment, attrs: dict[str, Any]) -> None:
+    pts = seg.points
+    if seg.kind == "arc" and circle_through(pts[0], pts[1], pts[2])[1] is not None:
+        centre, r, a0, a1 = _arc_params(pts)
+        msp.add_arc(centre, r, a0, a1, dxfattribs=attrs)
+    else:
+        msp.add_line(tuple(pts[0]), tuple(pts[-1]), dxfattribs=attrs)
+
+
+def add_chain(
+    msp: Any,
+    segments: Sequence[Segment],
+    layer: str,
+    curves: str = "splines",
+    tolerance: float = 0.01,
+    fits: Sequence[SplineFit | None] | None = None,
+) -> None:
+    """Draw a chain of exact segments on ``layer`` of an ezdxf layout.
+
+    ``curves`` is ``"splines"`` or ``"arcs"``; with ``"arcs"`` every spline becomes
+    arcs within ``tolerance`` mm of the exact curve. ``fits`` are the segments' spline
+    fits when already made (see :func:`wheelgen.solids.spline_fit.fit_segments`).
+    """
+    _check_curves(curves)
+    attrs = {"layer": layer}
+    if fits is None:
+        fits = fit_segments(segments)
+    for seg, fit in zip(segments, fits):
+        if fit is None or len(seg.points) == 2:
+            _add_simple(msp, seg, attrs)
+        elif curves == "splines":
+            _add_spline(msp, seg, fit, attrs)
+        else:
+            # the arcs' budget is what the fit has left of the tolerance
+            for piece in biarc_segments(fit, tolerance - fit.deviation):
+                _add_simple(msp, piece, attrs)
+
+
+def add_outline(
+    msp: Any,
+    outline: WheelOutline,
+    layer: str = "OUTLINE",
+    curves: str = "splines",
+    tolerance: float = 0.01,
+) -> None:
+    """Draw a wheel's toothed outline; tooth 0's curves are made once and turned."""
+    fits = fit_segments(outline.tooth)
+    tooth: list[Segment] = []
+    if curves == "arcs":
+        # turn tooth 0's arcs rather than fitting arcs to every tooth
+        for seg, fit in zip(outline.tooth, fits):
+            if fit is None or len(seg.points) == 2:
+                tooth.append(seg)
+            else:
+                tooth.extend(biarc_segments(fit, tolerance - fit.deviation))
+        fits = tuple(None for _ in tooth)
+    else:
+        tooth = list(outline.tooth)
+    for k in range(outline.teeth):
+        angle = k * outline.pitch_angle_deg
+        turned = [s if k == 0 else s.rotated(angle) for s in tooth]
+        turned_fits = [f if f is None or k == 0 else f.rotated(angle) for f in fits]
+        add_chain(msp, turned, layer, curves, tolerance, turned_fits)
+
+
+def _add_hole(msp: Any, hole: Hole, curves: str, tolerance: float) -> None:
+    layer = HOLE_LAYERS.get(hole.role, "HOLES")
     if hole.circle is not None:
         x, y, r = hole.circle
         msp.add_circle((x, y), r, dxfattribs={"layer": layer})
         return
-    for seg in hole.segments:
-        _add_segment(msp, seg, layer)
+    add_chain(msp, hole.segments, layer, curves, tolerance)
 
 
 @contextmanager
-def _drawing(path: Path, name: str, layers: dict[str, int]) -> Iterator[Any]:
-    """A new DXF (R2010, mm) with ``layers``; yields its modelspace, saves on leaving.
-
-    ezdxf normally stamps dates and GUIDs: its fixed-metadata switch makes them
-    constant. It also adds a CLASS per entity type in use while saving, iterating a
-    set, so their order followed PYTHONHASHSEED: they are added here, sorted, and
-    saving adds none.
-    """
+def _fixed_metadata() -> Iterator[None]:
+    # ezdxf stamps the creation and the saving with dates and GUIDs; its switch for
+    # tests makes them constant. It is global: set it only while we need it.
     previous = ezdxf.options.write_fixed_meta_data_for_testing
-    ezdxf.options.write_fixed_meta_data_for_testing = True  # no dates, fixed GUIDs
+    ezdxf.options.write_fixed_meta_data_for_testing = True
     try:
-        doc = ezdxf.new("R2010", setup=False)
-        doc.units = 4  # millimetres
-        doc.header["$MEASUREMENT"] = 1
-        for layer, colour in layers.items():
-            doc.layers.add(layer, color=colour)
-        yield doc.modelspace()
-        doc.header["$PROJECTNAME"] = name
-        doc.classes.add_required_classes(doc.dxfversion)
-        doc.classes.classes = OrderedDict(sorted(doc.classes.classes.items()))
-        doc.saveas(path)
+        yield
     finally:
         ezdxf.options.write_fixed_meta_data_for_testing = previous
 
 
-def write_dxf(profile: PlateProfile, path: Path, name: str) -> Path:
-    """Write the profile as a DXF (R2010, mm); the same profile gives the same bytes."""
-    with _drawing(path, name, LAYERS) as msp:
-        for seg in profile.outline.segments():
-            _add_segment(msp, seg, "OUTLINE")
-        for hole in profile.holes:
-            _add_hole(msp, hole)
-        bore = next((h for h in profile.holes if h.role == "bore"), None)
-        size = max(2.0, 0.6 * (2 * bore.circle[2] if bore and bore.circle else 2.0))
-        msp.add_line((-size, 0.0), (size, 0.0), dxfattribs={"layer": "CENTRE"})
-        msp.add_line((0.0, -size), (0.0, size), dxfattribs={"layer": "CENTRE"})
+def dxf_document(name: str, layers: dict[str, int] = LAYERS) -> Any:
+    """A new DXF document (R2010, mm) with every layer of ``layers`` (a wheel's)."""
+    with _fixed_metadata():
+        doc = ezdxf.new("R2010", setup=False)
+    doc.units = 4  # millimetres
+    doc.header["$MEASUREMENT"] = 1
+    doc.header["$PROJECTNAME"] = name
+    for layer, colour in layers.items():
+        doc.layers.add(layer, color=colour)
+    return doc
+
+
+def save_dxf(doc: Any, path: Path) -> Path:
+    """Save ``doc`` to ``path`` with fixed dates and GUIDs: the same bytes each run."""
+    with _fixed_metadata():
+        # ezdxf adds a CLASS per entity type in use while saving, iterating a set:
+        # the order followed PYTHONHASHSEED. Add them now, sorted; saving adds none.
+        doc.classes.add_required_classes(doc.dxfversion)
+        doc.classes.classes = OrderedDict(sorted(doc.classes.classes.items()))
+        doc.saveas(path)
     return path
+
+
+def write_dxf(
+    profile: PlateProfile,
+    path: Path,
+    name: str,
+    curves: str = "splines",
+    tolerance: float = 0.01,
+    pins: Sequence[tuple[float, float, float]] = (),
+    hub_diameter: float = 0.0,
+) -> Path:
+    """Write the profile as a DXF (R2010, mm); the same input gives the same bytes.
+
+    Parameters
+    ----------
+    profile : PlateProfile
+        The wheel's outline and holes, in mm.
+    curves : str
+        ``"splines"`` or ``"arcs"`` (lines and arcs only).
+    tolerance : float
+        Largest distance (mm) of the arcs from the exact flanks with ``"arcs"``.
+    pins : sequence of (x, y, diameter)
+        Pins standing on the face (mm), drawn on PIN_MARK as a circle and a cross.
+    hub_diameter : float
+        A hub boss on the face (mm, 0 for none), drawn on HUB_MARK as a circle.
+    """
+    _check_curves(curves)
+    if tolerance <= 0:
+        raise ValueError(f"'tolerance' must be > 0 mm, got {tolerance}")
+    doc = dxf_document(name)
+    msp = doc.modelspace()
+    add_outline(msp, profile.outline, "OUTLINE", curves, tolerance)
+    for hole in profile.holes:
+        _add_hole(msp, hole, curves, tolerance)
+    for x, y, dia in pins:
+        c = dia / 2 + 1.0  # the cross reaches 1 mm past the pin, as on the SVG template
+        msp.add_circle((x, y), dia / 2, dxfattribs={"layer": "PIN_MARK"})
+        msp.add_line((x - c, y), (x + c, y), dxfattribs={"layer": "PIN_MARK"})
+        msp.add_line((x, y - c), (x, y + c), dxfattribs={"layer": "PIN_MARK"})
+    if hub_diameter > 0:
+        msp.add_circle((0.0, 0.0), hub_diameter / 2, dxfattribs={"layer": "HUB_MARK"})
+    bore = next((h for h in profile.holes if h.role == "bore"), None)
+    size = max(2.0, 0.6 * (2 * bore.circle[2] if bore and bore.circle else 2.0))
+    msp.add_line((-size, 0.0), (size, 0.0), dxfattribs={"layer": "CENTRE"})
+    msp.add_line((0.0, -size), (0.0, size), dxfattribs={"layer": "CENTRE"})
+    return save_dxf(doc, path)
 
 
 def write_plate_dxf(part: PlatePart, path: Path) -> Path:
@@ -137,15 +299,15 @@ def write_plate_dxf(part: PlatePart, path: Path) -> Path:
 
     The drawing is in the design's frame (the arbors' ``at``), seen from the front.
     """
-    with _drawing(path, part.name, PLATE_LAYERS) as msp:
-        for e in part.outline:
-            points = np.array(e.points, dtype=float)
-            _add_segment(msp, Segment(e.kind, points), "OUTLINE")
-        for h in part.holes:
-            layer = _PLATE_LAYER_OF_ROLE.get(h.role, "PIVOTS")
-            msp.add_circle((h.x, h.y), h.diameter / 2, dxfattribs={"layer": layer})
-            c = h.diameter / 2 + 1.0
-            attrs = {"layer": "CENTRES"}
-            msp.add_line((h.x - c, h.y), (h.x + c, h.y), dxfattribs=attrs)
-            msp.add_line((h.x, h.y - c), (h.x, h.y + c), dxfattribs=attrs)
-    return path
+    doc = dxf_document(part.name, PLATE_LAYERS)
+    msp = doc.modelspace()
+    outline = [Segment(e.kind, np.array(e.points, dtype=float)) for e in part.outline]
+    add_chain(msp, outline, "OUTLINE")
+    for h in part.holes:
+        layer = _PLATE_LAYER_OF_ROLE.get(h.role, "PIVOTS")
+        msp.add_circle((h.x, h.y), h.diameter / 2, dxfattribs={"layer": layer})
+        c = h.diameter / 2 + 1.0
+        attrs = {"layer": "CENTRES"}
+        msp.add_line((h.x - c, h.y), (h.x + c, h.y), dxfattribs=attrs)
+        msp.add_line((h.x, h.y - c), (h.x, h.y + c), dxfattribs=attrs)
+    return save_dxf(doc, path)
