@@ -35,7 +35,6 @@ from typing import Any
 
 import ezdxf
 import numpy as np
-from scipy.interpolate import BSpline
 
 from ..layout.part_plan import PlatePart
 from ..layout.wheel_profile import Hole, PlateProfile
@@ -125,18 +124,18 @@ def _xyz(points: Iterable[Any]) -> list[tuple[float, float, float]]:
 
 
 def _add_spline(msp: Any, seg: Segment, fit: SplineFit, attrs: dict[str, Any]) -> None:
-    spline = msp.add_open_spline(
-        _xyz(fit.poles),
-        degree=fit.degree,
-        knots=fit.full_knots().tolist(),
-        dxfattribs=attrs,
-    )
+    spline = msp.add_spline(dxfattribs={**attrs, "degree": fit.degree})
+    spline.control_points = _xyz(fit.poles)
+    spline.knots = fit.full_knots().tolist()
     spline.fit_points = _xyz(seg.points)
-    # end tangents of the fitted curve, for readers that rebuild it from fit points
-    d = BSpline(fit.full_knots(), fit.poles, fit.degree).derivative()
-    t0, t1 = (np.asarray(d(u), dtype=float) for u in (0.0, 1.0))
-    spline.dxf.start_tangent = (*(t0 / math.hypot(*t0)), 0.0)
-    spline.dxf.end_tangent = (*(t1 / math.hypot(*t1)), 0.0)
+    # end tangents, for readers that rebuild the curve from the fit points: a clamped
+    # B-spline leaves its first pole towards the second and ends from the last but one
+    for key, (a, b) in (
+        ("start_tangent", fit.poles[:2]),
+        ("end_tangent", fit.poles[-2:]),
+    ):
+        d = b - a
+        spline.dxf.set(key, (*(d / math.hypot(*d)), 0.0))
 
 
 def _add_simple(msp: Any, seg: Segment, attrs: dict[str, Any]) -> None:

@@ -25,6 +25,7 @@ from __future__ import annotations
 import math
 from collections.abc import Sequence
 from dataclasses import dataclass
+from functools import lru_cache
 
 import numpy as np
 from numpy.typing import NDArray
@@ -48,7 +49,7 @@ FloatArray = NDArray[np.float64]
 SPLINE_FIT_TOLERANCE = 5e-5
 _DEGREE = 3
 _MAX_POLES = 200  # beyond this, interpolating the exact points is smaller anyway
-_SAMPLES_PER_SPAN = 8  # fitting samples between two exact points
+_SAMPLES_PER_SPAN = 6  # fitting samples between two exact points
 _CHECKS_PER_SPAN = 16  # check points between two exact points (none a fitting sample)
 _VERIFY_PER_SPAN = 64  # points between two exact points for spline_fit_deviation
 _REPARAMETRISE = 1  # foot-point corrections of the sample parameters per fit
@@ -67,6 +68,11 @@ class SplineFit:
     multiplicities: tuple[int, ...]
     poles: FloatArray
     deviation: float  # largest distance (mm) found from the reference curve
+
+    def __post_init__(self) -> None:
+        poles = np.array(self.poles, dtype=float)
+        poles.setflags(write=False)  # fits are shared (see fit_spline): never edited
+        object.__setattr__(self, "poles", poles)
 
     def full_knots(self) -> FloatArray:
         """The knot vector with every knot repeated by its multiplicity."""
@@ -148,10 +154,10 @@ def _fit_on(
     q: FloatArray, u: FloatArray, t: FloatArray, degree: int
 ) -> tuple[BSpline, FloatArray]:
     for _ in range(_REPARAMETRISE):
-        spline = BSpline(t, _least_squares(q, u, t, degree), degree)
+        spline = BSpline.construct_fast(t, _least_squares(q, u, t, degree), degree)
         u = _foot(spline, q, u, 3)
         u[0], u[-1] = 0.0, 1.0
-    return BSpline(t, _least_squares(q, u, t, degree), degree), u
+    return BSpline.construct_fast(t, _least_squares(q, u, t, degree), degree), u
 
 
 def _interpolating(points: FloatArray) -> SplineFit:
@@ -216,6 +222,12 @@ def fit_spline(
         raise ValueError(f"'points' must be an (n, 2) array, n >= 2; got {p.shape}")
     if tolerance <= 0:
         raise ValueError(f"'tolerance' must be > 0 mm, got {tolerance}")
+    return _fit_kept(np.ascontiguousarray(p).tobytes(), float(tolerance))
+
+
+@lru_cache(maxsize=256)
+def _fit_kept(points: bytes, tolerance: float) -> SplineFit:
+    p = np.frombuffer(points, dtype=float).reshape(-1, 2)
     if len(p) == 2:
         line = np.vstack((p[0], (2 * p[0] + p[1]) / 3, (p[0] + 2 * p[1]) / 3, p[1]))
         return SplineFit(_DEGREE, (0.0, 1.0), (4, 4), line, 0.0)
@@ -231,7 +243,7 @@ def fit_spline(
         t = np.concatenate(([0.0] * 4, inner, [1.0] * 4))
         spline, u_fit = _fit_on(q, u0, t, _DEGREE)
         # start each check point's foot search from its neighbours' fitted parameters
-        u = _foot(spline, check, np.interp(check_s, s_fit, u_fit), 4)
+        u = _foot(spline, check, np.interp(check_s, s_fit, u_fit), 2)
         return spline, u, np.hypot(*(spline(u) - check).T)
 
     inner: list[float] = []
