@@ -257,6 +257,30 @@ def test_shared_geometry_is_written_once_and_reads_back_the_same(written):
     assert solid.isValid() and len(solid.Faces()) == 2 + 20 * 6 + 1
 
 
+def test_assembly_parts_share_no_geometry(tmp_path):
+    # two parts of equal shape: each keeps its own curves (an item belongs to one
+    # shape representation), and both read back valid and in place
+    from wheelgen.export.step import write_step_assembly
+
+    part = WheelPart("w", ToothSpec(12, 1.0), 3.0, 2.0)
+    a, b = make_wheel(part), make_wheel(part)
+    single = write_step(a, tmp_path / "a.step", "a").read_text(encoding="latin-1")
+    path = write_step_assembly(
+        "pair",
+        [
+            ("a", a, cq.Location(cq.Vector(0, 0, 0)), (0.8, 0.6, 0.2)),
+            ("b", b, cq.Location(cq.Vector(20, 0, 0)), (0.8, 0.6, 0.2)),
+        ],
+        tmp_path / "pair.step",
+    )
+    pair = path.read_text(encoding="latin-1")
+    for kind in ("B_SPLINE_CURVE_WITH_KNOTS(", "CIRCLE(", "CYLINDRICAL_SURFACE("):
+        assert pair.count(kind) == 2 * single.count(kind), kind
+    found = {n: o for n, o in cq.Assembly.importStep(str(path)).traverse()}
+    assert found["b"].loc.toTuple()[0] == pytest.approx((20.0, 0.0, 0.0), abs=1e-9)
+    assert all(s.isValid() for s in found["b"].obj.Solids())
+
+
 _SCRIPT = textwrap.dedent(
     """
     import sys

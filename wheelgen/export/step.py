@@ -7,6 +7,12 @@ the header, rename the counters' products, number the usage ids ourselves, and
 rewrite the colour tail of the data section in a canonical order (the geometry
 section is stable and left untouched).
 
+Size: every file is then compacted (:func:`compact_step`): a point, direction,
+circle, surface or curve that the kernel wrote several times is written once and
+shared, which halves a wheel's file; the flanks themselves are already as small as
+their accuracy allows (:mod:`wheelgen.solids.spline_fit`), and no 2D parameter
+curves are written (readers rebuild them).
+
 Speed: a single part skips the kernel's model check, whose cost grows faster than
 the tooth count (see :func:`write_step`); the assembly writer runs it inside
 STEPCAFControl_Writer and cannot skip it.
@@ -167,6 +173,11 @@ _SHAREABLE = frozenset(
 _TYPE = re.compile(r"\s*([A-Z_0-9]+)\(")
 _WRAP = re.compile(r"\n\s*")
 _STRING_OR_REF = re.compile(r"('(?:[^']|'')*')|#(\d+)")
+# representations of a shape (not the entities that link one to a product or a
+# placement: SHAPE_DEFINITION_ and CONTEXT_DEPENDENT_SHAPE_REPRESENTATION)
+_SHAPE_REPRESENTATION = re.compile(
+    r"(?!SHAPE_DEFINITION_|CONTEXT_DEPENDENT_)[A-Z_]*SHAPE_REPRESENTATION"
+)
 
 
 def compact_step(text: str) -> str:
@@ -185,21 +196,26 @@ def compact_step(text: str) -> str:
     chunks = _ENTITY.split(data)
     ids = [int(c[1 : c.index(" ")]) for c in chunks]
     shareable = {}
+    shapes = []
     for n, c in zip(ids, chunks):
         body = c[c.index("=") + 1 :]
         m = _TYPE.match(body)
         if m and m[1] in _SHAREABLE and set(_STRING.findall(body)) <= {"''"}:
             shareable[n] = _WRAP.sub("", body)
+        elif m and _SHAPE_REPRESENTATION.fullmatch(m[1]):
+            shapes.append(n)
+    owner = _owners(ids, chunks, shapes) if len(shapes) > 1 else {}
     same: dict[int, int] = {}
     first: dict[str, int] = {}
 
     def keep(n: int) -> int:
-        # the entity that stands for n: the first one with the same contents
+        # the entity that stands for n: the first one with the same contents in the
+        # same shape representation (an item is never shared between two of them)
         if n not in shareable:
             return n
         if n not in same:
             key = _REF.sub(lambda m: "#%d" % keep(int(m[1])), shareable[n])
-            same[n] = first.setdefault(key, n)
+            same[n] = first.setdefault(f"{owner.get(n, 0)}:{key}", n)
         return same[n]
 
     kept = [c for n, c in zip(ids, chunks) if keep(n) == n]
@@ -212,6 +228,24 @@ def compact_step(text: str) -> str:
 
     out = _STRING_OR_REF.sub(renumber, "\n".join(kept))
     return pre + "\nDATA;\n" + out + "\nENDSEC;" + post
+
+
+def _owners(ids: list[int], chunks: list[str], shapes: list[int]) -> dict[int, int]:
+    """The shape representation (the first, in file order) each entity is used by."""
+    refs = {}
+    for n, c in zip(ids, chunks):
+        outside = "".join(_STRING.split(c[c.index("=") + 1 :])[::2])
+        refs[n] = [int(r) for r in _REF.findall(outside)]
+    roots = set(shapes)
+    owner: dict[int, int] = {}
+    for root in shapes:
+        todo = [root]
+        while todo:
+            for k in refs.get(todo.pop(), ()):
+                if k not in owner and k not in roots:
+                    owner[k] = root
+                    todo.append(k)
+    return owner
 
 
 def _compact_file(path: Path) -> None:
