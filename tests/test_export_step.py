@@ -18,6 +18,7 @@ import pytest
 
 cq = pytest.importorskip("cadquery")
 
+from _dxf_readback import distance_to_loops  # noqa: E402
 from OCP.BRepExtrema import BRepExtrema_DistShapeShape  # noqa: E402
 
 from wheelgen.export.step import compact_step, write_step  # noqa: E402
@@ -190,24 +191,6 @@ def _edge_points(edge, count: int) -> np.ndarray:
     return np.array([(p.x, p.y) for p in pts])
 
 
-def _distance_to_polyline(points: np.ndarray, poly: np.ndarray) -> np.ndarray:
-    """Distance (mm) of each point from a dense polyline (nearest vertex, both sides)."""
-    from scipy.spatial import cKDTree
-
-    _, i = cKDTree(poly).query(points)
-    best = np.full(len(points), np.inf)
-    for j0, j1 in ((i - 1, i), (i, i + 1)):
-        ok = (j0 >= 0) & (j1 < len(poly))
-        a, b = poly[np.clip(j0, 0, len(poly) - 1)], poly[np.clip(j1, 0, len(poly) - 1)]
-        ab = b - a
-        s = np.clip(
-            ((points - a) * ab).sum(1) / np.maximum((ab**2).sum(1), 1e-300), 0, 1
-        )
-        d = np.hypot(*(a + s[:, None] * ab - points).T)
-        best = np.where(ok, np.minimum(best, d), best)
-    return best
-
-
 @pytest.mark.parametrize("z", [8, 12, 127])
 def test_root_fillets_lie_on_the_exact_trochoid(reimported, z):
     # every fillet edge of the top face, 401 points each, against the trochoid the
@@ -236,7 +219,7 @@ def test_root_fillets_lie_on_the_exact_trochoid(reimported, z):
         pts = pts @ np.array([[c, -s], [s, c]]).T
         if pts[:, 1].mean() > 0:
             pts[:, 1] *= -1
-        worst = max(worst, float(_distance_to_polyline(pts, exact).max()))
+        worst = max(worst, float(distance_to_loops(pts, [exact], closed=False).max()))
     assert fillets == 2 * z
     assert worst < FLANK_LIMIT_MM, f"z={z}: worst {worst * 1e3:.2e} um"
 
