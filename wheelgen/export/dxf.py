@@ -56,14 +56,16 @@ __all__ = [
 ]
 
 #: Layer names and ACI colours. Cut lines: the toothed outline, the seat bore,
-#: spoke windows, slots, pin holes (and any other hole). Marks, not to be cut: a
-#: pin standing on the face, a hub boss on the face, the centre cross.
+#: spoke windows, slots, pin holes, holes for the arbors a wheel carries (and any
+#: other hole). Marks, not to be cut: a pin standing on the face, a hub boss on the
+#: face, the centre cross.
 LAYERS: dict[str, int] = {
     "OUTLINE": 7,
     "BORE": 1,
     "WINDOWS": 5,
     "SLOTS": 6,
     "PIN_HOLES": 4,
+    "ARBOR_HOLES": 140,
     "HOLES": 5,
     "PIN_MARK": 2,
     "HUB_MARK": 30,
@@ -76,6 +78,7 @@ HOLE_LAYERS: dict[str, str] = {
     "window": "WINDOWS",
     "slot": "SLOTS",
     "pin_hole": "PIN_HOLES",
+    "arbor_hole": "ARBOR_HOLES",
 }
 
 #: A plate's layers and ACI colours: outline, pivot holes (and held tubes, bushes and
