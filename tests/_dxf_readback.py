@@ -43,9 +43,9 @@ def read_with_ezdxf(path: Path) -> Sampled:
             fine = np.array([tuple(v)[:2] for v in e.flattening(1e-6)])
         elif kind == "SPLINE":
             # from the control points and knots alone (not the fit points)
-            fine = np.array(
-                [tuple(v)[:2] for v in e.construction_tool().flattening(1e-7)]
-            )
+            curve = e.construction_tool()
+            u = np.linspace(0.0, curve.max_t, 401)
+            fine = np.array([tuple(v)[:2] for v in curve.points(u)])
         else:
             raise AssertionError(f"unexpected {kind} in {path.name}")
         length = _along(fine)
