@@ -135,11 +135,12 @@ cq = pytest.importorskip("cadquery")
 
 
 @pytest.mark.cad
-def test_plain_wheel_is_one_prism_of_exact_edges():
+# (106, 0.3): the two half root arcs' radii differ in the last bit there
+@pytest.mark.parametrize(("z", "m"), [(40, 1.0), (106, 0.3)])
+def test_plain_wheel_is_one_prism_of_exact_edges(z, m):
     from wheelgen.solids.wheel import make_wheel
 
-    z = 40
-    part = WheelPart("w", ToothSpec(z, 1.0), 3.0, 4.0)
+    part = WheelPart("w", ToothSpec(z, m), 3.0, 4.0)
     outline = outline_for(part.tooth)
     solid = make_wheel(part, outline)
     assert solid.isValid()

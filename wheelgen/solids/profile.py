@@ -129,7 +129,12 @@ def _outline_edges(outline: WheelOutline, z: float) -> Iterator[cq.Edge]:
     """
     tooth, fits = list(outline.tooth), list(fit_segments(outline.tooth))
     first, last = _on_origin_circle(tooth[0]), _on_origin_circle(tooth[-1])
-    if len(tooth) > 2 and first is not None and first == last:
+    if (
+        len(tooth) > 2
+        and first is not None
+        and last is not None
+        and abs(first - last) <= 1e-12 * max(1.0, first)
+    ):
         nxt = tooth[0].rotated(outline.pitch_angle_deg)
         joined = Segment("arc", np.array([tooth[-1].start, tooth[-1].end, nxt.end]))
         tooth, fits = tooth[1:-1] + [joined], fits[1:-1] + [None]
