@@ -108,7 +108,6 @@ def build_command(
 ) -> None:
     """Check DESIGN and write its parts, ready for the workshop or the printer.
 
-<<<<<<< HEAD
     DESIGN is a train file (TOML); without it the bundled demo is built. Every
     part is made: wheels, arbors, tubes and pins, and the frame (the two plates, the
     pillars between them and a cock for any arbor one plate alone holds). Files go
@@ -120,20 +119,8 @@ def build_command(
     outline and every hole's position from the drive arbor), report.html (one page
     with drawings, findings, motion, an animated preview and the size of every
     file), and manifest.json with the SHA-256 and size of each file. DXF files hold
-    the outline, bore, windows, slots and pin holes as cut lines and the marks of
-    pins and hub bosses, each on its own layer.
-=======
-    DESIGN is a train file (TOML); without it the bundled demo is built. Files go
-    to output/<design name>/ (or -o DIR): step/<part>.step and step/assembly.step,
-    stl/ and 3mf/ meshes lying on z = 0, dxf/ and svg/ 1:1 drawings of every wheel,
-    the workshop sheets (cutting.csv: cutter, indexing and inspection sizes of every
-    wheel; parts.csv: bill of parts; drilling/<plate>.csv and .svg: hole positions
-    from the drive arbor), report.html (one page with drawings, findings, motion, an
-    animated preview and the size of every file), and manifest.json with the SHA-256
-    and size of each file. DXF files hold the outline, bore, windows, slots, pin
-    holes and holes for carried arbors as cut lines, and the marks of pins and hub
-    bosses, each on its own layer.
->>>>>>> 28be7bb (DXF: holes for carried arbors on a layer of their own (ARBOR_HOLES))
+    the outline, bore, windows, slots, pin holes and holes for carried arbors as cut
+    lines, and the marks of pins and hub bosses, each on its own layer.
     Everything is written to a staging folder first and moved into place only when
     all of it succeeded.
 

@@ -46,8 +46,8 @@ from .build import DXF_CURVES
 __all__ = [
     "HOLE_LAYERS",
     "LAYERS",
-    "add_chain",
     "PLATE_LAYERS",
+    "add_chain",
     "add_outline",
     "dxf_document",
     "save_dxf",
