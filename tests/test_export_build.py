@@ -97,7 +97,8 @@ def test_manifest_gives_the_sizes_a_shop_receives(first, design):
     assert sizes == {k: len(v) for k, v in files.items() if k != "manifest.json"}
     assert m["sizes"]["total_bytes"] == sum(sizes.values())
     step = m["sizes"]["formats"]["step"]
-    assert step["files"] == len(plan_parts(design)) + 1  # and the assembly
+    made = [p for p in plan_parts(design) if p.kind not in BOUGHT_KINDS]
+    assert step["files"] == len(made) + 1  # and the assembly
     assert step["bytes"] == sum(v for k, v in sizes.items() if k.endswith(".step"))
     wheel = next(p for p in m["parts"] if p["name"] == "wheel_b")
     assert set(wheel["file_bytes"]) == {"step", "stl", "3mf", "dxf", "svg"}
