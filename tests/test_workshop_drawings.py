@@ -160,4 +160,4 @@ def test_part_drawings_are_svg(demo) -> None:
         root = ET.fromstring(svg)
         assert root.find(f"{SVG}title").text == part.name
         kinds.add(part.kind)
-    assert kinds == {"wheel", "arbor", "sleeve"}
+    assert kinds == {"wheel", "arbor", "sleeve", "dial", "hand", "knob"}

@@ -128,6 +128,9 @@ def test_demo_bill_and_csv(tmp_path: Path) -> None:
         elif isinstance(part, SleevePart):
             assert t["stock"] == "tube"
             assert float(t["stock_inside_mm"]) == pytest.approx(part.inside, abs=5e-4)
+        elif part.kind in ("hand", "dial"):
+            assert t["stock"] == "sheet"
+            assert float(t["sheet_thickness_mm"]) == pytest.approx(part.thickness)
         else:
             assert t["stock"] == "rod"
             assert float(t["stock_outside_mm"]) == pytest.approx(

@@ -6,8 +6,12 @@ from .loader import load_design as load_design
 from .loader import loads_design as loads_design
 from .model import Arbor as Arbor
 from .model import Design as Design
+from .model import Dial as Dial
+from .model import Display as Display
 from .model import Drive as Drive
+from .model import DriveInput as DriveInput
 from .model import Frame as Frame
+from .model import Hand as Hand
 from .model import Mesh as Mesh
 from .model import PinSlot as PinSlot
 from .model import Process as Process
@@ -25,8 +29,12 @@ __all__ = [
     "loads_design",
     "Arbor",
     "Design",
+    "Dial",
+    "Display",
     "Drive",
+    "DriveInput",
     "Frame",
+    "Hand",
     "Mesh",
     "PinSlot",
     "Process",

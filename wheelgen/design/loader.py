@@ -58,6 +58,11 @@ TOP_KEYS = (
     "target",
     "stock",
     "pillar",
+    # the display (wheelgen.design.display_tables)
+    "display",
+    "hand",
+    "dial",
+    "input",
 )
 
 # Per-wheel keys that [defaults] may also set: key -> (default, kind, check)
@@ -546,13 +551,17 @@ class _Loader:
         targets = self.targets(doc)
         stock = self.stock(doc)
         pillars = self.pillars(doc)
+        # imported here: that module builds on this one's readers
+        from .display_tables import check_display_references, read_display_tables
+
+        hands, dials, display, drive_input = read_display_tables(self, doc)
         self.cross_check(arbors, wheels, meshes, pinslots, drive, targets)
         if self.problems:
             raise DesignError(self.problems)
         assert drive is not None  # the cross check reported a missing drive
         stem = Path(self.file).stem
         name = re.sub(r"[^A-Za-z0-9_-]", "_", stem) or "design"
-        return Design(
+        design = Design(
             title=title,
             name=name,
             drive=drive,
@@ -565,9 +574,17 @@ class _Loader:
             process=proc,
             frame=frame,
             pillars=tuple(pillars),
+            hands=hands,
+            dials=dials,
+            display=display,
+            drive_input=drive_input,
             source=self.file,
             sha256=hashlib.sha256(self.text.encode("utf-8")).hexdigest(),
         )
+        check_display_references(self, design)
+        if self.problems:
+            raise DesignError(self.problems)
+        return design
 
     def design_table(self, doc: dict[str, Any]) -> tuple[str, str]:
         t = self.table(doc, "design", required=True)

@@ -24,6 +24,10 @@ __all__ = [
     "PinSlot",
     "Target",
     "Stock",
+    "Hand",
+    "Dial",
+    "Display",
+    "DriveInput",
     "Design",
     "ProcessKind",
     "Form",
@@ -33,6 +37,9 @@ __all__ = [
     "axis_root_of",
     "Pivot",
     "StockKind",
+    "HandSeat",
+    "Graduations",
+    "HAND_SEAT_BY_PROCESS",
 ]
 
 ProcessKind = Literal["print", "mill", "hand"]
@@ -45,6 +52,17 @@ Sense = Literal["cw", "ccw"]
 RelativeSense = Literal["same", "opposite"]
 Pivot = Literal["hole", "bush", "bearing"]
 StockKind = Literal["tube", "bush", "bearing"]
+HandSeat = Literal["square", "flat", "collet"]
+Graduations = Literal["auto", "hours", "days", "month", "year", "degrees", "labels"]
+
+#: How a hand (or a knob or crank) is held on its arbor when the design does not say:
+#: a milled square, a flat filed or printed on a round end, a friction collet made by hand
+#: (common practice, no source).
+HAND_SEAT_BY_PROCESS: dict[str, HandSeat] = {
+    "mill": "square",
+    "print": "flat",
+    "hand": "collet",
+}
 
 
 @dataclass(frozen=True, slots=True)
@@ -93,6 +111,11 @@ class Process:
         from .process_limits import wall_minimum
 
         return wall_minimum(self)
+
+    @property
+    def hand_seat(self) -> HandSeat:
+        """The seat of a hand, knob or crank on its arbor when the design sets none."""
+        return HAND_SEAT_BY_PROCESS[self.kind]
 
 
 @dataclass(frozen=True, slots=True)
@@ -252,6 +275,75 @@ class Stock:
 
 
 @dataclass(frozen=True, slots=True)
+class Hand:
+    """A hand on the front end of an arbor; lengths in mm.
+
+    ``None`` sizes follow the dial and the process. ``rest`` is the reading the hand
+    shows when the train is at rest, in the units of its dial (hours, days, degrees, or
+    the number of a label counted from 0). ``from_target`` marks a hand made by
+    default because the arbor is a target's.
+    """
+
+    arbor: str
+    length: float | None = None  # axis to tip
+    tail: float | None = None  # axis to the end of the tail, behind the axis
+    counterweight: float = 0.0  # diameter of a round counterweight on the tail; 0: none
+    width: float | None = None  # blade width at the hub
+    thickness: float | None = None
+    seat: HandSeat | None = None  # None: the process's (Process.hand_seat)
+    rest: float = 0.0
+    from_target: bool = False
+    where: Where | None = field(default=None, compare=False, repr=False)
+
+
+@dataclass(frozen=True, slots=True)
+class Dial:
+    """The graduated ring read by the hand on ``arbor``; ``radius`` its outside, mm.
+
+    Rings on one axis are made as one dial disc, as large as the largest ring.
+    ``zero_deg`` is where the ring's zero stands, counter-clockwise from +x (90: top).
+    """
+
+    arbor: str
+    radius: float | None = None
+    graduations: Graduations = "auto"
+    labels: tuple[str, ...] = ()
+    zero_deg: float = 90.0
+    where: Where | None = field(default=None, compare=False, repr=False)
+
+
+@dataclass(frozen=True, slots=True)
+class Display:
+    """What is shown in front of the front plate, and its axial spacing (mm).
+
+    ``readings``: ``"targets"`` gives every target's arbor a hand unless a
+    ``[[hand]]`` restyles it; ``"none"`` shows only the hands the design lists.
+    ``None`` sizes follow the process.
+    """
+
+    readings: Literal["targets", "none"] = "targets"
+    dial_gap: float = 2.0  # front plate's outer face to the dial's back
+    hand_gap: float = 1.0  # axial clearance between dial, hands and arbor ends
+    dial_thickness: float | None = None
+    hand_thickness: float | None = None
+
+
+@dataclass(frozen=True, slots=True)
+class DriveInput:
+    """A knob or a crank on the drive arbor, at the front or the back (mm).
+
+    ``side`` ``None``: at the back when the drive's axis carries a hand, else the front.
+    ``diameter`` is the knob's, or the crank handle's; ``throw`` the crank's radius.
+    """
+
+    kind: Literal["knob", "crank", "none"] = "knob"
+    side: Literal["front", "back"] | None = None
+    diameter: float | None = None
+    throw: float | None = None
+    where: Where | None = field(default=None, compare=False, repr=False)
+
+
+@dataclass(frozen=True, slots=True)
 class Design:
     """A whole train definition, checked while loading."""
 
@@ -267,6 +359,10 @@ class Design:
     process: Process = Process()
     frame: Frame | None = None
     pillars: tuple[PillarSpec, ...] = ()
+    hands: tuple[Hand, ...] = ()  # as written; see readings() for the defaults
+    dials: tuple[Dial, ...] = ()
+    display: Display = Display()
+    drive_input: DriveInput = DriveInput()
     source: str = ""  # path of the file it came from
     sha256: str = ""  # of the file's bytes
 
@@ -303,3 +399,19 @@ class Design:
         ``None`` for an axis standing in the plates."""
         carrier = self.arbor(self.axis_root(arbor)).carrier
         return None if carrier is None else self.wheel(carrier).arbor
+
+    def readings(self) -> tuple[Hand, ...]:
+        """Every hand: those written, then one for each target's arbor that has none.
+
+        Targets give no hands when ``[display] readings = "none"``; a target on a
+        fixed arbor gives none either (there is nothing to show).
+        """
+        out = list(self.hands)
+        have = {h.arbor for h in self.hands}
+        if self.display.readings == "targets":
+            fixed = {a.name for a in self.arbors if a.fixed}
+            for t in self.targets:
+                if t.arbor not in have and t.arbor not in fixed:
+                    out.append(Hand(t.arbor, from_target=True, where=t.where))
+                    have.add(t.arbor)
+        return tuple(out)

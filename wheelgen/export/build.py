@@ -29,7 +29,7 @@ from pathlib import Path
 from typing import Any
 
 from .. import __version__
-from ..layout.part_plan import BOUGHT_KINDS, FLAT_KINDS
+from ..layout.part_plan import BOUGHT_KINDS, DISPLAY_KINDS, FLAT_KINDS
 from . import sheets
 from .cache import PartCache, cache_root_for, part_key
 from .manifest import MANIFEST_NAME, make_manifest, write_manifest
@@ -62,7 +62,8 @@ ASSEMBLY_FILE = "step/assembly.step"
 _MESH_ANGLE_DEG = 30.0
 
 # part colours in the assembly (RGB 0..1): brass wheels, steel arbors, bronze sleeves,
-# pale brass plates and cocks, steel pillars, dark screws
+# pale brass plates and cocks, steel pillars, dark screws, dark hands on a pale dial, a
+# wooden knob or crank
 _COLOURS = {
     "wheel": (0.80, 0.62, 0.25),
     "arbor": (0.62, 0.64, 0.68),
@@ -73,6 +74,10 @@ _COLOURS = {
     "cock": (0.78, 0.66, 0.38),
     "screw": (0.20, 0.20, 0.22),
     "bearing": (0.45, 0.47, 0.50),
+    "hand": (0.12, 0.14, 0.22),
+    "dial": (0.93, 0.91, 0.84),
+    "knob": (0.45, 0.30, 0.18),
+    "crank": (0.45, 0.30, 0.18),
 }
 
 
@@ -210,6 +215,11 @@ class _PartWork:
 
                 self._profile = edges_polyline(self.part.outline, 0.005)
                 return self._profile
+            if self.part.kind in DISPLAY_KINDS:
+                from ..display.outlines import flat_profile
+
+                self._profile = flat_profile(self.part)
+                return self._profile
             from ..layout.wheel_profile import plate_profile
             from ..teeth.spec import outline_for
 
@@ -250,6 +260,14 @@ def _write_dxf(w: _PartWork, path: Path) -> None:
 
         write_plate_dxf(w.part, path)
         return
+    if w.part.kind in DISPLAY_KINDS:
+        from .dxf import write_flat_dxf
+
+        engraving = None
+        if w.part.kind == "dial":
+            engraving = (w.part.circles, w.part.strokes, w.part.texts)
+        write_flat_dxf(w.profile, path, w.part.name, engraving, w.profile.marks)
+        return
     from .dxf import write_dxf
 
     hub = w.part.hub_diameter if w.part.hub_length > 0 else 0.0
@@ -269,6 +287,11 @@ def _write_svg(w: _PartWork, path: Path) -> None:
         from .svg_template import write_plate_svg
 
         write_plate_svg(w.part, path, w.profile)
+        return
+    if w.part.kind in DISPLAY_KINDS:
+        from .face_svg import write_face_svg
+
+        write_face_svg(w.part, w.profile, path)
         return
     from .svg_template import write_svg
 

@@ -1,7 +1,9 @@
 """DXF of a flat part for cutting: outline, holes and marks, each on a named layer.
 
 :func:`write_dxf` draws a wheel's profile; :func:`write_plate_dxf` a frame plate (its
-outline and round holes, grouped on layers by what they hold).
+outline and round holes, grouped on layers by what they hold); :func:`write_flat_dxf`
+a hand, dial or crank arm, a dial with its graduations and numbers on a layer of their
+own (``ENGRAVE``), to engrave or to leave out when only cutting.
 
 Written from the same exact profile as the solid (no kernel needed), in one of two
 flavours (:data:`wheelgen.export.build.DXF_CURVES`, the build option):
@@ -35,6 +37,7 @@ from typing import Any
 
 import ezdxf
 import numpy as np
+from ezdxf.enums import TextEntityAlignment
 
 from ..layout.part_plan import PlatePart
 from ..layout.wheel_profile import Hole, PlateProfile
@@ -44,6 +47,8 @@ from .biarcs import biarc_segments
 from .build import DXF_CURVES
 
 __all__ = [
+    "Engraving",
+    "FLAT_LAYERS",
     "HOLE_LAYERS",
     "LAYERS",
     "PLATE_LAYERS",
@@ -52,6 +57,7 @@ __all__ = [
     "dxf_document",
     "save_dxf",
     "write_dxf",
+    "write_flat_dxf",
     "write_plate_dxf",
 ]
 
@@ -71,6 +77,25 @@ LAYERS: dict[str, int] = {
     "HUB_MARK": 30,
     "CENTRE": 3,
 }
+
+#: A hand's, dial's or crank arm's layers: the outline, its seat (or centre hole), other
+#: holes, marks to punch (the feet of a dial, a crank's handle, the centre) and a dial's
+#: graduations and numbers.
+FLAT_LAYERS: dict[str, int] = {
+    "OUTLINE": 7,
+    "BORE": 1,
+    "HOLES": 5,
+    "CENTRE": 3,
+    "ENGRAVE": 6,
+}
+#: A dial's engraving (see :class:`wheelgen.layout.part_plan.DialPart`): circles
+#: (radius, width), strokes (angle, radius from, radius to, width) and texts (x, y,
+#: height, turn in degrees, text); mm and degrees.
+Engraving = tuple[
+    Sequence[tuple[float, float]],
+    Sequence[tuple[float, float, float, float]],
+    Sequence[tuple[float, float, float, float, str]],
+]
 
 #: The layer of each hole role of a wheel profile; any other role goes on HOLES.
 HOLE_LAYERS: dict[str, str] = {
@@ -293,6 +318,47 @@ def write_dxf(
     size = max(2.0, 0.6 * (2 * bore.circle[2] if bore and bore.circle else 2.0))
     msp.add_line((-size, 0.0), (size, 0.0), dxfattribs={"layer": "CENTRE"})
     msp.add_line((0.0, -size), (0.0, size), dxfattribs={"layer": "CENTRE"})
+    return save_dxf(doc, path)
+
+
+def write_flat_dxf(
+    profile: Any,
+    path: Path,
+    name: str,
+    engraving: Engraving | None = None,
+    marks: Sequence[tuple[float, float]] = (),
+) -> Path:
+    """Write a hand's, dial's or crank arm's flat profile as a DXF (R2010, mm).
+
+    ``profile`` has an ``outline`` of lines and arcs and ``holes``
+    (:class:`wheelgen.display.outlines.FlatProfile`); ``engraving`` goes on ENGRAVE,
+    ``marks`` (x, y) are crosses on CENTRE. The same input gives the same bytes.
+    """
+    doc = dxf_document(name, FLAT_LAYERS)
+    msp = doc.modelspace()
+    add_chain(msp, list(profile.outline.segments()), "OUTLINE")
+    for hole in profile.holes:
+        layer = "BORE" if hole.role == "bore" else "HOLES"
+        if hole.circle is not None:
+            x, y, r = hole.circle
+            msp.add_circle((x, y), r, dxfattribs={"layer": layer})
+        else:
+            add_chain(msp, hole.segments, layer)
+    for x, y in [(0.0, 0.0), *marks]:
+        attrs = {"layer": "CENTRE"}
+        msp.add_line((x - 1.5, y), (x + 1.5, y), dxfattribs=attrs)
+        msp.add_line((x, y - 1.5), (x, y + 1.5), dxfattribs=attrs)
+    if engraving is not None:
+        circles, strokes, texts = engraving
+        attrs = {"layer": "ENGRAVE"}
+        for r, _ in circles:
+            msp.add_circle((0.0, 0.0), r, dxfattribs=attrs)
+        for a, r0, r1, _ in strokes:
+            c, s = math.cos(math.radians(a)), math.sin(math.radians(a))
+            msp.add_line((r0 * c, r0 * s), (r1 * c, r1 * s), dxfattribs=attrs)
+        for x, y, h, turn, text in texts:
+            entity = msp.add_text(text, height=h, rotation=turn, dxfattribs=attrs)
+            entity.set_placement((x, y), align=TextEntityAlignment.MIDDLE_CENTER)
     return save_dxf(doc, path)
 
 

@@ -27,13 +27,21 @@ __all__ = [
     "CockPart",
     "ScrewPart",
     "BearingPart",
-    "Part",
-    "SeatShape",
     "BOUGHT_KINDS",
     "FLAT_KINDS",
+    "HandPart",
+    "DialPart",
+    "KnobPart",
+    "CrankPart",
+    "Part",
+    "SeatShape",
+    "DISPLAY_KINDS",
+    "ItemSeat",
 ]
 
-SeatShape = Literal["round", "square", "hex", "pinned"]
+SeatShape = Literal["round", "square", "hex", "pinned", "flat"]
+#: How a hand, knob or crank is held on its member (see wheelgen.layout.front).
+ItemSeat = Literal["square", "flat", "collet"]
 
 
 @dataclass(frozen=True, slots=True)
@@ -107,12 +115,17 @@ class WheelPart:
 
 @dataclass(frozen=True, slots=True)
 class ArborPart:
-    """A plain round shaft, ``length`` mm long from z = 0 upward."""
+    """A round shaft, ``length`` mm long from z = 0 upward.
+
+    ``seats`` are (z_from, z_to, shape) lengths of its end milled square or filed flat
+    for a hand, knob or crank (mm, in the part's frame).
+    """
 
     name: str
     diameter: float
     length: float
     placement: Placement = Placement()
+    seats: tuple[tuple[float, float, SeatShape], ...] = ()
     kind: Literal["arbor"] = "arbor"
 
 
@@ -263,6 +276,110 @@ class BearingPart:
     kind: Literal["bearing"] = "bearing"
 
 
+@dataclass(frozen=True, slots=True)
+class HandPart:
+    """A hand: a flat blade along +X of its frame, seated on ``arbor`` (mm).
+
+    The blade runs from the axis to the tip at ``length`` (``width`` wide at the hub,
+    ``tip`` wide at the end), a tail of ``tail`` behind the axis, ending in a round
+    counterweight ``counterweight`` across (0: none). The hub is ``hub`` across; the
+    seat hole fits ``across`` (the square's or flat's size on the member, or its
+    diameter for a collet) opened by ``clearance`` a side, turned by ``seat_angle_deg``
+    in the hand's frame (so that the hand reads right on a square or flat that stands
+    at the member's angle). A collet is a boss ``collet`` across and ``collet_length``
+    long on the front face. The placement's angle is the hand's direction at rest.
+    """
+
+    name: str
+    arbor: str
+    length: float
+    tail: float
+    width: float
+    tip: float
+    hub: float
+    counterweight: float
+    thickness: float
+    seat: ItemSeat
+    across: float
+    clearance: float
+    round_radius: float = 0.0
+    seat_angle_deg: float = 0.0
+    collet: float = 0.0
+    collet_length: float = 0.0
+    placement: Placement = Placement()
+    kind: Literal["hand"] = "hand"
+
+
+@dataclass(frozen=True, slots=True)
+class DialPart:
+    """A dial disc on feet, with its graduations as engraving (mm, degrees).
+
+    The frame's z = 0 is the face the feet stand on (the front plate's outer face); the
+    disc is ``thickness`` thick from ``foot_length`` up. ``holes`` (x, y, diameter) go
+    through the disc; ``feet`` (x, y) are round feet ``foot_diameter`` across with a
+    blind hole ``foot_hole`` across for the screw from behind the plate. The engraving
+    is on the disc's front: ``circles`` (radius, line width), ``strokes`` (angle,
+    radius from, radius to, line width) and ``texts`` (x, y, height, turn of the text in
+    degrees counter-clockwise, text), each in the dial's frame.
+    """
+
+    name: str
+    radius: float
+    thickness: float
+    foot_length: float
+    foot_diameter: float
+    foot_hole: float
+    feet: tuple[tuple[float, float], ...]
+    holes: tuple[tuple[float, float, float], ...]
+    circles: tuple[tuple[float, float], ...] = ()
+    strokes: tuple[tuple[float, float, float, float], ...] = ()
+    texts: tuple[tuple[float, float, float, float, str], ...] = ()
+    placement: Placement = Placement()
+    kind: Literal["dial"] = "dial"
+
+
+@dataclass(frozen=True, slots=True)
+class KnobPart:
+    """A round knob ``diameter`` across and ``length`` long, seated on the drive (mm)."""
+
+    name: str
+    arbor: str
+    diameter: float
+    length: float
+    seat: ItemSeat
+    across: float
+    clearance: float
+    round_radius: float = 0.0
+    placement: Placement = Placement()
+    kind: Literal["knob"] = "knob"
+
+
+@dataclass(frozen=True, slots=True)
+class CrankPart:
+    """A crank: an arm along +X with a handle at ``throw`` mm, seated on the drive.
+
+    The arm is ``thickness`` thick and ``arm`` wide, round at both ends (``hub`` across
+    at the axis); the handle, ``handle_diameter`` across and ``handle_length`` long,
+    stands on the arm's front face, or on its back face when ``handle_back``.
+    """
+
+    name: str
+    arbor: str
+    throw: float
+    hub: float
+    arm: float
+    thickness: float
+    handle_diameter: float
+    handle_length: float
+    handle_back: bool
+    seat: ItemSeat
+    across: float
+    clearance: float
+    round_radius: float = 0.0
+    placement: Placement = Placement()
+    kind: Literal["crank"] = "crank"
+
+
 Part = Union[
     WheelPart,
     ArborPart,
@@ -273,9 +390,15 @@ Part = Union[
     CockPart,
     ScrewPart,
     BearingPart,
+    HandPart,
+    DialPart,
+    KnobPart,
+    CrankPart,
 ]
 
 #: Kinds of part that are bought, not made: no part files, only in the assembly.
 BOUGHT_KINDS = frozenset({"screw", "bearing"})
 #: Kinds of part that are flat (a profile cut from sheet): DXF and SVG as well.
-FLAT_KINDS = frozenset({"wheel", "plate"})
+FLAT_KINDS = frozenset({"wheel", "plate", "hand", "dial", "crank"})
+#: Kinds of part that the display adds (wheelgen.display).
+DISPLAY_KINDS = frozenset({"hand", "dial", "knob", "crank"})

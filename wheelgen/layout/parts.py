@@ -21,6 +21,7 @@ from .part_plan import (
     Part,
     PinBoss,
     Placement,
+    SeatShape,
     SleevePart,
     SlotCut,
     WheelPart,
@@ -111,7 +112,11 @@ def _fit_text(bore: Bore) -> str:
 
 
 def plan_parts(design: Design) -> tuple[Part, ...]:
-    """Every part to make: wheels, then arbors and sleeves, then separate pins."""
+    """Every part to make: wheels, arbors and sleeves, separate pins, then the display.
+
+    The display's parts (dials, hands, knob or crank) come from
+    :func:`wheelgen.display.plan.display_plan`.
+    """
     layout = plan_layout(design)
     parts: list[Part] = []
     placements: dict[str, Placement] = {}
@@ -125,6 +130,7 @@ def plan_parts(design: Design) -> tuple[Part, ...]:
         if span is None or pos is None or span.length <= 0:
             continue
         where = Placement(pos[0], pos[1], span.z0, 0.0)
+        items = _item_seats(layout, a.name, span.z0)
         if a.name in layout.sizes:
             size = layout.sizes[a.name]
             parts.append(
@@ -135,7 +141,8 @@ def plan_parts(design: Design) -> tuple[Part, ...]:
                     length=span.length,
                     seats=tuple(
                         (s.z0 - span.z0, s.z1 - span.z0, s.shape) for s in span.seats
-                    ),
+                    )
+                    + items,
                     collars=tuple(
                         (z0 - span.z0, z1 - span.z0, d) for z0, z1, d in span.collars
                     ),
@@ -143,9 +150,31 @@ def plan_parts(design: Design) -> tuple[Part, ...]:
                 )
             )
         else:
-            parts.append(ArborPart(a.name, a.diameter, span.length, where))
+            parts.append(ArborPart(a.name, a.diameter, span.length, where, items))
     if _pinslot is not None:
         for p in design.pinslots:
             if p.pin_part == "separate":
                 parts.append(_pinslot.pin_part(design, p, placements[p.pin]))
+    # the display (dials, hands, knob or crank) builds on this layout: imported here
+    from ..display.plan import display_plan
+
+    parts.extend(display_plan(design).parts())
     return tuple(parts)
+
+
+def _item_seats(
+    layout: Layout, member: str, z0: float
+) -> tuple[tuple[float, float, SeatShape], ...]:
+    """Seats of the hands, knob or crank on ``member``, relative to ``z0`` (mm).
+
+    A square or flat is milled or filed on the member's end; a collet grips the round.
+    """
+    stacking = layout.stacking
+    if stacking.levels is None or member in stacking.unreachable:
+        return ()
+    out: list[tuple[float, float, SeatShape]] = []
+    for item in stacking.levels.of(member):
+        shape: SeatShape = "round" if item.shape == "collet" else item.shape  # type: ignore[assignment]  # square or flat
+        a, b = item.seat
+        out.append((round(a - z0, 6), round(b - z0, 6), shape))
+    return tuple(out)

@@ -22,9 +22,11 @@ from dataclasses import dataclass
 
 from ..design.model import Design, Process, Stock, Wheel
 from .fits import fit_limits
+from .front import seat_shape
 
 __all__ = [
     "SIZE_STEP",
+    "FLAT_DEPTH",
     "Bore",
     "SleeveSize",
     "coaxial_groups",
@@ -35,6 +37,10 @@ __all__ = [
     "stock_fits",
     "wheel_bore",
 ]
+
+#: A flat seat (for a hand, knob or crank) is filed or printed this share of the
+#: diameter deep, a "D" end (common practice, no source).
+FLAT_DEPTH = 0.1
 
 #: mm: sleeve outside diameters are rounded up to a multiple of this (bar and tube are
 #: sold in 0.1 mm steps; common practice, no source).
@@ -97,12 +103,26 @@ def running_bore(process: Process, shaft: float) -> Bore:
 
 
 def seat_factor(shape: str) -> float:
-    """Across-flats size of a seat milled on round stock, as a fraction of the outside."""
+    """Across-flats size of a seat milled on round stock, as a fraction of the outside.
+
+    For a flat seat (one flat, a "D") the figure is twice the flat's distance from the
+    axis, so that ``(outside * factor - inside) / 2`` is the wall under the flat.
+    """
     if shape == "square":
         return math.cos(math.pi / 4)
     if shape == "hex":
         return math.cos(math.pi / 6)
+    if shape == "flat":
+        return 1.0 - 2.0 * FLAT_DEPTH
     return 1.0
+
+
+def _item_seats(design: Design, name: str) -> list[str]:
+    """Seat shapes of the hands (and the knob or crank) held on member ``name``."""
+    out = [seat_shape(design, name, h) for h in design.readings() if h.arbor == name]
+    if name == design.drive.arbor and design.drive_input.kind != "none":
+        out.append(seat_shape(design, name))
+    return out
 
 
 def coaxial_groups(design: Design) -> dict[str, list[str]]:
@@ -150,8 +170,10 @@ def size_sleeves(design: Design) -> dict[str, SleeveSize]:
             arbor = design.arbor(name)
             assert arbor.around is not None
             bore = running_bore(proc, outside[arbor.around])
+            shapes = [w.seat for w in design.wheels_on(name)]
             factor = min(
-                (seat_factor(w.seat) for w in design.wheels_on(name)), default=1.0
+                (seat_factor(s) for s in shapes + _item_seats(design, name)),
+                default=1.0,
             )
             stock: Stock | None = None
             fitting = [

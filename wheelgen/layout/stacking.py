@@ -22,6 +22,11 @@ hub_length`` (the hub stands on the front face). The rules:
 - A fixed sleeve is held by the frame: it runs on through the nearer plate (the other
   one if the nearer would cover a seat), so that plate holds it and the arbor inside
   turns in its bore there.
+- A member that carries a hand, a knob or a crank reaches as far in front of the front
+  plate (or behind the back plate) as :mod:`wheelgen.layout.front` says, and every
+  member inside it at least as far; a tube that so passes through a plate lists it in
+  ``plates``. A carried arbor cannot reach out, nor an arbor held by the other plate
+  only: such members are listed in ``unreachable`` and keep their length.
 """
 
 from __future__ import annotations
@@ -32,6 +37,7 @@ from dataclasses import dataclass
 from ..design.model import Design
 from ..design.model import Seat as SeatShape
 from ..kinematics.rates import axis_root
+from .front import DisplayLevels, display_levels
 from .placement import nominal_tip_radius, tooth_spec
 from .sleeves import SleeveSize, coaxial_groups, member_outside
 
@@ -96,6 +102,14 @@ class HiddenSeat:
 
 @dataclass(frozen=True, slots=True)
 class Stacking:
+    """Spans of every member and what does not fit.
+
+    ``hidden`` are wheel seats under a tube; ``covered`` the seats of hands, knobs and
+    cranks under a tube (``HiddenSeat.wheel`` then names the item's role);
+    ``unreachable`` the members whose item cannot be brought out (they keep their
+    length); ``levels`` the display's axial stack they were lengthened by.
+    """
+
     spans: dict[str, MemberSpan]
     hidden: tuple[HiddenSeat, ...]
     one_plate: tuple[
@@ -103,6 +117,9 @@ class Stacking:
     ]  # (arbor, its close neighbour or the wheel in its way, distance)
     # (arbor, plate it cannot reach, wheel in its way, how far it covers the arbor, mm)
     barred: tuple[tuple[str, str, str, float], ...] = ()
+    covered: tuple[HiddenSeat, ...] = ()
+    unreachable: tuple[str, ...] = ()
+    levels: DisplayLevels | None = None
 
 
 def wheel_extent(design: Design, name: str) -> tuple[float, float]:
@@ -148,6 +165,8 @@ def stack_axes(
         }
 
     spans: dict[str, MemberSpan] = {}
+    reach_front: dict[str, float] = {}
+    reach_back: dict[str, float] = {}
 
     def build(name: str) -> MemberSpan:
         # outer tubes first: a member's span covers every tube around it
@@ -168,9 +187,20 @@ def stack_axes(
                 if top - start > _EPS:
                     collars.append((start, top, member_outside(design, sizes, c)))
                     lo.append(start)
+        if name in reach_front:
+            hi.append(reach_front[name])
+        if name in reach_back:
+            lo.append(reach_back[name])
         z0, z1 = (min(lo), max(hi)) if lo else (0.0, 0.0)
         plates: tuple[str, ...] = ()
         pivots: list[tuple[float, float, str]] = []
+        if arbor.around is not None and not arbor.fixed and plate_z:
+            # a tube lengthened through a plate to carry a hand, knob or crank
+            plates = tuple(
+                p
+                for p, (pz0, pz1) in plate_z.items()
+                if z0 < pz1 - _EPS and z1 > pz0 + _EPS
+            )
         if arbor.around is not None and arbor.fixed and plate_z:
             inner_seats = [s for m in design.inner_members(name) for s in seats[m]]
             options = []
@@ -244,6 +274,35 @@ def stack_axes(
             split[root] = "front" if plate == "back" else "back"
             one_plate.append((root, wheel, d))
             barred.append((root, plate, wheel, depth))
+
+    # the display: members with a hand, knob or crank reach out through a plate, where
+    # their axis can pass it; then every span is built again with those reaches
+    levels = display_levels(design)
+    unreachable: list[str] = []
+    for item in levels.items:
+        root = axis_root(design, item.member)
+        can = (
+            bool(plate_z)
+            and root in positions
+            and design.arbor(root).carrier is None
+            and split.get(root, item.side) == item.side
+        )
+        if not can:
+            if item.member not in unreachable:
+                unreachable.append(item.member)
+            continue
+        if item.side == "front":
+            reach_front[item.member] = max(
+                reach_front.get(item.member, item.reach), item.reach
+            )
+        else:
+            reach_back[item.member] = min(
+                reach_back.get(item.member, item.reach), item.reach
+            )
+    if reach_front or reach_back:
+        spans.clear()
+        for root in groups:
+            build(root)
     for root in groups:
         arbor = design.arbor(root)
         s = spans[root]
@@ -269,13 +328,29 @@ def stack_axes(
         )
 
     hidden: list[HiddenSeat] = []
+    covered: list[HiddenSeat] = []
     for name, kids in children.items():
         for c in kids:
             for seat in seats[name]:
                 overlap = min(seat.z1, spans[c].z1) - max(seat.z0, spans[c].z0)
                 if overlap > _EPS:
                     hidden.append(HiddenSeat(seat.wheel, name, c, overlap))
-    return Stacking(spans, tuple(hidden), tuple(one_plate), tuple(barred))
+            for item in levels.of(name):
+                if name in unreachable:
+                    continue
+                z0, z1 = item.seat
+                overlap = min(z1, spans[c].z1) - max(z0, spans[c].z0)
+                if overlap > _EPS:
+                    covered.append(HiddenSeat(item.role, name, c, overlap))
+    return Stacking(
+        spans,
+        tuple(hidden),
+        tuple(one_plate),
+        tuple(barred),
+        tuple(covered),
+        tuple(unreachable),
+        levels,
+    )
 
 
 def _barred(

@@ -21,9 +21,13 @@ def round_bar(name: str, diameter: float, length: float) -> cq.Solid:
     )
 
 
-def make_arbor(part: ArborPart) -> cq.Solid:
-    """A plain arbor: a round shaft of the length the layout gives."""
-    return round_bar(part.name, part.diameter, part.length)
+def make_arbor(part: ArborPart) -> cq.Shape:
+    """An arbor: a round shaft of the length the layout gives, its end seats milled."""
+    if not part.seats:
+        return round_bar(part.name, part.diameter, part.length)
+    from .sleeve import turned_member
+
+    return turned_member(part.name, 0.0, part.diameter, part.length, part.seats)
 
 
 def make_pin(part: PinPart) -> cq.Solid:

@@ -10,6 +10,10 @@ from ..layout.part_plan import (
     ArborPart,
     BearingPart,
     CockPart,
+    CrankPart,
+    DialPart,
+    HandPart,
+    KnobPart,
     Part,
     PillarPart,
     PinPart,
@@ -19,6 +23,7 @@ from ..layout.part_plan import (
     WheelPart,
 )
 from .arbor import make_arbor
+from .display import make_crank, make_dial, make_hand, make_knob
 from .frame import make_bearing, make_cock, make_pillar, make_plate, make_screw
 from .pin import make_pin
 from .sleeve import make_sleeve
@@ -47,6 +52,14 @@ def make_part(part: Part) -> cq.Shape:
         return make_screw(part)
     if isinstance(part, BearingPart):
         return make_bearing(part)
+    if isinstance(part, HandPart):
+        return make_hand(part)
+    if isinstance(part, DialPart):
+        return make_dial(part)
+    if isinstance(part, KnobPart):
+        return make_knob(part)
+    if isinstance(part, CrankPart):
+        return make_crank(part)
     raise TypeError(f"cannot build a part of type {type(part).__name__}")
 
 

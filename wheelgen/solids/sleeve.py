@@ -2,31 +2,33 @@
 
 A seat is a length of the outside milled to the wheel's seat shape: a square or hex
 seat is the largest square or hexagon that fits in the round stock (flats at
-``outside * cos(45 deg)`` or ``outside * cos(30 deg)`` across), a ``pinned`` seat keeps
-the round and gets a cross-pin hole. The tube is built as stacked prisms, one per
+``outside * cos(45 deg)`` or ``outside * cos(30 deg)`` across), a ``flat`` seat (for a
+hand, knob or crank) one flat filed on the round, a ``pinned`` seat keeps the round
+and gets a cross-pin hole. Plain arbors with a seat at their end are built the same way
+(:func:`turned_member` with no bore). The tube is built as stacked prisms, one per
 length of constant section, fused once.
 """
 
 from __future__ import annotations
 
-import math
+from collections.abc import Sequence
 
 import cadquery as cq
 
 from ..layout.part_plan import SleevePart
+from ..layout.sleeves import seat_factor
 from ..layout.wheel_profile import Hole, _polygon_hole, cross_pin_diameter
 from .profile import CadBuildError, chain_wire, hole_wire, holed_face, prism
 
-__all__ = ["make_sleeve", "seat_across_flats"]
+__all__ = ["make_sleeve", "seat_across_flats", "turned_member"]
 
 
 def seat_across_flats(shape: str, outside: float) -> float:
-    """Across-flats size (mm) of a square or hex seat milled on round ``outside``."""
-    if shape == "square":
-        return outside * math.cos(math.pi / 4)
-    if shape == "hex":
-        return outside * math.cos(math.pi / 6)
-    return outside
+    """Across-flats size (mm) of a square, hex or flat seat milled on round ``outside``.
+
+    For a flat seat it is twice the flat's distance from the axis.
+    """
+    return outside * seat_factor(shape)
 
 
 def _outer_wire(shape: str, outside: float, z: float, name: str) -> cq.Wire:
@@ -36,6 +38,12 @@ def _outer_wire(shape: str, outside: float, z: float, name: str) -> cq.Wire:
             "bore", sides, seat_across_flats(shape, outside), 0.0
         )
         return chain_wire(hole.segments, z, f"{name} seat")
+    if shape == "flat":
+        from ..display.outlines import seat_hole
+
+        return chain_wire(
+            seat_hole("flat", outside, 0.0, 0.0).segments, z, f"{name} seat"
+        )
     return cq.Wire.makeCircle(outside / 2, cq.Vector(0, 0, z), cq.Vector(0, 0, 1))
 
 
@@ -47,42 +55,58 @@ def make_sleeve(part: SleevePart) -> cq.Shape:
             f" ({part.outside} mm),"
             f" got {part.inside}"
         )
-    if part.length <= 0:
-        raise ValueError(f"{part.name}: 'length' must be > 0 mm, got {part.length}")
-    cuts = {0.0, float(part.length)}
-    for z0, z1, _ in part.seats:
-        cuts.update((min(max(z0, 0.0), part.length), min(max(z1, 0.0), part.length)))
-    for z0, z1, _ in part.collars:
-        cuts.update((min(max(z0, 0.0), part.length), min(max(z1, 0.0), part.length)))
+    return turned_member(
+        part.name, part.inside, part.outside, part.length, part.seats, part.collars
+    )
+
+
+def turned_member(
+    name: str,
+    inside: float,
+    outside: float,
+    length: float,
+    seats: Sequence[tuple[float, float, str]],
+    collars: Sequence[tuple[float, float, float]] = (),
+) -> cq.Shape:
+    """A shaft (``inside`` 0) or a tube with its seats and collars, as one solid (mm)."""
+    if length <= 0:
+        raise ValueError(f"{name}: 'length' must be > 0 mm, got {length}")
+    cuts = {0.0, float(length)}
+    for z0, z1, _ in seats:
+        cuts.update((min(max(z0, 0.0), length), min(max(z1, 0.0), length)))
+    for z0, z1, _ in collars:
+        cuts.update((min(max(z0, 0.0), length), min(max(z1, 0.0), length)))
     levels = sorted(cuts)
     pieces: list[cq.Solid] = []
     for za, zb in zip(levels, levels[1:]):
         if zb - za < 1e-6:
             continue
         zm = (za + zb) / 2
-        collar = max((d for z0, z1, d in part.collars if z0 <= zm <= z1), default=0.0)
-        seat = next((s for z0, z1, s in part.seats if z0 <= zm <= z1), "round")
-        if collar > part.outside:
-            outer = _outer_wire("round", collar, za, part.name)
+        collar = max((d for z0, z1, d in collars if z0 <= zm <= z1), default=0.0)
+        seat = next((s for z0, z1, s in seats if z0 <= zm <= z1), "round")
+        if collar > outside:
+            outer = _outer_wire("round", collar, za, name)
         else:
-            outer = _outer_wire(seat, part.outside, za, part.name)
-        bore = hole_wire(Hole("bore", circle=(0.0, 0.0, part.inside / 2)), za)
-        pieces.append(prism(holed_face(outer, [bore], za), zb - za))
+            outer = _outer_wire(seat, outside, za, name)
+        bores = []
+        if inside > 0:
+            bores.append(hole_wire(Hole("bore", circle=(0.0, 0.0, inside / 2)), za))
+        pieces.append(prism(holed_face(outer, bores, za), zb - za))
     if not pieces:
-        raise CadBuildError(f"{part.name}: the sleeve has no length")
+        raise CadBuildError(f"{name}: the member has no length")
     shape: cq.Shape = pieces[0]
     if len(pieces) > 1:
         shape = pieces[0].fuse(*pieces[1:]).clean()
-    for z0, z1, s in part.seats:
+    for z0, z1, s in seats:
         if s != "pinned":
             continue
-        d = cross_pin_diameter(part.outside)
-        reach = part.outside
+        d = cross_pin_diameter(outside)
+        reach = outside
         tool = cq.Solid.makeCylinder(
             d / 2, 2 * reach, cq.Vector(-reach, 0, (z0 + z1) / 2), cq.Vector(1, 0, 0)
         )
         shape = shape.cut(tool)
     solids = shape.Solids()
     if len(solids) != 1:
-        raise CadBuildError(f"{part.name}: the sleeve came out as {len(solids)} solids")
+        raise CadBuildError(f"{name}: the member came out as {len(solids)} solids")
     return solids[0]

@@ -1,5 +1,5 @@
-"""A small drawing of one part for the report: a wheel or plate face-on, a shaft, tube
-or pillar side-on, a cock from above.
+"""A small drawing of one part for the report: a wheel, plate, hand, dial or crank
+face-on, a shaft, tube or pillar side-on, a cock from above.
 
 The wheel is its flat profile (toothed outline and every hole, the very loops the
 solid is extruded from) with the pitch circle dashed; a plate its outline and holes; an
@@ -14,10 +14,15 @@ from typing import Any
 
 import numpy as np
 
+from ..display.outlines import flat_profile
 from ..frame.outline import edges_polyline
 from ..layout.part_plan import (
     ArborPart,
     CockPart,
+    CrankPart,
+    DialPart,
+    HandPart,
+    KnobPart,
     PillarPart,
     PinPart,
     PlatePart,
@@ -76,7 +81,7 @@ def _side_svg(part: ArborPart | SleevePart | PinPart) -> str:
         seats = part.seats
     else:
         d_out, d_in = part.diameter, 0.0
-        collars, seats = (), ()
+        collars, seats = (), getattr(part, "seats", ())
     big = max([d_out] + [d for _, _, d in collars])
     # at least 1:6 high so that a long thin shaft still shows its diameter
     h = max(big * 1.4, length / 6)
@@ -202,11 +207,40 @@ def _cock_svg(part: CockPart) -> str:
     )
 
 
+def _flat_svg(part: HandPart | DialPart | CrankPart | KnobPart) -> str:
+    profile = flat_profile(part)
+    outer = profile.outline.polyline(0.05)
+    r = float(np.hypot(outer[:, 0], outer[:, 1]).max()) * 1.06
+    tol = max(r * _CHORD_PER_RADIUS, 0.002)
+    loops = [profile.outline.polyline(tol)] + [h.polyline(tol) for h in profile.holes]
+    sw = r / 150
+    ticks = ""
+    if isinstance(part, DialPart):
+        ticks = "".join(
+            f'<line x1="{fmt(r0 * np.cos(np.radians(a)))}" '
+            f'y1="{fmt(-r0 * np.sin(np.radians(a)))}" '
+            f'x2="{fmt(r1 * np.cos(np.radians(a)))}" '
+            f'y2="{fmt(-r1 * np.sin(np.radians(a)))}" stroke="#333" '
+            f'stroke-width="{fmt(max(w, sw), 4)}"/>'
+            for a, r0, r1, w in part.strokes
+        )
+    return (
+        f'<svg xmlns="http://www.w3.org/2000/svg" class="part" '
+        f'viewBox="{fmt(-r)} {fmt(-r)} {fmt(2 * r)} {fmt(2 * r)}">'
+        f"<title>{esc(part.name)}</title>"
+        f'<path d="{path_d(loops, 2)}" fill="#d9cfa8" fill-rule="evenodd" stroke="#333" '
+        f'stroke-width="{fmt(sw, 4)}"/>{ticks}'
+        "</svg>"
+    )
+
+
 def part_svg(part: Any) -> str:
-    """One part as an ``<svg>`` element (text); wheels and plates face-on, shafts,
-    tubes and pillars side-on, cocks from above."""
+    """One part as an ``<svg>`` element (text); wheels, plates and the display's flat
+    parts face-on, shafts, tubes and pillars side-on, cocks from above."""
     if isinstance(part, WheelPart):
         return _wheel_svg(part)
+    if isinstance(part, (HandPart, DialPart, CrankPart, KnobPart)):
+        return _flat_svg(part)
     if isinstance(part, (ArborPart, SleevePart, PinPart)):
         return _side_svg(part)
     if isinstance(part, PlatePart):

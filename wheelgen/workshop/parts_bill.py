@@ -1,7 +1,8 @@
 """The bill of parts: every part with its stock, quantity, overall size and volume.
 
 Stock is what the part is cut from: sheet of the wheel's face width or the plate's
-thickness, round rod for arbors, pins and pillars, tube (outside x inside diameter) for
+thickness (or a hand's, a dial's or a crank arm's), round rod for arbors, pins,
+pillars and knobs, tube (outside x inside diameter) for
 sleeves, a block for a cock; a sleeve whose sizes match a tube listed in the design's
 ``[[stock]]`` says so. Bought parts (screws, bushes, bearings) are counted: one row per
 size, with how many and what they fix. The volume is an estimate from plain numbers,
@@ -24,12 +25,17 @@ from typing import Any, Sequence
 
 import numpy as np
 
+from ..display.outlines import FlatProfile, flat_profile
 from ..frame.outline import edges_polyline
 from ..frame.plan import plan_frame
 from ..layout.part_plan import (
     ArborPart,
     BearingPart,
     CockPart,
+    CrankPart,
+    DialPart,
+    HandPart,
+    KnobPart,
     PillarPart,
     PinPart,
     PlatePart,
@@ -322,6 +328,7 @@ def _bought_rows(parts: Sequence[Any]) -> list[BillRow]:
         else:
             key = (p.stock_kind, p.outside, p.inside, p.width)
         groups.setdefault(key, []).append(p)
+
     rows = []
     for key, items in groups.items():
         first = items[0]
@@ -360,6 +367,61 @@ def _bought_rows(parts: Sequence[Any]) -> list[BillRow]:
     return rows
 
 
+def _flat_area(profile: FlatProfile) -> float:
+    """Area (mm²) of a display part's flat profile: outline minus its holes."""
+    area = _loop_area(profile.outline.polyline(_AREA_TOL))
+    for hole in profile.holes:
+        if hole.circle is not None:
+            area -= math.pi * hole.circle[2] ** 2
+        else:
+            area -= _loop_area(hole.polyline(_AREA_TOL))
+    return area
+
+
+def _display_row(part: HandPart | DialPart | CrankPart | KnobPart) -> BillRow:
+    area = _flat_area(flat_profile(part))
+    if isinstance(part, KnobPart):
+        return BillRow(
+            part.name, part.kind, "rod", None, part.diameter, None, 1,
+            part.diameter, part.length, area * part.length, f"{part.seat} seat",
+        )  # fmt: skip
+    volume = area * part.thickness
+    notes = []
+    if isinstance(part, HandPart):
+        diameter = 2 * max(part.length, part.tail)
+        length = part.thickness + part.collet_length
+        if part.collet > 0:
+            volume += area_ring(part.collet, part.across) * part.collet_length
+            notes.append(f"collet {part.collet:g} x {part.collet_length:g} mm")
+        notes.append(f"{part.seat} seat")
+    elif isinstance(part, DialPart):
+        diameter = 2 * part.radius
+        length = part.foot_length + part.thickness
+        feet = len(part.feet)
+        volume += (
+            feet * area_ring(part.foot_diameter, part.foot_hole) * part.foot_length
+        )
+        if feet:
+            notes.append(
+                f"{feet} feet {part.foot_diameter:g} x {part.foot_length:g} mm;"
+                " face printed 1:1 (svg) or engraved (dxf layer ENGRAVE)"
+            )
+    else:
+        diameter = 2 * (part.throw + part.arm / 2)
+        length = part.thickness + part.handle_length
+        volume += math.pi / 4 * part.handle_diameter**2 * part.handle_length
+        notes.append(f"handle {part.handle_diameter:g} x {part.handle_length:g} mm")
+    return BillRow(
+        part.name, part.kind, "sheet", part.thickness, None, None, 1,
+        diameter, length, volume, "; ".join(notes),
+    )  # fmt: skip
+
+
+def area_ring(outside: float, inside: float) -> float:
+    """Area (mm²) of a ring ``outside`` by ``inside`` mm across."""
+    return math.pi / 4 * (outside**2 - inside**2)
+
+
 def bill_rows(design: Any, parts: Sequence[Any]) -> tuple[BillRow, ...]:
     """One row per made part, in the order of the part plan, then one row per size
     of bought part (screws, bushes, bearings) with the count."""
@@ -380,6 +442,8 @@ def bill_rows(design: Any, parts: Sequence[Any]) -> tuple[BillRow, ...]:
             rows.append(_cock_row(design, part))
         elif isinstance(part, (ScrewPart, BearingPart)):
             bought.append(part)
+        elif isinstance(part, (HandPart, DialPart, CrankPart, KnobPart)):
+            rows.append(_display_row(part))
         else:
             raise ValueError(f"unknown part kind {type(part).__name__!r}")
     return tuple(rows + _bought_rows(bought))
