@@ -60,6 +60,7 @@ def _process(design: Design, analysis: Analysis) -> list[Finding]:
 def design_checks() -> tuple[DesignCheck, ...]:
     """Every registered check, in the order they run."""
     # Imported here so that each check module may import the engine's types.
+    from ..display.checks import display_findings
     from ..frame import frame_findings
     from ..layout import layout_findings
     from .pinslot_checks import pinslot_findings
@@ -71,6 +72,7 @@ def design_checks() -> tuple[DesignCheck, ...]:
         layout_findings,
         pinslot_findings,
         frame_findings,
+        display_findings,
     )
 
 

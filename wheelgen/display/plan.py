@@ -620,16 +620,20 @@ def _engraving(
             rad = math.radians(a)
             th = ring.text_height
             # an upright number's box reaches (W |cos a| + H |sin a|) / 2 towards the
-            # centre: it stands just inside the main marks whatever its angle
-            half = (_TEXT_WIDTH * th * len(m.label) * abs(math.cos(rad))
-                    + th * abs(math.sin(rad))) / 2  # fmt: skip
+            # centre: it stands just inside the main marks whatever its angle; a word
+            # runs along the ring and reaches H / 2
+            word = not m.label.replace(".", "").isdigit()
+            half = th / 2
+            if not word:
+                half = (_TEXT_WIDTH * th * len(m.label) * abs(math.cos(rad))
+                        + th * abs(math.sin(rad))) / 2  # fmt: skip
             for text, r, size, along in (
-                (m.label, ring.outer - w / 3 - 0.3 - half, th, False),
+                (m.label, ring.outer - w / 3 - 0.3 - half, th, word),
                 (m.note, ring.outer - w / 3 - 0.6 - 1.95 * th, 0.7 * th, True),
             ):  # fmt: skip
                 if not text:
                     continue
-                # numbers stand upright; a note runs along the ring, its top away from
+                # numbers stand upright; words run along the ring, their top away from
                 # the centre on the upper half and towards it on the lower half
                 turn = 0.0
                 if along:

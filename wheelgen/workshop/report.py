@@ -32,6 +32,7 @@ from ..kinematics.targets import (
 )
 from ..layout.placement import arbor_positions
 from .cutting import CuttingRow, cutting_rows, indexing_text
+from .dial_preview import dials_svg
 from .drilling import chart_holes, drilling_svg
 from .file_sizes import file_format, list_files, part_file, size_summary, size_text
 from .layout_drawing import layout_svg
@@ -267,6 +268,35 @@ def _motion(design: Design, plan: PreviewPlan | None) -> str:
     return "".join(out)
 
 
+def _dials(design: Design, plan: PreviewPlan | None) -> str:
+    """The front view with the dials and hands turning, when there is a display."""
+    from ..display.plan import display_plan
+
+    try:
+        display = display_plan(design)
+    except ValueError:  # no layout: the layout check says why
+        return ""
+    if plan is None or not display.dials:
+        return ""
+    hands = ", ".join(
+        f"{_e(h.part.arbor)} (one turn in {_e(format_period(360 / abs(r)))})"
+        for h in display.hands
+        if (r := _deg_per_s(design, h.rate))
+    )
+    return (
+        f"<figure>{dials_svg(design, display, plan)}<figcaption><b>The dials, seen from"
+        " the front</b>, in the same time-lapse: each hand turns at its arbor's exact"
+        f" rate from its reading at rest: {hands}. A hand behind a pin-and-slot coupling"
+        " turns unevenly, as its arbor does.</figcaption></figure>"
+    )
+
+
+def _deg_per_s(design: Design, rate: Any) -> float:
+    if rate is None or rate == 0:
+        return 0.0
+    return float(rate) * 360.0 / float(design.drive.period_s)
+
+
 def _preview(
     design: Design, positions: dict[str, tuple[float, float]], plan: PreviewPlan | None
 ) -> str:
@@ -293,7 +323,7 @@ def _preview(
         f"{_e(lapse)} of the train</b> (factor {plan.factor:,.0f}). The loop lasts "
         f"{plan.duration_s:.0f} s and shows {cycle}: {what}. Every pointer turns at its "
         f"arbor's true relative rate; carried arbors ride round on their carrier."
-        f"{uneven}</figcaption></figure>"
+        f"{uneven}</figcaption></figure>" + _dials(design, plan)
     )
 
 
