@@ -1,0 +1,112 @@
+"""Hands that meet through their cycle, dials that overlap, sweeps over other axes."""
+
+from __future__ import annotations
+
+import pytest
+
+from wheelgen.checks import run_checks
+from wheelgen.design import loads_design
+from wheelgen.display.motion import hand_angles_deg, joint_cycle_turns
+from wheelgen.display.plan import display_plan
+
+# Three 20-tooth wheels in a row, 20 mm apart: "a" drives "c" through the idler "b", so
+# "a" and "c" turn the same way at the same rate and their hands stay parallel.
+ROW = """
+[design]
+title = "two hands kept parallel by an idler"
+
+[frame]
+plates = [0.0, 20.0]
+
+[drive]
+arbor = "a"
+period = "1 h"
+
+[[arbor]]
+name = "a"
+at = [0.0, 0.0]
+
+[[arbor]]
+name = "b"
+
+[[arbor]]
+name = "c"
+
+[[wheel]]
+name = "wa"
+arbor = "a"
+teeth = 20
+height = 5.0
+
+[[wheel]]
+name = "wb"
+arbor = "b"
+teeth = 20
+height = 5.0
+
+[[wheel]]
+name = "wc"
+arbor = "c"
+teeth = 20
+height = 5.0
+
+[[mesh]]
+pair = ["wa", "wb"]
+bearing = 0.0
+
+[[mesh]]
+pair = ["wb", "wc"]
+bearing = 0.0
+
+[[hand]]
+arbor = "a"
+length = 30.0
+tail = TAIL
+
+[[hand]]
+arbor = "c"
+length = 30.0
+tail = TAIL
+"""
+
+
+def _clashes(tail: float, extra: str = "") -> list:
+    design = loads_design(ROW.replace("TAIL", repr(tail)) + extra, "row.toml")
+    return [f for f in run_checks(design) if f.check == "display.hand_clash"]
+
+
+def test_parallel_hands_pass_clear_with_short_tails():
+    # derived: pointing along the row, the first hand's tip (x = 30) and the second's
+    # tail end (x = 40 - 6 = 34) stay 4 mm apart; 2.1 mm widths and 0.5 mm need 2.6
+    assert _clashes(6.0) == []
+
+
+def test_parallel_hands_meet_with_long_tails():
+    # derived: with 12 mm tails the second's tail reaches back to x = 28, past the
+    # first's tip at 30, each time the hands point along the row
+    (found,) = _clashes(12.0)
+    assert found.level == "error" and "hand_a" in found.subject
+    assert "joint cycle of 1 h" in found.message
+
+
+def test_the_joint_cycle_is_exact():
+    design = loads_design(ROW.replace("TAIL", "6.0"), "row.toml")
+    assert joint_cycle_turns(design, ("a", "c")) == 1
+    # derived: the idler turns the other way at the same rate; "c" follows "a"
+    angles = hand_angles_deg(design, [0.0, 900.0])  # a quarter of an hour
+    assert angles["hand_a"] == pytest.approx([90.0, 180.0])
+    assert angles["hand_c"] == pytest.approx([90.0, 180.0])
+
+
+def test_overlapping_dials_are_an_error():
+    extra = '\n[[dial]]\narbor = "a"\nradius = 25.0\n\n[[dial]]\narbor = "c"\nradius = 25.0\n'
+    design = loads_design(ROW.replace("TAIL", "6.0") + extra, "row.toml")
+    found = [f for f in run_checks(design) if f.check == "display.dial_overlap"]
+    assert found and "10.000 mm" in found[0].message  # derived: 25 + 25 - 40
+
+
+def test_default_dials_keep_apart():
+    design = loads_design(ROW.replace("TAIL", "6.0"), "row.toml")
+    a, c = display_plan(design).dials
+    gap = 40.0 - a.part.radius - c.part.radius
+    assert gap >= 2.0 - 1e-9  # DIAL_CLEARANCE
