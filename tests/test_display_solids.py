@@ -12,8 +12,8 @@ import pytest
 pytest.importorskip("cadquery")
 
 import ezdxf  # noqa: E402
-
 from _assembly import placed_solids  # noqa: E402
+
 from wheelgen.design import load_design  # noqa: E402
 from wheelgen.display.outlines import flat_profile  # noqa: E402
 from wheelgen.export.build import BuildOptions, build_design  # noqa: E402
