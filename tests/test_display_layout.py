@@ -219,3 +219,19 @@ def test_hand_distance_of_crossed_and_parallel_segments():
     # facing: the tips at x = 30 and x = 10 overlap: 0; parallel and upright: 40;
     # both along +x: the first tip (30) and the second's tail (35) 5 apart
     assert d == pytest.approx([0.0, 40.0, 5.0])
+
+
+def test_the_display_never_starts_the_cad_kernel():
+    import subprocess
+    import sys
+
+    code = (
+        "import sys\n"
+        "from wheelgen.design import load_design\n"
+        "from wheelgen.display import display_plan\n"
+        "from wheelgen.display.checks import display_findings\n"
+        f"d = load_design({str(DEMO)!r})\n"
+        "display_plan(d); display_findings(d, None)\n"
+        "assert 'cadquery' not in sys.modules and 'OCP' not in sys.modules\n"
+    )
+    subprocess.run([sys.executable, "-c", code], check=True)

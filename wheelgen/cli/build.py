@@ -52,7 +52,8 @@ def _parse_formats(text: str) -> tuple[str, ...]:
     "--formats",
     default=",".join(_FORMATS),
     show_default=True,
-    help="Comma-separated formats to write (dxf and svg only for wheels and plates).",
+    help="Comma-separated formats to write (dxf and svg only for flat parts: wheels,"
+    " plates, hands, dials, crank arms).",
 )
 @click.option(
     "--jobs",
@@ -109,12 +110,15 @@ def build_command(
     """Check DESIGN and write its parts, ready for the workshop or the printer.
 
     DESIGN is a train file (TOML); without it the bundled demo is built. Every
-    part is made: wheels, arbors, tubes and pins, and the frame (the two plates, the
-    pillars between them and a cock for any arbor one plate alone holds). Files go
+    part is made: wheels, arbors, tubes and pins, the frame (the two plates, the
+    pillars between them and a cock for any arbor one plate alone holds), and the
+    display (a hand for every target, a dial behind each axis's hands, a knob or
+    crank on the drive). Files go
     to output/<design name>/ (or -o DIR): step/<part>.step and step/assembly.step
     (every part in place, with the screws and any bushes or bearings), stl/ and 3mf/
-    meshes lying on z = 0, dxf/ and svg/ 1:1 drawings of every wheel and plate, the
-    workshop sheets (cutting.csv: cutter, indexing and inspection sizes of every
+    meshes lying on z = 0, dxf/ and svg/ 1:1 drawings of every wheel, plate, hand
+    and crank arm (a dial's svg is its face to print and glue on, its dxf has the
+    graduations on the ENGRAVE layer), the workshop sheets (cutting.csv: cutter, indexing and inspection sizes of every
     wheel; parts.csv: bill of parts with screws; drilling/<plate>.csv and .svg: the
     outline and every hole's position from the drive arbor), report.html (one page
     with drawings, findings, motion, an animated preview and the size of every

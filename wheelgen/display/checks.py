@@ -231,20 +231,20 @@ def _sweeps(design: Design, plan: DisplayPlan) -> list[_Sweep]:
 def _clashes(design: Design, plan: DisplayPlan) -> list[Finding]:
     out: list[Finding] = []
     dials = plan.dials
-    for i, a in enumerate(dials):
-        for b in dials[i + 1 :]:
-            pa, pb = a.part.placement, b.part.placement
+    for i, one in enumerate(dials):
+        for two in dials[i + 1 :]:
+            pa, pb = one.part.placement, two.part.placement
             d = math.hypot(pa.x - pb.x, pa.y - pb.y)
-            over = a.part.radius + b.part.radius - d
+            over = one.part.radius + two.part.radius - d
             if over > 1e-9:
                 out.append(
                     Finding(
                         "error",
                         "display.dial_overlap",
-                        f"dial {a.part.name} / dial {b.part.name}",
-                        f"dials {a.part.name} ({a.part.radius:g} mm) and"
-                        f" {b.part.name} ({b.part.radius:g} mm) stand {_mm(d)} apart"
-                        f" and overlap by {_mm(over)}",
+                        f"dial {one.part.name} / dial {two.part.name}",
+                        f"dials {one.part.name} ({one.part.radius:g} mm) and"
+                        f" {two.part.name} ({two.part.radius:g} mm) stand {_mm(d)}"
+                        f" apart and overlap by {_mm(over)}",
                         _mm(over),
                         "0 mm",
                         "smaller 'radius' on their [[dial]] tables",
@@ -318,11 +318,13 @@ def hand_min_distance(
         t = np.clip(
             np.einsum("ij,ij->i", x - s0, v) / np.einsum("ij,ij->i", v, v), 0, 1
         )
-        return np.hypot(*(x - s0 - t[:, None] * v).T)
+        return np.asarray(np.hypot(*(x - s0 - t[:, None] * v).T), dtype=float)
 
     def cross(o: np.ndarray, a: np.ndarray, b: np.ndarray) -> np.ndarray:
-        return (a[:, 0] - o[:, 0]) * (b[:, 1] - o[:, 1]) - (a[:, 1] - o[:, 1]) * (
-            b[:, 0] - o[:, 0]
+        return np.asarray(
+            (a[:, 0] - o[:, 0]) * (b[:, 1] - o[:, 1])
+            - (a[:, 1] - o[:, 1]) * (b[:, 0] - o[:, 0]),
+            dtype=float,
         )
 
     d = np.minimum.reduce(
