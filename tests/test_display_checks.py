@@ -110,3 +110,18 @@ def test_default_dials_keep_apart():
     a, c = display_plan(design).dials
     gap = 40.0 - a.part.radius - c.part.radius
     assert gap >= 2.0 - 1e-9  # DIAL_CLEARANCE
+
+
+def test_printed_hands_need_their_layers_and_lines():
+    text = ROW.replace("TAIL", "6.0").replace(
+        'title = "two', 'process = "print"\ntitle = "two'
+    )
+    extra = "\n[display]\nhand_thickness = 0.4\n"
+    found = [
+        f
+        for f in run_checks(loads_design(text + extra, "row.toml"))
+        if f.check == "display.thin"
+    ]
+    # derived: 4 layers of 0.2 mm (the print defaults) need 0.8 mm; 0.4 mm is 2 layers
+    assert found and all("2.0 layers" in f.message for f in found)
+    assert {f.subject for f in found} == {"hand_a", "hand_c"}

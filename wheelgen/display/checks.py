@@ -14,6 +14,8 @@
   through their whole joint cycle (their angles from the exact rates and the
   pin-and-slot motion, :mod:`wheelgen.display.motion`); a cycle too long to follow
   counts as a meeting when their sweeps overlap at all;
+- ``display.thin`` (error): printed, a hand or dial thinner than ``min_layers``
+  layers, or a blade narrower than two nozzle lines;
 - ``display.no_frame`` (note): hands were asked for but there is no front plate;
 - the plan's own findings (``display.no_room``, ``display.still``,
   ``display.dial_edge``).
@@ -126,7 +128,47 @@ def display_findings(design: Design, analysis: Any) -> list[Finding]:
             )
     plan = display_plan(design)
     out.extend(plan.problems)
+    out.extend(_thin(design, plan))
     out.extend(_clashes(design, plan))
+    return out
+
+
+def _thin(design: Design, plan: DisplayPlan) -> list[Finding]:
+    """Printed hands and dials: enough layers, and a blade of two nozzle lines."""
+    proc = design.process
+    if proc.kind != "print":
+        return []
+    need = proc.min_layers * proc.layer
+    out = []
+    items = [(h.part.name, h.part.thickness, h.part.width) for h in plan.hands]
+    items += [(d.part.name, d.part.thickness, None) for d in plan.dials]
+    for name, thickness, width in items:
+        if thickness < need - 1e-9:
+            out.append(
+                Finding(
+                    "error",
+                    "display.thin",
+                    name,
+                    f"{name} is {_mm(thickness)} thick, {thickness / proc.layer:.1f}"
+                    " layers",
+                    _mm(thickness),
+                    f"{proc.min_layers} layers of {proc.layer:g} mm",
+                    f"a thickness of at least {need:g} mm ([display] or the [[hand]])",
+                )
+            )
+        if width is not None and width < 2 * proc.nozzle - 1e-9:
+            out.append(
+                Finding(
+                    "error",
+                    "display.thin",
+                    name,
+                    f"the blade of {name} is {_mm(width)} wide, less than two nozzle"
+                    " lines",
+                    _mm(width),
+                    _mm(2 * proc.nozzle),
+                    f"width = {2 * proc.nozzle:g} or more on its [[hand]]",
+                )
+            )
     return out
 
 
