@@ -235,3 +235,22 @@ def test_the_display_never_starts_the_cad_kernel():
         "assert 'cadquery' not in sys.modules and 'OCP' not in sys.modules\n"
     )
     subprocess.run([sys.executable, "-c", code], check=True)
+
+
+def test_the_reading_at_rest_turns_the_hand_and_its_seat():
+    text = DEMO_TEXT + '\n[[hand]]\narbor = "moon_dial"\nrest = 7.5\n'
+    hand = next(
+        h.part
+        for h in display_plan(loads_design(text, "d.toml")).hands
+        if h.part.arbor == "moon_dial"
+    )
+    # derived: the moon hand turns counter-clockwise; day 7.5 of a month of
+    # 29.5306667 days (the train's period: 11074/375 d) stands that share of a turn
+    # on from the top
+    want = 90.0 + 360.0 * 7.5 / (11074 / 375)
+    assert hand.placement.angle_deg == pytest.approx(want, abs=1e-9)
+    # the square hole is turned back by as much, so the hand reads 7.5 on a square
+    # milled at the arbor's angle 0
+    assert hand.seat == "square"
+    turn = (hand.seat_angle_deg + want) % 90.0
+    assert min(turn, 90.0 - turn) == pytest.approx(0.0, abs=1e-6)
