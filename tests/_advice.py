@@ -17,8 +17,8 @@ from wheelgen.design.model import Design
 
 __all__ = ["apply_to_text", "dump_toml", "recheck"]
 
-_SINGLE = ("design", "defaults", "process", "frame", "drive")
-_ARRAYS = ("arbor", "wheel", "mesh", "pinslot", "target", "stock")
+_SINGLE = ("design", "defaults", "process", "frame", "drive", "display", "input")
+_ARRAYS = ("arbor", "wheel", "mesh", "pinslot", "target", "stock", "hand", "dial")
 
 
 def _value(v: Any) -> str:
@@ -57,9 +57,15 @@ def apply_to_text(text: str, changes: tuple[Change, ...]) -> str:
         if c.table in _SINGLE:
             doc.setdefault(c.table, {})[c.key] = value
             continue
-        tables = doc[c.table]
+        tables = doc.setdefault(c.table, [])
         if c.table == "mesh":
             target = tables[int(c.name) - 1]
+        elif c.table in ("hand", "dial"):  # one per arbor; a default one is written out
+            found = [t for t in tables if t.get("arbor") == c.name]
+            if not found:
+                found = [{"arbor": c.name}]
+                tables.append(found[0])
+            (target,) = found
         else:
             (target,) = [t for t in tables if t.get("name") == c.name]
         target[c.key] = value

@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+from pathlib import Path
+
 import pytest
 
 from wheelgen.checks import run_checks
@@ -118,10 +120,54 @@ def test_printed_hands_need_their_layers_and_lines():
     )
     extra = "\n[display]\nhand_thickness = 0.4\n"
     found = [
-        f
+        g
         for f in run_checks(loads_design(text + extra, "row.toml"))
-        if f.check == "display.thin"
+        for g in f.every()
+        if g.check == "display.thin"
     ]
     # derived: 4 layers of 0.2 mm (the print defaults) need 0.8 mm; 0.4 mm is 2 layers
     assert found and all("2.0 layers" in f.message for f in found)
     assert {f.subject for f in found} == {"hand_a", "hand_c"}
+    # one change puts both right, so the second comes under the first
+    assert str(found[0].changes[0]) == "hand_thickness = 0.8 on [display]"
+
+
+DEMO_TEXT = (
+    Path(__file__).resolve().parents[1] / "designs" / "harbour_tide_clock.toml"
+).read_text()
+
+ADVICE_CASES = [
+    # a hand on the layshaft long enough to reach over the centre arbor's tubes
+    (DEMO_TEXT + '\n[[hand]]\narbor = "lay"\nlength = 80.0\n', "display.hand_clash"),
+    (
+        ROW.replace("TAIL", "6.0")
+        + '\n[[dial]]\narbor = "a"\nradius = 25.0\n\n[[dial]]\narbor = "c"\nradius = 25.0\n',
+        "display.dial_overlap",
+    ),
+    (
+        ROW.replace("TAIL", "6.0").replace(
+            'title = "two', 'process = "print"\ntitle = "two'
+        )
+        + "\n[display]\nhand_thickness = 0.4\n",
+        "display.thin",
+    ),
+]
+
+
+@pytest.mark.parametrize(("text", "check"), ADVICE_CASES)
+def test_display_advice_is_a_change_that_clears_it(text: str, check: str) -> None:
+    from tests._advice import recheck
+
+    found = [
+        g
+        for f in run_checks(loads_design(text, "case.toml"))
+        for g in f.every()
+        if g.check == check
+    ]
+    assert found
+    for finding in found:
+        assert finding.changes, finding.advice
+        _, again = recheck(text, finding, run_checks)
+        assert (finding.check, finding.subject) not in {
+            (f.check, f.subject) for f in again
+        }, finding.advice

@@ -137,13 +137,13 @@ name = "lay"
 [[wheel]]
 name = "m1"
 arbor = "main"
-teeth = 20
+teeth = 30
 height = 2.0
 
 [[wheel]]
 name = "l1"
 arbor = "lay"
-teeth = 20
+teeth = 30
 height = 2.0
 
 [[wheel]]
@@ -205,7 +205,10 @@ def test_a_wheel_beyond_the_plate_covers_the_hand_inside_it():
     )
     findings = run_checks(loads_design(text, "s.toml"))
     assert "layout.outside_plates" in _ids(findings)
-    covered = [f for f in findings if f.check == "display.hidden_hand"]
+    # moving the wheel back between the plates clears it: it comes under that cause
+    covered = [
+        g for f in findings for g in f.every() if g.check == "display.hidden_hand"
+    ]
     assert covered and '"b"' in covered[0].message
 
 
@@ -254,3 +257,35 @@ def test_the_reading_at_rest_turns_the_hand_and_its_seat():
     assert hand.seat == "square"
     turn = (hand.seat_angle_deg + want) % 90.0
     assert min(turn, 90.0 - turn) == pytest.approx(0.0, abs=1e-6)
+
+
+def test_a_seat_hidden_only_by_the_display_says_so_and_how_to_turn_it_off():
+    from tests._advice import recheck
+
+    # the stud inside the hour tube again (as in a clock whose readings stay inside):
+    # bringing the hour and tide hands out covers the sun's seat on the stud
+    text = _without_dials(
+        DEMO_TEXT.replace(
+            'name = "hours"          # tube on the main arbor: the hour hand, and the'
+            ' planet\'s carrier\naround = "main"',
+            'name = "hours"\naround = "stud"',
+        ).replace(
+            'holds the sun still\naround = "tide"',
+            'holds the sun still\naround = "main"',
+        )
+    )
+    hidden = [
+        g
+        for f in run_checks(loads_design(text, "d.toml"))
+        for g in f.every()
+        if g.check == "layout.hidden_seat"
+    ]
+    assert hidden and all("lengthened through the plate" in f.message for f in hidden)
+    _, again = recheck(text, hidden[0], run_checks)  # readings = "none"
+    assert "layout.hidden_seat" not in {f.check for f in again}
+
+
+def _without_dials(text: str) -> str:
+    """The demo's text without its [[dial]] tables (each needs its hand)."""
+    head, _, _ = text.partition("# --- what the front shows")
+    return head

@@ -61,8 +61,8 @@ def _hole_findings(text: str):
 
 
 SPOKED = (
-    'name = "hour_wheel"\narbor = "hours"\nteeth = 72\nheight = 18.0',
-    'name = "hour_wheel"\narbor = "hours"\nteeth = 72\nheight = 18.0\nspokes = 5\n'
+    'name = "hour_wheel"\narbor = "hours"\nteeth = 72\nheight = 16.0',
+    'name = "hour_wheel"\narbor = "hours"\nteeth = 72\nheight = 16.0\nspokes = 5\n'
     "rim = RIM",
 )
 

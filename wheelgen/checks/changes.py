@@ -11,7 +11,7 @@ from collections.abc import Callable
 from dataclasses import fields, replace
 from typing import Any
 
-from ..design.model import Design, Frame
+from ..design.model import Design, Dial, Frame, Hand
 from .findings import Change
 
 __all__ = ["apply_changes"]
@@ -40,7 +40,14 @@ _ARRAYS: dict[str, tuple[str, Callable[[Any], str]]] = {
     "wheel": ("wheels", lambda w: w.name),
     "mesh": ("meshes", lambda m: str(m.index)),
     "pinslot": ("pinslots", lambda p: p.name),
+    "hand": ("hands", lambda h: h.arbor),
+    "dial": ("dials", lambda d: d.arbor),
 }
+#: Tables of the display that a change may add when the file has none for that arbor
+#: (a hand or a dial ring made by default): the file then gains the table.
+_ADDED: dict[str, Callable[[str], Any]] = {"hand": Hand, "dial": Dial}
+#: Single tables: the design's field.
+_SINGLE = {"process": "process", "display": "display", "input": "drive_input"}
 
 
 def apply_changes(design: Design, changes: tuple[Change, ...]) -> Design:
@@ -50,11 +57,14 @@ def apply_changes(design: Design, changes: tuple[Change, ...]) -> Design:
             field, name_of = _ARRAYS[c.table]
             items = getattr(design, field)
             if not any(name_of(x) == c.name for x in items):
-                raise ValueError(f"there is no {c.item}")
+                if c.table not in _ADDED:
+                    raise ValueError(f"there is no {c.item}")
+                items = items + (_ADDED[c.table](c.name),)
             new = tuple(_set(x, c) if name_of(x) == c.name else x for x in items)
             design = replace(design, **{field: new})
-        elif c.table == "process":
-            design = replace(design, process=_set(design.process, c))
+        elif c.table in _SINGLE:
+            field = _SINGLE[c.table]
+            design = replace(design, **{field: _set(getattr(design, field), c)})
         elif c.table == "frame":
             design = replace(design, frame=_set(design.frame or Frame(), c))
         else:

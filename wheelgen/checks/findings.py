@@ -52,8 +52,9 @@ class Change:
     """One edit of the train file: set ``key`` to ``value`` on one item.
 
     ``table`` is the file's table (``"arbor"``, ``"wheel"``, ``"mesh"``, ``"pinslot"``,
-    ``"process"``, ``"frame"``); ``name`` the item's name, a mesh's 1-based position as
-    text, or ``""`` for ``[process]`` and ``[frame]``; ``key`` a key of that table.
+    ``"hand"``, ``"dial"``, ``"process"``, ``"frame"``, ``"display"``); ``name`` the item's
+    name, a mesh's 1-based position as text, the arbor of a ``[[hand]]`` or
+    ``[[dial]]``, or ``""`` for a single table; ``key`` a key of that table.
     Numbers are rounded to what :func:`format_value` prints, so the text and the value
     are the same edit.
     """
@@ -73,8 +74,10 @@ class Change:
     @property
     def item(self) -> str:
         """The item as messages name it: ``arbor "planet"``, ``the 2nd [[mesh]]``."""
-        if self.table in ("process", "frame", "design", "defaults"):
+        if self.table in ("process", "frame", "design", "defaults", "display", "input"):
             return f"[{self.table}]"
+        if self.table in ("hand", "dial"):
+            return f'the [[{self.table}]] of arbor "{self.name}"'
         if self.table == "mesh":
             return f"the {ordinal(int(self.name))} [[mesh]]"
         return f'{self.table} "{self.name}"'

@@ -31,14 +31,14 @@ from typing import Any
 
 import numpy as np
 
-from ..checks.findings import Finding
+from ..checks.findings import Change, Finding
 from ..design.model import Design
 from ..design.periods import format_period
 from ..kinematics.angles import angle_model
 from ..kinematics.rates import axis_root
 from ..layout.plan import plan_layout
 from .motion import hand_angles_deg, joint_cycle_turns
-from .plan import DisplayPlan, HandPlan, display_plan
+from .plan import DIAL_CLEARANCE, DisplayPlan, HandPlan, display_plan
 
 __all__ = [
     "HAND_CLEARANCE",
@@ -58,6 +58,24 @@ _STEP_DEG = 0.5
 
 def _mm(x: float) -> str:
     return f"{x:.3f} mm"
+
+
+def _below(x: float) -> float:
+    """``x`` rounded down to 0.1 mm, and a little below it: a length that clears."""
+    return math.floor((x - 1e-6) * 10) / 10
+
+
+def _shorter(hand: HandPlan, room: float) -> Change | None:
+    """The hand's ``length`` that keeps its sweep within ``room`` mm, if a length can."""
+    p = hand.part
+    length = _below(room)
+    if length <= max(p.tail, p.hub / 2) or length >= p.length:
+        return None
+    return Change("hand", p.arbor, "length", length)
+
+
+def _set(change: Change | None, otherwise: str) -> str:
+    return f"set {change}, or {otherwise}" if change is not None else otherwise
 
 
 @dataclass(frozen=True, slots=True)
@@ -140,36 +158,49 @@ def _thin(design: Design, plan: DisplayPlan) -> list[Finding]:
         return []
     need = proc.min_layers * proc.layer
     out = []
-    items = [(h.part.name, h.part.thickness, h.part.width) for h in plan.hands]
-    items += [(d.part.name, d.part.thickness, None) for d in plan.dials]
-    for name, thickness, width in items:
-        if thickness < need - 1e-9:
-            out.append(
-                Finding(
-                    "error",
-                    "display.thin",
-                    name,
-                    f"{name} is {_mm(thickness)} thick, {thickness / proc.layer:.1f}"
-                    " layers",
-                    _mm(thickness),
-                    f"{proc.min_layers} layers of {proc.layer:g} mm",
-                    f"a thickness of at least {need:g} mm ([display] or the [[hand]])",
-                )
+    own = {h.arbor for h in design.hands if h.thickness is not None}
+    for h in plan.hands:
+        p = h.part
+        if p.thickness < need - 1e-9:
+            change = (
+                Change("hand", p.arbor, "thickness", need)
+                if p.arbor in own
+                else Change("display", "", "hand_thickness", need)
             )
-        if width is not None and width < 2 * proc.nozzle - 1e-9:
+            out.append(_thin_layers(p.name, p.thickness, proc, change))
+        if p.width < 2 * proc.nozzle - 1e-9:
+            change = Change("hand", p.arbor, "width", round(2 * proc.nozzle, 4))
             out.append(
                 Finding(
                     "error",
                     "display.thin",
-                    name,
-                    f"the blade of {name} is {_mm(width)} wide, less than two nozzle"
-                    " lines",
-                    _mm(width),
+                    p.name,
+                    f"the blade of {p.name} is {_mm(p.width)} wide, less than two"
+                    " nozzle lines",
+                    _mm(p.width),
                     _mm(2 * proc.nozzle),
-                    f"width = {2 * proc.nozzle:g} or more on its [[hand]]",
+                    f"set {change}",
+                    (change,),
                 )
             )
+    for d in plan.dials:
+        if d.part.thickness < need - 1e-9:
+            change = Change("display", "", "dial_thickness", need)
+            out.append(_thin_layers(d.part.name, d.part.thickness, proc, change))
     return out
+
+
+def _thin_layers(name: str, thickness: float, proc: Any, change: Change) -> Finding:
+    return Finding(
+        "error",
+        "display.thin",
+        name,
+        f"{name} is {_mm(thickness)} thick, {thickness / proc.layer:.1f} layers",
+        _mm(thickness),
+        f"{proc.min_layers} layers of {proc.layer:g} mm",
+        f"set {change}",
+        (change,),
+    )
 
 
 def _unreachable(
@@ -279,6 +310,13 @@ def _clashes(design: Design, plan: DisplayPlan) -> list[Finding]:
             d = math.hypot(pa.x - pb.x, pa.y - pb.y)
             over = one.part.radius + two.part.radius - d
             if over > 1e-9:
+                big, small = (
+                    (one, two) if one.part.radius >= two.part.radius else (two, one)
+                )
+                change = None
+                radius = _below(d - small.part.radius - DIAL_CLEARANCE)
+                if big.rings and radius > 0:
+                    change = Change("dial", big.rings[0].arbor, "radius", radius)
                 out.append(
                     Finding(
                         "error",
@@ -289,7 +327,8 @@ def _clashes(design: Design, plan: DisplayPlan) -> list[Finding]:
                         f" apart and overlap by {_mm(over)}",
                         _mm(over),
                         "0 mm",
-                        "smaller 'radius' on their [[dial]] tables",
+                        _set(change, "smaller 'radius' on their [[dial]] tables"),
+                        (change,) if change is not None else (),
                     )
                 )
     items = _sweeps(design, plan)
@@ -317,6 +356,8 @@ def _clashes(design: Design, plan: DisplayPlan) -> list[Finding]:
             depth = hand.radius + other.radius + HAND_CLEARANCE - d
             if key in worst and worst[key][0] >= depth:
                 continue
+            assert hand.hand is not None
+            change = _shorter(hand.hand, d - other.radius - HAND_CLEARANCE)
             worst[key] = (
                 depth,
                 Finding(
@@ -328,9 +369,8 @@ def _clashes(design: Design, plan: DisplayPlan) -> list[Finding]:
                     f" ({z0:g} to {z1:g} mm)",
                     _mm(depth),
                     "0 mm",
-                    f"a shorter hand (at most"
-                    f" {max(d - other.radius - HAND_CLEARANCE, 0):.1f} mm), or move the"
-                    " axes apart",
+                    _set(change, "move the axes apart"),
+                    (change,) if change is not None else (),
                 ),
             )
     out.extend(f for _, f in worst.values())
@@ -398,6 +438,16 @@ def _hands_meet(
     # a counterweight wider than the blade counts as the hand's width (conservative)
     width = (max(pa.width, pa.counterweight) + max(pb.width, pb.counterweight)) / 2
     width += HAND_CLEARANCE
+    # the longer hand, shortened until the two sweeps keep apart
+    reach = {
+        h.part.name: max(h.part.length, h.part.tail, h.part.hub / 2) for h in (a, b)
+    }
+    longer, other = (a, b) if reach[pa.name] >= reach[pb.name] else (b, a)
+    apart = math.dist(
+        (pa.placement.x, pa.placement.y), (pb.placement.x, pb.placement.y)
+    )
+    change = _shorter(longer, apart - reach[other.part.name] - HAND_CLEARANCE)
+    changes = (change,) if change is not None else ()
     if samples > MAX_CYCLE_SAMPLES:
         return Finding(
             "error",
@@ -405,7 +455,8 @@ def _hands_meet(
             subject,
             f"the sweeps of {pa.name} and {pb.name} overlap, and their joint cycle"
             f" ({format_period(span_s)}) is too long to follow: they may meet",
-            advice="shorter hands, so that their sweeps keep apart",
+            advice=_set(change, "shorter hands, so that their sweeps keep apart"),
+            changes=changes,
         )
     t = np.linspace(0.0, span_s, samples)
     angles = hand_angles_deg(design, t, plan, model)
@@ -431,6 +482,6 @@ def _hands_meet(
         f" {_mm(width)}), within their joint cycle of {format_period(span_s)}",
         _mm(float(dist[worst])),
         f">= {_mm(width)}",
-        f"shorter hands (the axes are {_mm(math.dist((pa.placement.x, pa.placement.y), (pb.placement.x, pb.placement.y)))}"
-        " apart), or move the axes apart",
+        _set(change, "move the axes apart"),
+        changes,
     )

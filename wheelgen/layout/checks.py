@@ -21,7 +21,7 @@ from .collisions import Clash, PinClash, find_clashes, find_pin_clashes
 from .phasing import rest_angles
 from .placement import LOOP_TOLERANCE, LoopMismatch
 from .plan import Layout, plan_layout
-from .stacking import wheel_extent
+from .stacking import HiddenSeat, wheel_extent
 
 __all__ = ["FACE_OVERLAP_MIN", "findings_for_layout", "layout_findings"]
 
@@ -61,19 +61,7 @@ def findings_for_layout(layout: Layout, rates: dict[str, Any]) -> list[Finding]:
         if loop is not None:
             out.append(loop)
     for h in layout.stacking.hidden:
-        out.append(
-            Finding(
-                "error",
-                "layout.hidden_seat",
-                f"wheel {h.wheel}",
-                f'the seat of wheel "{h.wheel}" on "{h.member}" lies {_mm(h.overlap)} under'
-                f' the tube "{h.tube}" around it',
-                _mm(h.overlap),
-                "0 mm",
-                f'move wheel "{h.wheel}" (height) clear of the wheels on "{h.tube}" and'
-                " the tubes around it",
-            )
-        )
+        out.append(_hidden_finding(layout, h))
     for s in layout.sizes.values():
         if s.wall < s.wall_minimum - 1e-9:
             out.append(
@@ -316,6 +304,39 @@ def _loop_finding(layout: Layout, mm: LoopMismatch) -> Finding | None:
         _mm(LOOP_TOLERANCE),
         advice,
         changes=changes,
+    )
+
+
+def _hidden_finding(layout: Layout, h: HiddenSeat) -> Finding:
+    """``layout.hidden_seat``; when only the display's lengthening hides the seat, the
+    message says so, and a design whose hands are all its targets' may turn them off."""
+    design = layout.design
+    where = f'the tube "{h.tube}" around it'
+    advice = (
+        f'move wheel "{h.wheel}" (height) clear of the wheels on "{h.tube}" and the'
+        " tubes around it"
+    )
+    changes: tuple[Change, ...] = ()
+    if h.for_display:
+        where += ", which is lengthened through the plate to carry a hand (or the knob)"
+        advice = (
+            f'move wheel "{h.wheel}" behind the wheel of "{h.tube}" (on an axis whose'
+            " tubes all show a reading, the innermost member's wheel lies furthest back)"
+        )
+        if not design.hands:  # every hand is a target's: one key turns them off
+            change = Change("display", "", "readings", "none")
+            changes = (change,)
+            advice = f"set {change} (no hands by default), or " + advice
+    return Finding(
+        "error",
+        "layout.hidden_seat",
+        f"wheel {h.wheel}",
+        f'the seat of wheel "{h.wheel}" on "{h.member}" lies {_mm(h.overlap)} under'
+        f" {where}",
+        _mm(h.overlap),
+        "0 mm",
+        advice,
+        changes,
     )
 
 

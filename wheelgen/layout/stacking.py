@@ -92,12 +92,17 @@ class MemberSpan:
 
 @dataclass(frozen=True, slots=True)
 class HiddenSeat:
-    """Wheel ``wheel`` on ``member`` would sit under tube ``tube`` for ``overlap`` mm."""
+    """Wheel ``wheel`` on ``member`` would sit under tube ``tube`` for ``overlap`` mm.
+
+    ``for_display``: only because the tube is lengthened through a plate to carry a
+    hand, knob or crank (it would be clear otherwise).
+    """
 
     wheel: str
     member: str
     tube: str
     overlap: float
+    for_display: bool = False
 
 
 @dataclass(frozen=True, slots=True)
@@ -299,6 +304,13 @@ def stack_axes(
             reach_back[item.member] = min(
                 reach_back.get(item.member, item.reach), item.reach
             )
+    inside = {
+        (name, c, s.wheel)
+        for name, kids in children.items()
+        for c in kids
+        for s in seats[name]
+        if min(s.z1, spans[c].z1) - max(s.z0, spans[c].z0) > _EPS
+    }
     if reach_front or reach_back:
         spans.clear()
         for root in groups:
@@ -334,7 +346,8 @@ def stack_axes(
             for seat in seats[name]:
                 overlap = min(seat.z1, spans[c].z1) - max(seat.z0, spans[c].z0)
                 if overlap > _EPS:
-                    hidden.append(HiddenSeat(seat.wheel, name, c, overlap))
+                    lengthened = (name, c, seat.wheel) not in inside
+                    hidden.append(HiddenSeat(seat.wheel, name, c, overlap, lengthened))
             for item in levels.of(name):
                 if name in unreachable:
                     continue
