@@ -156,3 +156,13 @@ def test_demo_assembly_display_shares_no_volume(tmp_path):
     # the knob behind the back plate: derived, back plate's outer face at -2 mm
     assert solids["knob_main"].box[5] < -2.0
     assert math.isclose(solids["main"].box[2], solids["knob_main"].box[2], abs_tol=1e-6)
+
+
+@pytest.mark.slow
+def test_the_whole_week_assembly_shares_no_volume(tmp_path):
+    from _assembly import shared_volumes
+
+    design = load_design(WEEK)
+    out = tmp_path / "week"
+    build_design(design, out, BuildOptions(formats=("step",), use_cache=False))
+    assert shared_volumes(out / "step" / "assembly.step") == []
