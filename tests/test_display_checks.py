@@ -137,6 +137,8 @@ DEMO_TEXT = (
 ).read_text()
 
 ADVICE_CASES = [
+    # dials let down to 2 mm from the plate sit on the heads of the moon cock's screws
+    (DEMO_TEXT + "\n[display]\ndial_gap = 2.0\n", "display.frame_clash"),
     # a hand on the layshaft long enough to reach over the centre arbor's tubes
     (DEMO_TEXT + '\n[[hand]]\narbor = "lay"\nlength = 80.0\n', "display.hand_clash"),
     (

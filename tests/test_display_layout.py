@@ -12,7 +12,7 @@ from wheelgen.design import load_design, loads_design
 from wheelgen.display.checks import hand_min_distance
 from wheelgen.display.plan import display_plan
 from wheelgen.layout import plan_layout, plan_parts
-from wheelgen.layout.drilling import plate_holes
+from wheelgen.workshop.drilling import chart_holes
 from wheelgen.layout.front import SEAT_PROUD
 
 ROOT = Path(__file__).resolve().parents[1]
@@ -32,15 +32,16 @@ def test_demo_tubes_telescope_through_the_front():
     levels = layout.stacking.levels
     face = 42.0  # derived: front plate's inner face 40 + thickness 2
     assert levels.front_face == face
-    # derived: dial 2 mm in front of the face, 1 mm thick; first hand 1 mm further
-    assert levels.dials["main"] == (44.0, 45.0)
+    # derived: the dial 3.5 mm in front of the face (clear of the 3 mm heads of the
+    # frame's M3 screws, ISO 4762 k max, by 0.5 mm), 1 mm thick; first hand 1 mm further
+    assert levels.dials["main"] == (45.5, 46.5)
     tide, hours = (
         next(i for i in levels.items if i.member == m) for m in ("tide", "hours")
     )
-    assert tide.z0 == pytest.approx(46.0)
+    assert tide.z0 == pytest.approx(47.5)
     # derived: the tide hand 0.8 mm, its collet 1.5 mm, the tube 0.5 mm proud of it,
     # then the next hand 1 mm in front of the tube's end
-    assert tide.reach == pytest.approx(46.0 + 0.8 + 1.5 + SEAT_PROUD)
+    assert tide.reach == pytest.approx(47.5 + 0.8 + 1.5 + SEAT_PROUD)
     assert hours.z0 == pytest.approx(tide.reach + 1.0)
     # each inner member stands proud of the one around it
     assert spans["stud"].z1 == pytest.approx(face)
@@ -55,7 +56,7 @@ def test_demo_tubes_telescope_through_the_front():
     assert {"tide", "hours", "stud", "main"} <= {
         n for n, s in spans.items() if "front" in s.plates
     }
-    centre = next(h for h in plate_holes(design, "front") if h.x == 0 and h.y == 0)
+    centre = next(h for h in chart_holes(design, "front") if h.x == 0 and h.y == 0)
     assert centre.member == "stud" and centre.role == "held"
 
 
@@ -289,3 +290,40 @@ def _without_dials(text: str) -> str:
     """The demo's text without its [[dial]] tables (each needs its hand)."""
     head, _, _ = text.partition("# --- what the front shows")
     return head
+
+
+def test_dial_feet_are_screwed_through_the_front_plate_clear_of_its_holes():
+    from wheelgen.frame import plan_frame
+    from wheelgen.frame.limits import min_centre_distance
+
+    design = load_design(DEMO)
+    plan = display_plan(design)
+    chart = chart_holes(design, "front")
+    frame = plan_frame(design)
+    for dial in plan.dials:
+        part = dial.part
+        mine = [h for h in chart if h.member == part.name]
+        assert len(mine) == len(part.feet) == len(dial.screws) == 3
+        # derived: the chart counts from the drive's axis, at the centre here
+        feet = {(round(part.placement.x + x, 4), round(part.placement.y + y, 4))
+                for x, y in part.feet}  # fmt: skip
+        assert {(round(h.x, 4), round(h.y, 4)) for h in mine} == feet
+        assert all(h.nominal == 2.4 and h.role == "mounting" for h in mine)  # M2
+        for x, y in feet:
+            for h in frame.plate("front").holes:
+                need = min_centre_distance(2.4, h.diameter, frame.limits)
+                assert np.hypot(x - h.x, y - h.y) >= need - 1e-9
+    # the screw: M2 x 5 through the 2 mm plate, 3 mm into the 3.5 mm foot (derived)
+    assert {(s.size, s.length) for d in plan.dials for s in d.screws} == {("M2", 5.0)}
+
+
+def test_an_arbor_lengthened_to_its_cock_keeps_its_hand_seat():
+    from wheelgen.frame import plan_parts as all_parts
+
+    design = load_design(ROOT / "tests" / "data" / "two_stage.toml")
+    output = next(p for p in all_parts(design) if p.name == "output")
+    hand = next(p for p in all_parts(design) if p.name == "hand_output")
+    z0, z1, shape = output.seats[-1]
+    # the square runs from the hand's back face to the arbor's end
+    assert output.placement.z + z0 == pytest.approx(hand.placement.z)
+    assert z1 == pytest.approx(output.length) and shape == "square"

@@ -17,7 +17,8 @@ from _assembly import placed_solids  # noqa: E402
 from wheelgen.design import load_design  # noqa: E402
 from wheelgen.display.outlines import flat_profile  # noqa: E402
 from wheelgen.export.build import BuildOptions, build_design  # noqa: E402
-from wheelgen.layout import plan_layout, plan_parts  # noqa: E402
+from wheelgen.frame import plan_parts  # noqa: E402
+from wheelgen.layout import plan_layout  # noqa: E402
 
 pytestmark = pytest.mark.cad
 
@@ -58,10 +59,22 @@ def _shared_with_display(path: Path, display: set[str]) -> list[tuple[str, str, 
 
 
 def _without_wheels(design):
-    """The parts but the wheels: every display part stands clear of the wheels'
-    heights (the hands and dials in front of the front plate, the knob behind the back
-    one), so the wheels, slow to build and to read back, can be left out here."""
+    """Every part but the wheels (frame and display included): every display part
+    stands clear of the wheels' heights (the hands and dials in front of the front
+    plate, their feet's screws just behind it, the knob behind the back plate), so the
+    wheels, slow to build and to read back, can be left out here."""
     return [p for p in plan_parts(design) if p.kind != "wheel"]
+
+
+def _display_names(parts) -> set[str]:
+    """The display's parts, with the screws that fix the dials' feet."""
+    dials = {p.name for p in parts if p.kind == "dial"}
+    return {
+        p.name
+        for p in parts
+        if p.kind in DISPLAY_KINDS
+        or (p.kind == "screw" and p.name.rsplit("_screw_", 1)[0] in dials)
+    }
 
 
 @pytest.fixture(scope="module")
@@ -125,11 +138,11 @@ def test_week_assembly_shows_the_display_in_front_and_shares_no_volume(week):
     solids = {s.name: s for s in placed_solids(out / "step" / "assembly.step")}
     for name in ("hand_week", "hand_month", "crank_crank"):
         assert solids[name].box[2] > face - 1e-6, name  # zmin in front of the plate
-    dials = [n for n in solids if n.startswith("dial_")]
+    dials = [n for n in solids if n.startswith("dial_") and "_screw_" not in n]
     assert len(dials) == 2
     for n in dials:
         assert solids[n].box[2] == pytest.approx(face, abs=1e-6)  # feet on the plate
-    display = {p.name for p in plan_parts(design) if p.kind in DISPLAY_KINDS}
+    display = _display_names(plan_parts(design))
     assert _shared_with_display(out / "step" / "assembly.step", display) == []
 
 
@@ -143,11 +156,12 @@ def test_demo_assembly_display_shares_no_volume(tmp_path):
     wheels = [w.name for w in design.wheels]
     top = max(w.height + w.face_width for w in design.wheels)
     assert wheels and top < plan_layout(design).stacking.levels.front_face
-    display = {p.name for p in parts if p.kind in DISPLAY_KINDS}
-    assert display == {
+    display = _display_names(parts)
+    assert {n for n in display if "_screw_" not in n} == {
         "dial_main", "dial_moon_dial", "hand_hours", "hand_tide", "hand_moon_dial",
         "knob_main",
     }  # fmt: skip
+    assert len(display) == 6 + 2 * 3  # three feet, three screws a dial
     assert _shared_with_display(out / "step" / "assembly.step", display) == []
     solids = {s.name: s for s in placed_solids(out / "step" / "assembly.step")}
     face = plan_layout(design).stacking.levels.front_face

@@ -267,10 +267,11 @@ def test_demo_plate_holes_follow_the_members_through_each_plate(demo):
     }
     assert set(back) == {"main", "lay", "moon_lay", "moon"}
     assert set(front) == {"stud", "lay", "moon_lay", "moon_dial"}
-    # the fixed stud is held in an H7 hole of its own 3.7 mm: +12/0 um (ISO 286-2)
+    # the fixed stud, outermost of the centre's tubes (3 mm arbor, hour tube 3.7, tide
+    # tube 4.4, stud 5.1), is held in an H7 hole of its own 5.1 mm: +12/0 um (ISO 286-2)
     assert front["stud"].role == "held" and (front["stud"].low, front["stud"].high) == (
-        3.7,
-        3.712,
+        5.1,
+        5.112,
     )
     assert back["main"].role == "pivot" and back["main"].fit == "H7"
     mounting = [h for h in plan.plate("back").holes if h.role == "mounting"]
@@ -357,7 +358,12 @@ def test_worked_example_output_gets_a_cock_beyond_its_wheel():
         p for p in plan_parts(design) if isinstance(p, ArborPart) and p.name == "output"
     )
     assert arbor.placement.z == cock.bar_z0  # lengthened down to the cock
-    assert arbor.placement.z + arbor.length == 18.0  # through the front plate
+    # through the front plate (16 + 2 mm) and on to its hand: derived, the dial 3.5 mm
+    # in front of the plate (clear of the M3 screw heads, 3 mm, by 0.5) and 1 mm thick,
+    # the hand 1 mm further, 0.8 mm thick, the arbor 0.5 mm proud of it
+    assert arbor.placement.z + arbor.length == pytest.approx(
+        18.0 + 3.5 + 1 + 1 + 0.8 + 0.5
+    )
     assert errors(design) == []
 
 

@@ -74,11 +74,12 @@ def test_parts_carry_seats_and_placements():
     assert isinstance(t2, SleevePart)
     assert t2.placement.z == pytest.approx(17.0)
     assert t2.seats == ((7.0, 10.0, "round"),)  # w2 at 24..27, relative to 17
-    # derived: plate to plate is -2..42 mm; the drive's default knob stands 1 mm (the
-    # hand gap) in front of the front plate and is 8 mm long, so the shaft runs on to 51
+    # derived: plate to plate is -2..42 mm; the drive's default knob stands at the dials'
+    # level, 3.5 mm in front of the front plate (clear of the M3 screw heads, 3 mm, by
+    # 0.5), and 1 mm (the hand gap) further, 8 mm long, so the shaft runs on to 54.5
     assert isinstance(parts["main"], ArborPart) and parts[
         "main"
-    ].length == pytest.approx(53.0)
+    ].length == pytest.approx(56.5)
     bare = {p.name: p for p in plan_parts(nested(extra='\n[input]\nkind = "none"\n'))}
     assert bare["main"].length == pytest.approx(44.0)  # derived: -2..42 mm
     # fixed on the outside of its 5.1 mm tube, the bore opened by the H7/g6 running

@@ -204,9 +204,7 @@ def _display(ld: _Loader, doc: dict[str, Any]) -> Display:
         default=base.readings,
         check=_choice("targets", "none"),
     )
-    dial_gap = ld.value(
-        t, "dial_gap", "number", ctx, default=base.dial_gap, check=_non_negative
-    )
+    dial_gap = ld.value(t, "dial_gap", "number", ctx, check=_positive)
     hand_gap = ld.value(
         t, "hand_gap", "number", ctx, default=base.hand_gap, check=_positive
     )

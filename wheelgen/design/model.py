@@ -322,7 +322,7 @@ class Display:
     """
 
     readings: Literal["targets", "none"] = "targets"
-    dial_gap: float = 2.0  # front plate's outer face to the dial's back
+    dial_gap: float | None = None  # front plate's outer face to the dials' back
     hand_gap: float = 1.0  # axial clearance between dial, hands and arbor ends
     dial_thickness: float | None = None
     hand_thickness: float | None = None

@@ -14,6 +14,8 @@
   through their whole joint cycle (their angles from the exact rates and the
   pin-and-slot motion, :mod:`wheelgen.display.motion`); a cycle too long to follow
   counts as a meeting when their sweeps overlap at all;
+- ``display.frame_clash`` (error): a dial, hand, knob or crank on a screw head or a
+  bush the frame has standing in front of the front plate;
 - ``display.thin`` (error): printed, a hand or dial thinner than ``min_layers``
   layers, or a blade narrower than two nozzle lines;
 - ``display.no_frame`` (note): hands were asked for but there is no front plate;
@@ -148,6 +150,78 @@ def display_findings(design: Design, analysis: Any) -> list[Finding]:
     out.extend(plan.problems)
     out.extend(_thin(design, plan))
     out.extend(_clashes(design, plan))
+    out.extend(_frame_clashes(design, plan))
+    return out
+
+
+def _frame_bodies(
+    design: Design,
+) -> list[tuple[str, float, float, float, float, float]]:
+    """What of the frame stands in front of the front plate: (label, x, y, radius, z0,
+    z1) of the screw heads on its face and of bushes or bearings standing proud (mm)."""
+    from ..design.screws import screw
+    from ..frame.plan import plan_frame
+
+    assert design.frame is not None
+    frame = plan_frame(design)
+    face = design.frame.plates[1] + design.frame.thickness
+    out = []
+    for sp in frame.screws:
+        if sp.head_up and abs(sp.face - face) < 1e-6:
+            sc = screw(sp.size)
+            out.append(
+                (f"the head of screw {sp.name}", sp.x, sp.y, sc.head_diameter / 2,
+                 face, face + sc.head_height)
+            )  # fmt: skip
+    for b in frame.bearings:
+        top = b.z0 + (b.stock.width or 0.0)
+        if top > face + 1e-9:
+            out.append(
+                (f"{b.stock.kind} {b.name}", b.x, b.y, b.stock.outside / 2, face, top)
+            )
+    return out
+
+
+def _frame_clashes(design: Design, plan: DisplayPlan) -> list[Finding]:
+    """``display.frame_clash``: a dial, hand, knob or crank on what the frame has in
+    front of the front plate."""
+    if design.frame is None or not (plan.dials or plan.hands or plan.input):
+        return []
+    face = design.frame.plates[1] + design.frame.thickness
+    bodies = _frame_bodies(design)
+    items: list[tuple[str, str, float, float, float, float, float]] = [
+        (f"dial {d.part.name}", d.part.name, d.part.placement.x, d.part.placement.y,
+         d.part.radius, d.z0, d.z1)
+        for d in plan.dials
+    ]  # fmt: skip
+    for sweep in _sweeps(design, plan):
+        if sweep.hand is not None or sweep.subject.startswith(("knob_", "crank_")):
+            items.append(
+                (sweep.label, sweep.subject, *sweep.centre, sweep.radius, sweep.z0,
+                 sweep.z1)
+            )  # fmt: skip
+    out = []
+    for label, subject, x, y, r, z0, z1 in items:
+        for what, bx, by, br, b0, b1 in bodies:
+            d = math.hypot(x - bx, y - by)
+            if d >= r + br or b1 <= z0 + 1e-9 or b0 >= z1 - 1e-9:
+                continue
+            change = Change(
+                "display", "", "dial_gap", math.ceil((b1 - face + 0.5) * 10) / 10
+            )
+            out.append(
+                Finding(
+                    "error",
+                    "display.frame_clash",
+                    f"{subject} / frame",
+                    f"{label} stands from {z0:g} to {z1:g} mm, over {what}, which"
+                    f" stands {b1 - face:g} mm proud of the front plate",
+                    _mm(b1 - z0),
+                    "0 mm",
+                    f"set {change}",
+                    (change,),
+                )
+            )
     return out
 
 

@@ -141,33 +141,32 @@ def hand_profile(part: HandPart) -> FlatProfile:
         _line(_p(le, ye), _p(xb, yb)),
     ]
     ab = math.atan2(yb, xb)
-    rc = part.counterweight / 2
-    tail = part.tail
-    if tail <= rh + 1e-9:
+    # the tail ends in a circle: the counterweight, or a round end as wide as the tail
+    re = max(part.counterweight / 2, w)
+    cx = -part.tail + re
+    xt = -math.sqrt(rh * rh - w * w)  # where the tail's edges leave the hub
+    xc = cx + math.sqrt(max(re * re - w * w, 0.0))  # where they meet the end circle
+    if abs(cx) + re <= rh + 1e-9:  # the end lies within the hub
         segs.append(_arc_about(0, 0, rh, ab, 2 * math.pi - ab))
-    else:
-        xt = -math.sqrt(rh * rh - w * w)
+    elif xc < xt - 1e-6:  # hub, tail edges, end circle
         at = math.atan2(w, xt)
-        if rc > w:
-            cx = -tail + rc
-            xc = cx + math.sqrt(rc * rc - w * w)
-            end = _arc_about(cx, 0, rc, math.atan2(w, xc - cx),
-                             2 * math.pi - math.atan2(w, xc - cx))  # fmt: skip
-        else:
-            cx = -tail + w
-            xc = cx
-            end = _arc_about(cx, 0, w, math.pi / 2, 3 * math.pi / 2)
-        if xc >= xt - 1e-9:
-            raise ValueError(
-                f"{part.name}: the tail ({tail} mm) ends inside the hub"
-                f" ({part.hub} mm across)"
-            )
+        ae = math.atan2(w, xc - cx)
         segs += [
             _arc_about(0, 0, rh, ab, at),
             _line(_p(xt, w), _p(xc, w)),
-            end,
+            _arc_about(cx, 0, re, ae, 2 * math.pi - ae),
             _line(_p(xc, -w), _p(xt, -w)),
             _arc_about(0, 0, rh, 2 * math.pi - at, 2 * math.pi - ab),
+        ]
+    else:  # the end circle overlaps the hub: they meet where the two circles cross
+        xi = (rh * rh - re * re + cx * cx) / (2 * cx)
+        yi = math.sqrt(max(rh * rh - xi * xi, 0.0))
+        ah = math.atan2(yi, xi)
+        ae = math.atan2(yi, xi - cx)
+        segs += [
+            _arc_about(0, 0, rh, ab, ah),
+            _arc_about(cx, 0, re, ae, 2 * math.pi - ae),
+            _arc_about(0, 0, rh, 2 * math.pi - ah, 2 * math.pi - ab),
         ]
     segs.append(_line(_p(xb, -yb), _p(le, -ye)))
     return FlatProfile(Loop(tuple(segs)), (_seat(part, part.seat_angle_deg),))

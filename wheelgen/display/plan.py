@@ -23,12 +23,16 @@ from dataclasses import dataclass
 from fractions import Fraction
 from functools import lru_cache
 
+import numpy as np
+
 from ..checks.findings import Finding
 from ..design.display_tables import dial_part_name, hand_part_name, input_part_name
 from ..design.model import Design, Dial, Hand
+from ..design.screws import SCREW_LENGTHS, screw
+from ..frame.holes import FrameHole
 from ..kinematics.rates import axis_root, solve_rates
 from ..kinematics.targets import arbor_period, arbor_sense
-from ..layout.front import Level, dial_thickness, nesting_depth
+from ..layout.front import Level, dial_gap, dial_thickness, nesting_depth
 from ..layout.part_plan import (
     CrankPart,
     DialPart,
@@ -36,6 +40,7 @@ from ..layout.part_plan import (
     ItemSeat,
     KnobPart,
     Placement,
+    ScrewPart,
 )
 from ..layout.plan import Layout, plan_layout
 from ..layout.sleeves import seat_factor
@@ -48,6 +53,7 @@ __all__ = [
     "KNOB_DIAMETER",
     "CRANK_THROW",
     "CRANK_HANDLE_DIAMETER",
+    "FOOT_SCREW",
     "FOOT_DIAMETER",
     "FOOT_HOLE",
     "FOOT_SCREW_HOLE",
@@ -74,11 +80,13 @@ DIAL_HOLE_PLAY = 0.4
 KNOB_DIAMETER = 16.0
 CRANK_THROW = 25.0
 CRANK_HANDLE_DIAMETER = 6.0
-#: mm: a dial foot's diameter, the blind hole in it (tap drill for an M2 screw) and the
-#: clearance hole for that screw in the front plate (ISO 273 medium series for M2).
+#: A dial foot's screw, from behind through the front plate into the foot; the foot's
+#: diameter (mm), its blind hole (the screw's tap drill) and the plate's hole for the
+#: screw (ISO 273 medium; see :mod:`wheelgen.design.screws`).
+FOOT_SCREW = "M2"
 FOOT_DIAMETER = 4.0
-FOOT_HOLE = 1.6
-FOOT_SCREW_HOLE = 2.4
+FOOT_HOLE = screw(FOOT_SCREW).tap_drill
+FOOT_SCREW_HOLE = screw(FOOT_SCREW).clearance_hole
 # gap to the next ring inwards, as a share of a ring's width
 _RING_GAP = 0.15
 # width of a character of the numbers, in text heights (sans-serif digits)
@@ -115,13 +123,18 @@ class HandPlan:
 
 @dataclass(frozen=True, slots=True)
 class DialPlan:
-    """A dial disc on one axis (``axis``: its innermost member) and its rings."""
+    """A dial disc on one axis (``axis``: its innermost member) and its rings.
+
+    ``screws`` fix its feet from behind the front plate, through ``plate_holes``.
+    """
 
     part: DialPart
     axis: str
     z0: float
     z1: float
     rings: tuple[RingPlan, ...]
+    screws: tuple[ScrewPart, ...] = ()
+    plate_holes: tuple[FrameHole, ...] = ()
 
 
 @dataclass(frozen=True, slots=True)
@@ -142,15 +155,23 @@ class DisplayPlan:
     input: InputPlan | None
     problems: tuple[Finding, ...]
 
-    def parts(self) -> tuple[DialPart | HandPart | KnobPart | CrankPart, ...]:
-        """The parts to make: dials, then hands, then the knob or crank."""
-        out: list[DialPart | HandPart | KnobPart | CrankPart] = [
+    def parts(
+        self,
+    ) -> tuple[DialPart | HandPart | KnobPart | CrankPart | ScrewPart, ...]:
+        """The parts: dials, hands, the knob or crank, then the dials' screws."""
+        out: list[DialPart | HandPart | KnobPart | CrankPart | ScrewPart] = [
             d.part for d in self.dials
         ]
         out.extend(h.part for h in self.hands)
         if self.input is not None:
             out.append(self.input.part)
+        out.extend(s for d in self.dials for s in d.screws)
         return tuple(out)
+
+    @property
+    def plate_holes(self) -> tuple[FrameHole, ...]:
+        """The holes the display needs in the front plate: its dials' foot screws."""
+        return tuple(h for d in self.dials for h in d.plate_holes)
 
 
 def ring_width(radius: float) -> float:
@@ -417,16 +438,17 @@ class _Planner:
                 continue
             holes.append((round(dx, 6), round(dy, 6), d))
         holes.sort(key=lambda h: (round(math.hypot(h[0], h[1]), 6), h[0], h[1]))
-        gap = design.display.dial_gap
-        feet = self._feet(pos, radius, holes) if gap > 0 else ()
+        gap = dial_gap(design)
+        feet = self._feet(pos, radius, holes)
         circles, strokes, texts = _engraving(rings)
+        screws, plate_holes = self._foot_screws(name, pos, feet, gap)
         part = DialPart(
             name=name,
             radius=radius,
             thickness=dial_thickness(design),
             foot_length=gap,
-            foot_diameter=FOOT_DIAMETER if gap > 0 else 0.0,
-            foot_hole=FOOT_HOLE if gap > 0 else 0.0,
+            foot_diameter=FOOT_DIAMETER,
+            foot_hole=FOOT_HOLE,
             feet=feet,
             holes=tuple(holes),
             circles=circles,
@@ -434,7 +456,52 @@ class _Planner:
             texts=texts,
             placement=Placement(pos[0], pos[1], self.levels.front_face, 0.0),
         )
-        return DialPlan(part, root, z0, z1, tuple(rings))
+        return DialPlan(part, root, z0, z1, tuple(rings), screws, plate_holes)
+
+    def _foot_screws(
+        self,
+        name: str,
+        pos: tuple[float, float],
+        feet: tuple[tuple[float, float], ...],
+        gap: float,
+    ) -> tuple[tuple[ScrewPart, ...], tuple[FrameHole, ...]]:
+        """A screw through the front plate into each foot, and the plate's holes.
+
+        The longest ISO 4762 length that ends inside the foot's blind hole.
+        """
+        design = self.design
+        assert design.frame is not None
+        sc = screw(FOOT_SCREW)
+        t, inner = design.frame.thickness, design.frame.plates[1]
+        fits = [n for n in SCREW_LENGTHS if n <= t + gap + 1e-9]
+        if not fits or fits[-1] - t < sc.diameter / 2:
+            self.problems.append(
+                Finding(
+                    "error",
+                    "display.no_room",
+                    f"dial {name}",
+                    f"the feet of dial {name} ({gap:g} mm) hold too little of a"
+                    f" {FOOT_SCREW} screw through the {t:g} mm plate",
+                    advice="a larger [display] dial_gap",
+                )
+            )
+            return (), ()
+        length = fits[-1]
+        screws, holes = [], []
+        for k, (fx, fy) in enumerate(feet, start=1):
+            x, y = round(pos[0] + fx, 6), round(pos[1] + fy, 6)
+            screws.append(
+                ScrewPart(
+                    f"{name}_screw_{k}", FOOT_SCREW, length, sc.head_diameter,
+                    sc.head_height, sc.core, False,
+                    Placement(x, y, round(inner - sc.head_height, 6)),
+                )
+            )  # fmt: skip
+            d = sc.clearance_hole
+            holes.append(
+                FrameHole("front", x, y, d, d, "mounting", name, "ISO 273 medium", d, d)
+            )
+        return tuple(screws), tuple(holes)
 
     def _feet(
         self,
@@ -442,31 +509,62 @@ class _Planner:
         radius: float,
         holes: list[tuple[float, float, float]],
     ) -> tuple[tuple[float, float], ...]:
-        """Three feet near the rim, clear of every arbor that meets the front plate."""
+        """Three feet near the rim, on the front plate and clear of the frame.
+
+        Each foot's screw comes from behind through the front plate: the foot keeps the
+        frame's spacing from every hole of that plate and its edge, stays off the heads
+        of the frame's screws on the plate's face, and its own screw's head (on the
+        plate's inner face) keeps the frame's clearance from the train and the cocks.
+        """
+        from ..frame.keepout import disc_gap, zones_between
+        from ..frame.limits import min_centre_distance, min_edge_distance
+        from ..frame.outline import outline_distance
+        from ..frame.plan import plan_frame
+        from ..layout.collisions import inside_polygon
+
         design = self.design
-        keep: list[tuple[float, float, float]] = []  # (x, y, radius) in the dial frame
-        for root in _groups(design):
-            q = self.layout.position(root)
-            if q is None:
-                continue
-            r = max(self.layout.outside(m) for m in _groups(design)[root]) / 2
-            keep.append((q[0] - pos[0], q[1] - pos[1], r + 1.0 + FOOT_DIAMETER / 2))
-        keep.extend((x, y, d / 2 + 1.0 + FOOT_DIAMETER / 2) for x, y, d in holes)
-        for share in (0.8, 0.7, 0.6, 0.9, 0.5):
+        assert design.frame is not None and self.levels is not None
+        frame = plan_frame(design)
+        limits = frame.limits
+        face = self.levels.front_face
+        inner = design.frame.plates[1]
+        loop = frame.outline_loop()
+        head = screw(FOOT_SCREW)
+        avoid: list[tuple[float, float, float]] = []  # (x, y, least centre distance)
+        for h in frame.plate("front").holes:
+            avoid.append(
+                (h.x, h.y, min_centre_distance(FOOT_SCREW_HOLE, h.diameter, limits))
+            )
+        for sp in frame.screws:
+            if sp.head_up and abs(sp.face - face) < 1e-6:
+                r = screw(sp.size).head_diameter / 2
+                avoid.append((sp.x, sp.y, r + FOOT_DIAMETER / 2 + limits.clearance))
+        for x, y, d in holes:  # what passes through the dial (in its frame)
+            avoid.append((pos[0] + x, pos[1] + y, d / 2 + FOOT_DIAMETER / 2 + 1.0))
+        cock_zones = [z for c in frame.cocks for z in c.zones]
+        zones = zones_between(
+            list(frame.zones) + cock_zones, inner - head.head_height, inner, 0.0
+        )
+        edge = min_edge_distance(FOOT_SCREW_HOLE, limits)
+        for share in (0.8, 0.7, 0.6, 0.9, 0.5, 0.4):
             rf = min(share * radius, radius - FOOT_DIAMETER)
             best: tuple[float, float] | None = None
             for step in range(120):
                 a0 = 90.0 + 3.0 * step
-                pts = [
-                    (rf * math.cos(math.radians(a0 + k * 120)),
-                     rf * math.sin(math.radians(a0 + k * 120)))
-                    for k in range(3)
-                ]  # fmt: skip
-                margin = min(
-                    math.hypot(px - x, py - y) - r for px, py in pts for x, y, r in keep
-                ) if keep else math.inf  # fmt: skip
-                if margin >= 0 and (best is None or margin > best[1] + 1e-9):
-                    best = (a0, margin)
+                angles = np.radians(a0 + np.array([0.0, 120.0, 240.0]))
+                px = pos[0] + rf * np.cos(angles)
+                py = pos[1] + rf * np.sin(angles)
+                pts = np.column_stack((px, py))
+                if not bool(np.all(inside_polygon(pts, loop))):
+                    continue
+                slack = float(np.min(outline_distance(pts, loop))) - edge
+                for x, y, need in avoid:
+                    slack = min(slack, float(np.min(np.hypot(px - x, py - y))) - need)
+                for z in zones:
+                    gap = disc_gap(px, py, head.head_diameter / 2, z)
+                    slack = min(slack, float(np.min(gap)) - limits.clearance)
+                if slack >= 0 and (best is None or slack > best[1] + 1e-9):
+                    best = (a0, slack)
             if best is not None:
                 a0 = best[0]
                 return tuple(
@@ -478,13 +576,21 @@ class _Planner:
             Finding(
                 "error",
                 "display.no_room",
-                "dial feet",
-                "no place for three dial feet clear of the arbors in the front plate",
-                advice="set [display] dial_gap = 0 to fix the dial flat on the plate,"
-                " or change the dial's radius",
+                f"dial {dial_part_name(axis_root(design, self._axis_of(pos)))}",
+                "no place for the dial's three feet on the front plate, clear of its"
+                " holes, the heads of the frame's screws and, behind the plate, the"
+                " train",
+                advice="a larger or smaller 'radius' on the [[dial]] of its outermost"
+                " ring, or move the pillars ([[pillar]])",
             )
         )
         return ()
+
+    def _axis_of(self, pos: tuple[float, float]) -> str:
+        for root, p in self.layout.placing.positions.items():
+            if math.dist(p, pos) < 1e-9:
+                return root
+        return self.design.drive.arbor
 
     # -- hands ----------------------------------------------------------------------
     def _hand(

@@ -31,11 +31,15 @@ __all__ = ["frame_parts", "plan_parts"]
 
 
 def _plates(plan: FramePlan) -> list[Part]:
+    # the display (built on this frame) adds its dials' foot screws to the front plate
+    from ..display.plan import display_plan
+
+    extra = display_plan(plan.design).plate_holes
     out: list[Part] = []
     for p in plan.plates:
         holes = tuple(
             FlatHole(round(h.x, 6), round(h.y, 6), round(h.diameter, 6), h.role, h.what)
-            for h in p.holes
+            for h in p.holes + tuple(h for h in extra if h.plate == p.side)
         )
         out.append(
             PlatePart(
@@ -145,6 +149,13 @@ def plan_parts(design: Design) -> tuple[Part, ...]:
         if isinstance(p, ArborPart) and p.name in reach:
             z0, z1 = reach[p.name]
             pl = p.placement
-            p = replace(p, length=round(z1 - z0, 6), placement=replace(pl, z=z0))
+            # its seats (for a hand, knob or crank) stay where they are
+            seats = tuple(
+                (round(a + pl.z - z0, 6), round(b + pl.z - z0, 6), shape)
+                for a, b, shape in p.seats
+            )
+            p = replace(
+                p, length=round(z1 - z0, 6), placement=replace(pl, z=z0), seats=seats
+            )
         out.append(p)
     return tuple(out) + frame_parts(design)

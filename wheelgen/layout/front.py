@@ -3,8 +3,9 @@
 Everything shown stands in front of the front plate (a knob or crank may stand behind the
 back plate instead). Heights, in mm, from the front plate's outer face ``F``:
 
-- every dial's back lies ``[display] dial_gap`` in front of ``F``, on feet; all dials share
-  that level, so a hand or knob of one axis clears the dial of another;
+- every dial's back lies :func:`dial_gap` in front of ``F``, on feet; all dials share
+  that level, so a hand or knob of one axis clears the dial of another, and a knob or
+  crank stands no nearer the plate than the dials (clear of the screw heads on it);
 - on each axis the hands follow in telescoping order: the hand on the outermost tube
   first, ``hand_gap`` in front of the dial, then the next member inside it, each
   ``hand_gap`` in front of the end of the member around it. A member ends
@@ -25,6 +26,7 @@ from dataclasses import dataclass
 from typing import Literal
 
 from ..design.model import Design, Hand
+from ..design.screws import screw
 from ..kinematics.rates import axis_root
 
 __all__ = [
@@ -35,6 +37,8 @@ __all__ = [
     "CRANK_HANDLE_LENGTH",
     "Level",
     "DisplayLevels",
+    "DIAL_GAP_MIN",
+    "dial_gap",
     "dial_thickness",
     "hand_thickness",
     "input_side",
@@ -55,6 +59,12 @@ KNOB_LENGTH = 8.0
 #: (common practice, no source).
 CRANK_ARM_THICKNESS = 2.5
 CRANK_HANDLE_LENGTH = 12.0
+
+#: mm, the least gap between the front plate and the dials (room for the feet and a
+#: finger; common practice, no source).
+DIAL_GAP_MIN = 2.0
+#: mm a dial keeps above the heads of the frame's screws on the front plate.
+_HEAD_CLEARANCE = 0.5
 
 Role = Literal["hand", "knob", "crank"]
 
@@ -97,6 +107,16 @@ class DisplayLevels:
     def of(self, member: str) -> tuple[Level, ...]:
         """The items on ``member``."""
         return tuple(i for i in self.items if i.member == member)
+
+
+def dial_gap(design: Design) -> float:
+    """From the front plate's outer face to the dials' back (mm): the design's, else
+    :data:`DIAL_GAP_MIN`, or more to clear the heads of the frame's screws (ISO 4762
+    head height of ``[frame] screw``) by 0.5 mm."""
+    if design.display.dial_gap is not None:
+        return design.display.dial_gap
+    head = screw(design.frame.screw).head_height if design.frame is not None else 0.0
+    return max(DIAL_GAP_MIN, head + _HEAD_CLEARANCE)
 
 
 def dial_thickness(design: Design) -> float:
@@ -197,10 +217,10 @@ def display_levels(design: Design) -> DisplayLevels:
     role: Role = "crank" if kind == "crank" else "knob"
     if side == "front":
         wanted.setdefault(axis_root(design, drive), []).append((drive, role, None))
-    # with no dial anywhere, a knob or crank needs only clear the plate
-    base = front_face
+    # a knob or crank alone stands at the dials' level: clear of the screw heads
+    base = front_face + dial_gap(design)
     if any(r == "hand" for g in wanted.values() for _, r, _ in g):
-        base += design.display.dial_gap + dial_thickness(design)
+        base += dial_thickness(design)
     items: list[Level] = []
     dials: dict[str, tuple[float, float]] = {}
     crossed: list[tuple[str, str]] = []

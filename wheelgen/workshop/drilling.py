@@ -72,8 +72,12 @@ def chart_holes(design: Design, plate: str) -> list[ChartHole]:
         raise ValueError(f"'plate' must be one of 'back', 'front', got {plate!r}")
     if design.frame is None:
         return []
+    from ..display.plan import display_plan
+
     dx, dy = _datum(design)
-    holes: Sequence[FrameHole] = plan_frame(design).plate(plate).holes
+    holes: Sequence[FrameHole] = plan_frame(design).plate(plate).holes + tuple(
+        h for h in display_plan(design).plate_holes if h.plate == plate
+    )
     rows = sorted(
         holes,
         key=lambda h: (round(math.hypot(h.x - dx, h.y - dy), 6), h.what, h.x, h.y),
