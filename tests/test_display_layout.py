@@ -12,8 +12,8 @@ from wheelgen.design import load_design, loads_design
 from wheelgen.display.checks import hand_min_distance
 from wheelgen.display.plan import display_plan
 from wheelgen.layout import plan_layout, plan_parts
-from wheelgen.workshop.drilling import chart_holes
 from wheelgen.layout.front import SEAT_PROUD
+from wheelgen.workshop.drilling import chart_holes
 
 ROOT = Path(__file__).resolve().parents[1]
 DEMO = ROOT / "designs" / "harbour_tide_clock.toml"

@@ -527,6 +527,7 @@ class _Planner:
         frame = plan_frame(design)
         limits = frame.limits
         face = self.levels.front_face
+        assert face is not None
         inner = design.frame.plates[1]
         loop = frame.outline_loop()
         head = screw(FOOT_SCREW)
