@@ -292,7 +292,7 @@ def _without_dials(text: str) -> str:
     return head
 
 
-def test_dial_feet_are_screwed_through_the_front_plate_clear_of_its_holes():
+def test_dial_feet_are_pinned_through_the_front_plate_clear_of_its_holes():
     from wheelgen.frame import plan_frame
     from wheelgen.frame.limits import min_centre_distance
 
@@ -303,18 +303,19 @@ def test_dial_feet_are_screwed_through_the_front_plate_clear_of_its_holes():
     for dial in plan.dials:
         part = dial.part
         mine = [h for h in chart if h.member == part.name]
-        assert len(mine) == len(part.feet) == len(dial.screws) == 3
+        assert len(mine) == len(part.feet) == 3
         # derived: the chart counts from the drive's axis, at the centre here
         feet = {(round(part.placement.x + x, 4), round(part.placement.y + y, 4))
                 for x, y in part.feet}  # fmt: skip
         assert {(round(h.x, 4), round(h.y, 4)) for h in mine} == feet
-        assert all(h.nominal == 2.4 and h.role == "mounting" for h in mine)  # M2
+        # each foot's 2 mm pin is held in an H7 hole of its own size: 2.000 to 2.010
+        # (ISO 286-1:2010, Table 1, IT7 up to 3 mm = 10 um; EI = 0 for H)
+        assert all(h.nominal == 2.0 and h.role == "held" for h in mine)
+        assert all((h.low, h.high) == (2.0, 2.01) for h in mine)
         for x, y in feet:
             for h in frame.plate("front").holes:
-                need = min_centre_distance(2.4, h.diameter, frame.limits)
+                need = min_centre_distance(2.0, h.diameter, frame.limits)
                 assert np.hypot(x - h.x, y - h.y) >= need - 1e-9
-    # the screw: M2 x 5 through the 2 mm plate, 3 mm into the 3.5 mm foot (derived)
-    assert {(s.size, s.length) for d in plan.dials for s in d.screws} == {("M2", 5.0)}
 
 
 def test_an_arbor_lengthened_to_its_cock_keeps_its_hand_seat():

@@ -67,14 +67,8 @@ def _without_wheels(design):
 
 
 def _display_names(parts) -> set[str]:
-    """The display's parts, with the screws that fix the dials' feet."""
-    dials = {p.name for p in parts if p.kind == "dial"}
-    return {
-        p.name
-        for p in parts
-        if p.kind in DISPLAY_KINDS
-        or (p.kind == "screw" and p.name.rsplit("_screw_", 1)[0] in dials)
-    }
+    """The display's parts."""
+    return {p.name for p in parts if p.kind in DISPLAY_KINDS}
 
 
 @pytest.fixture(scope="module")
@@ -138,10 +132,12 @@ def test_week_assembly_shows_the_display_in_front_and_shares_no_volume(week):
     solids = {s.name: s for s in placed_solids(out / "step" / "assembly.step")}
     for name in ("hand_week", "hand_month", "crank_crank"):
         assert solids[name].box[2] > face - 1e-6, name  # zmin in front of the plate
-    dials = [n for n in solids if n.startswith("dial_") and "_screw_" not in n]
+    dials = [n for n in solids if n.startswith("dial_")]
     assert len(dials) == 2
     for n in dials:
-        assert solids[n].box[2] == pytest.approx(face, abs=1e-6)  # feet on the plate
+        # the feet's pins pass through the front plate, to its inner face
+        t = design.frame.thickness
+        assert solids[n].box[2] == pytest.approx(face - t, abs=1e-6)
     display = _display_names(plan_parts(design))
     assert _shared_with_display(out / "step" / "assembly.step", display) == []
 
@@ -157,11 +153,10 @@ def test_demo_assembly_display_shares_no_volume(tmp_path):
     top = max(w.height + w.face_width for w in design.wheels)
     assert wheels and top < plan_layout(design).stacking.levels.front_face
     display = _display_names(parts)
-    assert {n for n in display if "_screw_" not in n} == {
+    assert display == {
         "dial_main", "dial_moon_dial", "hand_hours", "hand_tide", "hand_moon_dial",
         "knob_main",
     }  # fmt: skip
-    assert len(display) == 6 + 2 * 3  # three feet, three screws a dial
     assert _shared_with_display(out / "step" / "assembly.step", display) == []
     solids = {s.name: s for s in placed_solids(out / "step" / "assembly.step")}
     face = plan_layout(design).stacking.levels.front_face

@@ -279,13 +279,10 @@ def test_bill_lists_frame_parts_and_counts_screws(example):
     (cock,) = [r for r in rows if r["kind"] == "cock"]
     assert "in line with the front plate's" in cock["note"]
     screws = [r for r in rows if r["kind"] == "screw"]
-    # four pillar screws (M3 x 5 in the spigots) and the cock's two (M3 x 8); the
-    # dial of the output's hand stands on three feet, each fixed by an M2 x 5 from
-    # behind the front plate
+    # four pillar screws (M3 x 5 in the spigots) and the cock's two (M3 x 8)
     assert {(r["part"], r["quantity"]) for r in screws} == {
         ("M3 x 5 screw", "4"),
         ("M3 x 8 screw", "2"),
-        ("M2 x 5 screw", "3"),
     }
 
 

@@ -28,7 +28,7 @@ import numpy as np
 from ..checks.findings import Finding
 from ..design.display_tables import dial_part_name, hand_part_name, input_part_name
 from ..design.model import Design, Dial, Hand
-from ..design.screws import SCREW_LENGTHS, screw
+from ..design.screws import screw
 from ..frame.holes import FrameHole
 from ..kinematics.rates import axis_root, solve_rates
 from ..kinematics.targets import arbor_period, arbor_sense
@@ -40,7 +40,6 @@ from ..layout.part_plan import (
     ItemSeat,
     KnobPart,
     Placement,
-    ScrewPart,
 )
 from ..layout.plan import Layout, plan_layout
 from ..layout.sleeves import seat_factor
@@ -53,10 +52,8 @@ __all__ = [
     "KNOB_DIAMETER",
     "CRANK_THROW",
     "CRANK_HANDLE_DIAMETER",
-    "FOOT_SCREW",
     "FOOT_DIAMETER",
-    "FOOT_HOLE",
-    "FOOT_SCREW_HOLE",
+    "FOOT_PIN",
     "RingPlan",
     "HandPlan",
     "DialPlan",
@@ -80,13 +77,11 @@ DIAL_HOLE_PLAY = 0.4
 KNOB_DIAMETER = 16.0
 CRANK_THROW = 25.0
 CRANK_HANDLE_DIAMETER = 6.0
-#: A dial foot's screw, from behind through the front plate into the foot; the foot's
-#: diameter (mm), its blind hole (the screw's tap drill) and the plate's hole for the
-#: screw (ISO 273 medium; see :mod:`wheelgen.design.screws`).
-FOOT_SCREW = "M2"
+#: mm: a dial foot's diameter, and the pin at its end that passes through the front
+#: plate (held in a hole of its own size, riveted over or glued behind the plate, so
+#: that nothing stands inside the frame; common practice, no source).
 FOOT_DIAMETER = 4.0
-FOOT_HOLE = screw(FOOT_SCREW).tap_drill
-FOOT_SCREW_HOLE = screw(FOOT_SCREW).clearance_hole
+FOOT_PIN = 2.0
 # gap to the next ring inwards, as a share of a ring's width
 _RING_GAP = 0.15
 # width of a character of the numbers, in text heights (sans-serif digits)
@@ -125,7 +120,7 @@ class HandPlan:
 class DialPlan:
     """A dial disc on one axis (``axis``: its innermost member) and its rings.
 
-    ``screws`` fix its feet from behind the front plate, through ``plate_holes``.
+    ``plate_holes`` are the front plate's holes for its feet's pins.
     """
 
     part: DialPart
@@ -133,7 +128,6 @@ class DialPlan:
     z0: float
     z1: float
     rings: tuple[RingPlan, ...]
-    screws: tuple[ScrewPart, ...] = ()
     plate_holes: tuple[FrameHole, ...] = ()
 
 
@@ -155,22 +149,19 @@ class DisplayPlan:
     input: InputPlan | None
     problems: tuple[Finding, ...]
 
-    def parts(
-        self,
-    ) -> tuple[DialPart | HandPart | KnobPart | CrankPart | ScrewPart, ...]:
-        """The parts: dials, hands, the knob or crank, then the dials' screws."""
-        out: list[DialPart | HandPart | KnobPart | CrankPart | ScrewPart] = [
+    def parts(self) -> tuple[DialPart | HandPart | KnobPart | CrankPart, ...]:
+        """The parts to make: dials, then hands, then the knob or crank."""
+        out: list[DialPart | HandPart | KnobPart | CrankPart] = [
             d.part for d in self.dials
         ]
         out.extend(h.part for h in self.hands)
         if self.input is not None:
             out.append(self.input.part)
-        out.extend(s for d in self.dials for s in d.screws)
         return tuple(out)
 
     @property
     def plate_holes(self) -> tuple[FrameHole, ...]:
-        """The holes the display needs in the front plate: its dials' foot screws."""
+        """The holes the display needs in the front plate: its dials' foot pins."""
         return tuple(h for d in self.dials for h in d.plate_holes)
 
 
@@ -441,14 +432,15 @@ class _Planner:
         gap = dial_gap(design)
         feet = self._feet(pos, radius, holes)
         circles, strokes, texts = _engraving(rings)
-        screws, plate_holes = self._foot_screws(name, pos, feet, gap)
+        plate_holes = self._foot_holes(name, pos, feet)
         part = DialPart(
             name=name,
             radius=radius,
             thickness=dial_thickness(design),
             foot_length=gap,
             foot_diameter=FOOT_DIAMETER,
-            foot_hole=FOOT_HOLE,
+            foot_pin=FOOT_PIN,
+            pin_length=design.frame.thickness if design.frame is not None else 0.0,
             feet=feet,
             holes=tuple(holes),
             circles=circles,
@@ -456,52 +448,20 @@ class _Planner:
             texts=texts,
             placement=Placement(pos[0], pos[1], self.levels.front_face, 0.0),
         )
-        return DialPlan(part, root, z0, z1, tuple(rings), screws, plate_holes)
+        return DialPlan(part, root, z0, z1, tuple(rings), plate_holes)
 
-    def _foot_screws(
-        self,
-        name: str,
-        pos: tuple[float, float],
-        feet: tuple[tuple[float, float], ...],
-        gap: float,
-    ) -> tuple[tuple[ScrewPart, ...], tuple[FrameHole, ...]]:
-        """A screw through the front plate into each foot, and the plate's holes.
+    def _foot_holes(
+        self, name: str, pos: tuple[float, float], feet: tuple[tuple[float, float], ...]
+    ) -> tuple[FrameHole, ...]:
+        """The front plate's hole for each foot's pin: held, of the pin's own size."""
+        from ..frame.holes import held_hole
 
-        The longest ISO 4762 length that ends inside the foot's blind hole.
-        """
-        design = self.design
-        assert design.frame is not None
-        sc = screw(FOOT_SCREW)
-        t, inner = design.frame.thickness, design.frame.plates[1]
-        fits = [n for n in SCREW_LENGTHS if n <= t + gap + 1e-9]
-        if not fits or fits[-1] - t < sc.diameter / 2:
-            self.problems.append(
-                Finding(
-                    "error",
-                    "display.no_room",
-                    f"dial {name}",
-                    f"the feet of dial {name} ({gap:g} mm) hold too little of a"
-                    f" {FOOT_SCREW} screw through the {t:g} mm plate",
-                    advice="a larger [display] dial_gap",
-                )
-            )
-            return (), ()
-        length = fits[-1]
-        screws, holes = [], []
-        for k, (fx, fy) in enumerate(feet, start=1):
-            x, y = round(pos[0] + fx, 6), round(pos[1] + fy, 6)
-            screws.append(
-                ScrewPart(
-                    f"{name}_screw_{k}", FOOT_SCREW, length, sc.head_diameter,
-                    sc.head_height, sc.core, False,
-                    Placement(x, y, round(inner - sc.head_height, 6)),
-                )
-            )  # fmt: skip
-            d = sc.clearance_hole
-            holes.append(
-                FrameHole("front", x, y, d, d, "mounting", name, "ISO 273 medium", d, d)
-            )
-        return tuple(screws), tuple(holes)
+        fit, low, high = held_hole(self.design, FOOT_PIN)
+        return tuple(
+            FrameHole("front", round(pos[0] + x, 6), round(pos[1] + y, 6), FOOT_PIN,
+                      FOOT_PIN, "held", name, fit, low, high)
+            for x, y in feet
+        )  # fmt: skip
 
     def _feet(
         self,
@@ -511,12 +471,10 @@ class _Planner:
     ) -> tuple[tuple[float, float], ...]:
         """Three feet near the rim, on the front plate and clear of the frame.
 
-        Each foot's screw comes from behind through the front plate: the foot keeps the
-        frame's spacing from every hole of that plate and its edge, stays off the heads
-        of the frame's screws on the plate's face, and its own screw's head (on the
-        plate's inner face) keeps the frame's clearance from the train and the cocks.
+        Each foot's pin passes through the front plate: its hole keeps the frame's
+        spacing from every other hole of that plate and from its edge, and the foot
+        stays off the heads of the frame's screws on the plate's face.
         """
-        from ..frame.keepout import disc_gap, zones_between
         from ..frame.limits import min_centre_distance, min_edge_distance
         from ..frame.outline import outline_distance
         from ..frame.plan import plan_frame
@@ -528,25 +486,17 @@ class _Planner:
         limits = frame.limits
         face = self.levels.front_face
         assert face is not None
-        inner = design.frame.plates[1]
         loop = frame.outline_loop()
-        head = screw(FOOT_SCREW)
         avoid: list[tuple[float, float, float]] = []  # (x, y, least centre distance)
         for h in frame.plate("front").holes:
-            avoid.append(
-                (h.x, h.y, min_centre_distance(FOOT_SCREW_HOLE, h.diameter, limits))
-            )
+            avoid.append((h.x, h.y, min_centre_distance(FOOT_PIN, h.diameter, limits)))
         for sp in frame.screws:
             if sp.head_up and abs(sp.face - face) < 1e-6:
                 r = screw(sp.size).head_diameter / 2
                 avoid.append((sp.x, sp.y, r + FOOT_DIAMETER / 2 + limits.clearance))
         for x, y, d in holes:  # what passes through the dial (in its frame)
             avoid.append((pos[0] + x, pos[1] + y, d / 2 + FOOT_DIAMETER / 2 + 1.0))
-        cock_zones = [z for c in frame.cocks for z in c.zones]
-        zones = zones_between(
-            list(frame.zones) + cock_zones, inner - head.head_height, inner, 0.0
-        )
-        edge = min_edge_distance(FOOT_SCREW_HOLE, limits)
+        edge = min_edge_distance(FOOT_PIN, limits)
         for share in (0.8, 0.7, 0.6, 0.9, 0.5, 0.4):
             rf = min(share * radius, radius - FOOT_DIAMETER)
             best: tuple[float, float] | None = None
@@ -561,9 +511,6 @@ class _Planner:
                 slack = float(np.min(outline_distance(pts, loop))) - edge
                 for x, y, need in avoid:
                     slack = min(slack, float(np.min(np.hypot(px - x, py - y))) - need)
-                for z in zones:
-                    gap = disc_gap(px, py, head.head_diameter / 2, z)
-                    slack = min(slack, float(np.min(gap)) - limits.clearance)
                 if slack >= 0 and (best is None or slack > best[1] + 1e-9):
                     best = (a0, slack)
             if best is not None:
@@ -579,8 +526,7 @@ class _Planner:
                 "display.no_room",
                 f"dial {dial_part_name(axis_root(design, self._axis_of(pos)))}",
                 "no place for the dial's three feet on the front plate, clear of its"
-                " holes, the heads of the frame's screws and, behind the plate, the"
-                " train",
+                " holes and edge and of the heads of the frame's screws",
                 advice="a larger or smaller 'radius' on the [[dial]] of its outermost"
                 " ring, or move the pillars ([[pillar]])",
             )

@@ -31,7 +31,7 @@ __all__ = ["frame_parts", "plan_parts"]
 
 
 def _plates(plan: FramePlan) -> list[Part]:
-    # the display (built on this frame) adds its dials' foot screws to the front plate
+    # the display (built on this frame) adds its dials' foot pins to the front plate
     from ..display.plan import display_plan
 
     extra = display_plan(plan.design).plate_holes

@@ -316,8 +316,9 @@ class DialPart:
 
     The frame's z = 0 is the face the feet stand on (the front plate's outer face); the
     disc is ``thickness`` thick from ``foot_length`` up. ``holes`` (x, y, diameter) go
-    through the disc; ``feet`` (x, y) are round feet ``foot_diameter`` across with a
-    blind hole ``foot_hole`` across for the screw from behind the plate. The engraving
+    through the disc; ``feet`` (x, y) are round feet ``foot_diameter`` across, each
+    ending in a pin ``foot_pin`` across and ``pin_length`` long below z = 0, through the
+    plate (riveted or glued behind it). The engraving
     is on the disc's front: ``circles`` (radius, line width), ``strokes`` (angle,
     radius from, radius to, line width) and ``texts`` (x, y, height, turn of the text in
     degrees counter-clockwise, text), each in the dial's frame.
@@ -328,7 +329,8 @@ class DialPart:
     thickness: float
     foot_length: float
     foot_diameter: float
-    foot_hole: float
+    foot_pin: float
+    pin_length: float
     feet: tuple[tuple[float, float], ...]
     holes: tuple[tuple[float, float, float], ...]
     circles: tuple[tuple[float, float], ...] = ()

@@ -43,18 +43,19 @@ def make_hand(part: HandPart) -> cq.Solid:
 
 
 def make_dial(part: DialPart) -> cq.Solid:
-    """A dial disc on its feet; the feet stand on z = 0, the disc above them."""
+    """A dial disc on its feet; the feet stand on z = 0, the disc above them, and
+    each foot's pin reaches down through the plate below z = 0."""
     profile = flat_profile(part)
     solid = profile_prism(profile, part.thickness, part.foot_length, part.name)
     for k, (x, y) in enumerate(part.feet):
-        outer = cq.Wire.makeCircle(
-            part.foot_diameter / 2, cq.Vector(x, y, 0), cq.Vector(0, 0, 1)
+        foot = cq.Solid.makeCylinder(
+            part.foot_diameter / 2, part.foot_length, cq.Vector(x, y, 0)
         )
-        # the screw's blind hole: a hole of the foot only, the disc stays whole
-        hole = cq.Wire.makeCircle(
-            part.foot_hole / 2, cq.Vector(x, y, 0), cq.Vector(0, 0, -1)
-        )
-        foot = prism(holed_face(outer, [hole], 0.0), part.foot_length)
+        if part.pin_length > 0:
+            pin = cq.Solid.makeCylinder(
+                part.foot_pin / 2, part.pin_length, cq.Vector(x, y, -part.pin_length)
+            )
+            foot = _boolean("fuse", foot, pin, f"{part.name} foot pin {k + 1}")
         solid = _boolean("fuse", solid, foot, f"{part.name} foot {k + 1}")
     return solid
 

@@ -398,13 +398,16 @@ def _display_row(part: HandPart | DialPart | CrankPart | KnobPart) -> BillRow:
         diameter = 2 * part.radius
         length = part.foot_length + part.thickness
         feet = len(part.feet)
-        volume += (
-            feet * area_ring(part.foot_diameter, part.foot_hole) * part.foot_length
+        volume += feet * (
+            math.pi / 4 * part.foot_diameter**2 * part.foot_length
+            + math.pi / 4 * part.foot_pin**2 * part.pin_length
         )
         if feet:
             notes.append(
-                f"{feet} feet {part.foot_diameter:g} x {part.foot_length:g} mm;"
-                " face printed 1:1 (svg) or engraved (dxf layer ENGRAVE)"
+                f"{feet} feet {part.foot_diameter:g} x {part.foot_length:g} mm, each"
+                f" with a {part.foot_pin:g} mm pin through the front plate (rivet or"
+                " glue it behind); face printed 1:1 (svg) or engraved (dxf layer"
+                " ENGRAVE)"
             )
     else:
         diameter = 2 * (part.throw + part.arm / 2)
