@@ -147,7 +147,7 @@ def test_built_dial_face_numbers_at_the_periods_angles(tmp_path):
         assert _diff(_ccw_deg(x, y), want) < 0.01, day
 
     # the exported face (1:1 SVG) and the DXF's engraving layer say the same
-    from wheelgen.export.dxf import write_dxf
+    from wheelgen.export.dxf import write_flat_dxf
     from wheelgen.export.face_svg import write_face_svg
 
     profile = dial_profile(part)
@@ -160,7 +160,7 @@ def test_built_dial_face_numbers_at_the_periods_angles(tmp_path):
         x, y = float(texts[day].get("x")), -float(texts[day].get("y"))
         want = (90.0 + 360.0 * int(day) / SYNODIC_DAYS) % 360.0
         assert _diff(_ccw_deg(x, y), want) < 0.01, day
-    dxf = write_dxf(profile, tmp_path / "dial.dxf", part.name,
+    dxf = write_flat_dxf(profile, tmp_path / "dial.dxf", part.name,
                     (part.circles, part.strokes, part.texts))  # fmt: skip
     doc = ezdxf.readfile(dxf)
     engraved = [e for e in doc.modelspace() if e.dxf.layer == "ENGRAVE"]
