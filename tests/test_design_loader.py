@@ -258,12 +258,12 @@ CASES = [
     (
         "zero module",
         lambda t: t.replace("teeth = 40", "teeth = 40\nmodule = 0"),
-        ['wheel "w1"', "key 'module'", "module = 0", "> 0"],
+        ['wheel "w1"', "key 'module'", "module = 0", "from 0.05 to 50 mm"],
     ),
     (
         "negative face width",
         lambda t: t.replace("teeth = 40", "teeth = 40\nface_width = -1.5"),
-        ['wheel "w1"', "key 'face_width'", "-1.5", "> 0"],
+        ['wheel "w1"', "key 'face_width'", "-1.5", "from 0.01 to 2000 mm"],
     ),
     (
         "pressure angle too large",

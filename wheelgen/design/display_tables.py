@@ -15,7 +15,7 @@ from __future__ import annotations
 import difflib
 from typing import Any
 
-from .loader import _axis, _choice, _Loader, _non_negative, _ordinal, _positive
+from .loader import _axis, _bounded, _choice, _Loader, _ordinal
 from .model import Design, Dial, Display, DriveInput, Hand, Where
 
 __all__ = [
@@ -89,17 +89,24 @@ def _hands(ld: _Loader, doc: dict[str, Any]) -> tuple[Hand, ...]:
         ctx = ("hand", i, item)
         ld.unknown_keys(t, _HAND_KEYS, ctx, required=("arbor",))
         arbor = ld.value(t, "arbor", "string", ctx, required=True)
-        length = ld.value(t, "length", "number", ctx, check=_positive)
-        tail = ld.value(t, "tail", "number", ctx, check=_non_negative)
+        length = ld.value(t, "length", "number", ctx, check=_bounded("size"))
+        tail = ld.value(t, "tail", "number", ctx, check=_bounded("size_or_zero"))
         weight = ld.value(
-            t, "counterweight", "number", ctx, default=0.0, check=_non_negative
+            t,
+            "counterweight",
+            "number",
+            ctx,
+            default=0.0,
+            check=_bounded("size_or_zero"),
         )
-        width = ld.value(t, "width", "number", ctx, check=_positive)
-        thickness = ld.value(t, "thickness", "number", ctx, check=_positive)
+        width = ld.value(t, "width", "number", ctx, check=_bounded("size"))
+        thickness = ld.value(t, "thickness", "number", ctx, check=_bounded("size"))
         seat = ld.value(
             t, "seat", "string", ctx, check=_choice("square", "flat", "collet")
         )
-        rest = ld.value(t, "rest", "number", ctx, default=0.0)
+        rest = ld.value(
+            t, "rest", "number", ctx, default=0.0, check=_bounded("bearing")
+        )
         if arbor is None:
             continue
         out.append(
@@ -128,10 +135,12 @@ def _dials(ld: _Loader, doc: dict[str, Any]) -> tuple[Dial, ...]:
         ctx = ("dial", i, item)
         ld.unknown_keys(t, _DIAL_KEYS, ctx, required=("arbor",))
         arbor = ld.value(t, "arbor", "string", ctx, required=True)
-        radius = ld.value(t, "radius", "number", ctx, check=_positive)
+        radius = ld.value(t, "radius", "number", ctx, check=_bounded("size"))
         kind = ld.value(t, "graduations", "string", ctx, check=_choice(*GRADUATIONS))
         labels = _labels(ld, t, ctx)
-        zero = ld.value(t, "zero", "number", ctx, default=90.0)
+        zero = ld.value(
+            t, "zero", "number", ctx, default=90.0, check=_bounded("bearing")
+        )
         if labels and kind not in (None, "labels"):
             ld.problem(
                 ld.where("dial", i, item, "labels"),
@@ -204,12 +213,12 @@ def _display(ld: _Loader, doc: dict[str, Any]) -> Display:
         default=base.readings,
         check=_choice("targets", "none"),
     )
-    dial_gap = ld.value(t, "dial_gap", "number", ctx, check=_positive)
+    dial_gap = ld.value(t, "dial_gap", "number", ctx, check=_bounded("size"))
     hand_gap = ld.value(
-        t, "hand_gap", "number", ctx, default=base.hand_gap, check=_positive
+        t, "hand_gap", "number", ctx, default=base.hand_gap, check=_bounded("size")
     )
-    dial_t = ld.value(t, "dial_thickness", "number", ctx, check=_positive)
-    hand_t = ld.value(t, "hand_thickness", "number", ctx, check=_positive)
+    dial_t = ld.value(t, "dial_thickness", "number", ctx, check=_bounded("size"))
+    hand_t = ld.value(t, "hand_thickness", "number", ctx, check=_bounded("size"))
     return Display(readings, dial_gap, hand_gap, dial_t, hand_t)
 
 
@@ -223,8 +232,8 @@ def _input(ld: _Loader, doc: dict[str, Any]) -> DriveInput:
         t, "kind", "string", ctx, default="knob", check=_choice("knob", "crank", "none")
     )
     side = ld.value(t, "side", "string", ctx, check=_choice("front", "back"))
-    diameter = ld.value(t, "diameter", "number", ctx, check=_positive)
-    throw = ld.value(t, "throw", "number", ctx, check=_positive)
+    diameter = ld.value(t, "diameter", "number", ctx, check=_bounded("size"))
+    throw = ld.value(t, "throw", "number", ctx, check=_bounded("size"))
     if throw is not None and kind != "crank":
         ld.problem(
             ld.where("input", 0, "[input]", "throw"),

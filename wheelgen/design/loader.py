@@ -9,13 +9,17 @@ from __future__ import annotations
 
 import difflib
 import hashlib
+import json
 import math
+import os
 import re
+import stat
 import tomllib
 from fractions import Fraction
 from pathlib import Path
 from typing import Any, Callable
 
+from .bounds import BOUNDS, Bound
 from .errors import DesignError, Problem
 from .model import (
     Arbor,
@@ -32,18 +36,41 @@ from .model import (
     Where,
     axis_root_of,
 )
+from .names import (
+    NAME_ALLOWED,
+    RESERVED_NAMES,
+    control_characters,
+    design_name,
+    name_key,
+    name_problem,
+)
 from .periods import UNIT_SECONDS, PeriodError, parse_period
 from .process_limits import default_backlash
 from .screws import SCREWS
 
-__all__ = ["load_design", "loads_design", "MIN_TEETH", "MAX_TEETH", "SAFE_NAME"]
+__all__ = [
+    "load_design",
+    "loads_design",
+    "MIN_TEETH",
+    "MAX_TEETH",
+    "RESERVED_NAMES",
+    "TABLE_BOUNDS",
+]
 
-MIN_TEETH = 3
-MAX_TEETH = 2000
-#: Names become file names of exported parts: letters, digits, '-' and '_' only.
-SAFE_NAME = re.compile(r"^[A-Za-z0-9_-]{1,64}$")
-#: Names the build uses for files of its own.
-RESERVED_NAMES = frozenset({"assembly", "manifest", "report", "parts", "cutting"})
+MIN_TEETH = int(BOUNDS["teeth"].low)
+MAX_TEETH = int(BOUNDS["teeth"].high)
+#: How many tables of each kind a file may hold: the bound that limits each count.
+TABLE_BOUNDS = {
+    "arbor": BOUNDS["arbors"],
+    "wheel": BOUNDS["wheels"],
+    "mesh": BOUNDS["meshes"],
+    "pinslot": BOUNDS["pinslots"],
+    "target": BOUNDS["targets"],
+    "stock": BOUNDS["stock"],
+    "pillar": BOUNDS["pillar_tables"],
+    "hand": BOUNDS["hands"],
+    "dial": BOUNDS["dials"],
+}
 
 TOP_KEYS = (
     "design",
@@ -69,19 +96,54 @@ TOP_KEYS = (
 _Check = Callable[[Any], str | None]
 
 
-def _positive(v: Any) -> str | None:
-    return None if v > 0 else "a number > 0"
+class _Bounded:
+    """A key's check from :data:`~wheelgen.design.bounds.BOUNDS`; keeps the bound for
+    its reason."""
+
+    def __init__(self, name: str) -> None:
+        self.bound: Bound = BOUNDS[name]
+
+    def __call__(self, v: Any) -> str | None:
+        return self.bound.problem(v)
 
 
-def _non_negative(v: Any) -> str | None:
-    return None if v >= 0 else "a number >= 0"
+def _bounded(name: str) -> _Check:
+    return _Bounded(name)
 
 
-def _between(lo: float, hi: float, unit: str = "") -> _Check:
-    def check(v: Any) -> str | None:
-        return None if lo <= v <= hi else f"a number from {lo:g} to {hi:g}{unit}"
+def _title(v: Any) -> str | None:
+    limit = BOUNDS["title_length"]
+    if not isinstance(v, str):
+        return f"text of {limit.allowed()}, without control characters"
+    bad = control_characters(v)
+    if bad:
+        return (
+            f"printable text (it holds the control character {bad[0]}; "
+            "a title is one line)"
+        )
+    if not limit.holds(len(v)):
+        return f"text of {limit.allowed()} (it has {len(v)})"
+    return None
 
-    return check
+
+# A dotted key of more parts than the nesting bound, found by a scan that skips strings
+# and comments (matched as tokens of their own, so a dot inside them never counts).
+_BARE = r"[A-Za-z0-9_-]+"
+_BASIC = r'"(?:[^"\\\n]|\\.)*"'
+_LITERAL = r"'[^'\n]*'"
+_PART = rf"(?:{_BARE}|{_BASIC}|{_LITERAL})"
+_DEEP_KEY = re.compile(
+    rf"(?P<deep>{_PART}(?:[ \t]*\.[ \t]*{_PART}){{{int(BOUNDS['nesting'].high)},}})"
+    rf'|"""[\s\S]*?"""|' + r"'''[\s\S]*?'''|" + rf"{_BASIC}|{_LITERAL}|#[^\n]*"
+)
+
+
+def _reason(check: _Check | None) -> str:
+    """The reason of a bounded key's limits, as a sentence for the message's end."""
+    if not isinstance(check, _Bounded):
+        return ""
+    reason = check.bound.reason
+    return f"Why: {reason}."
 
 
 def _choice(*options: str) -> _Check:
@@ -153,32 +215,26 @@ def _crosses_itself(pts: tuple[tuple[float, float], ...]) -> bool:
     return False
 
 
-def _spokes(v: Any) -> str | None:
-    return (
-        None if v == 0 or 3 <= v <= 8 else "0 (solid web) or a whole number from 3 to 8"
-    )
-
-
 WHEEL_KEYS: dict[str, tuple[Any, str, _Check | None]] = {
-    "module": (1.0, "number", _positive),
+    "module": (1.0, "number", _bounded("module")),
     "form": ("involute", "string", _choice("involute", "triangular")),
-    "pressure_angle": (20.0, "number", _between(10, 35, " degrees")),
-    "tooth_angle": (60.0, "number", _between(20, 120, " degrees")),
-    "face_width": (3.0, "number", _positive),
-    "shift": (0.0, "number", _between(-1, 2)),
+    "pressure_angle": (20.0, "number", _bounded("pressure_angle")),
+    "tooth_angle": (60.0, "number", _bounded("tooth_angle")),
+    "face_width": (3.0, "number", _bounded("size")),
+    "shift": (0.0, "number", _bounded("shift")),
     # None: by process, see process_limits.default_backlash
-    "backlash": (None, "number", _non_negative),
-    "addendum": (1.0, "number", _between(0.1, 2, " modules")),
-    "dedendum": (1.25, "number", _between(0.1, 3, " modules")),
+    "backlash": (None, "number", _bounded("play")),
+    "addendum": (1.0, "number", _bounded("addendum")),
+    "dedendum": (1.25, "number", _bounded("dedendum")),
     # None: by form, see ROOT_RADIUS_BY_FORM
-    "root_radius": (None, "number", _between(0, 1, " modules")),
-    "tip_radius": (0.0, "number", _between(0, 1, " modules")),
-    "bore": (None, "number", _positive),
+    "root_radius": (None, "number", _bounded("root_radius")),
+    "tip_radius": (0.0, "number", _bounded("tip_radius")),
+    "bore": (None, "number", _bounded("size")),
     "seat": ("round", "string", _choice("round", "square", "hex", "pinned")),
-    "spokes": (0, "integer", _spokes),
-    "rim": (None, "number", _positive),
-    "hub_diameter": (0.0, "number", _non_negative),
-    "hub_length": (0.0, "number", _non_negative),
+    "spokes": (0, "integer", _bounded("spokes")),
+    "rim": (None, "number", _bounded("size")),
+    "hub_diameter": (0.0, "number", _bounded("size_or_zero")),
+    "hub_length": (0.0, "number", _bounded("size_or_zero")),
 }
 #: Root rounding (x module) when neither the wheel nor [defaults] sets one: the ISO 53
 #: type A rack tip radius for involute teeth; for triangular teeth a small rounding,
@@ -206,30 +262,27 @@ FRAME_KEYS = (
 )
 
 PROCESS_KEYS: dict[str, tuple[str, _Check | None]] = {
-    "nozzle": ("number", _positive),
-    "layer": ("number", _positive),
-    "clearance": ("number", _non_negative),
-    "cutter": ("number", _positive),
+    "nozzle": ("number", _bounded("nozzle")),
+    "layer": ("number", _bounded("layer")),
+    "clearance": ("number", _bounded("play")),
+    "cutter": ("number", _bounded("cutter")),
     "fit": ("string", None),
-    "min_wall": ("number", _positive),
-    "min_module_hand": ("number", _positive),
-    "min_backlash": ("number", _non_negative),
-    "centre_tolerance": ("number", _positive),
-    "min_layers": (
-        "integer",
-        lambda v: None if 1 <= v <= 100 else "a whole number from 1 to 100",
-    ),
+    "min_wall": ("number", _bounded("size")),
+    "min_module_hand": ("number", _bounded("module")),
+    "min_backlash": ("number", _bounded("play")),
+    "centre_tolerance": ("number", _bounded("centre_tolerance")),
+    "min_layers": ("integer", _bounded("min_layers")),
 }
 
 #: Periods from a microsecond to a million years: beyond them a float cannot hold the
 #: derived rates and periods of a long train.
-MIN_PERIOD_S = Fraction(1, 10**6)
-MAX_PERIOD_S = 10**6 * UNIT_SECONDS["yr"]
+MIN_PERIOD_S = Fraction(BOUNDS["period_s"].low)
+MAX_PERIOD_S = Fraction(BOUNDS["period_s"].high)
 #: Turns per drive turn that a target may ask for.
-MIN_TURNS, MAX_TURNS = Fraction(1, 10**12), Fraction(10**12)
+MIN_TURNS, MAX_TURNS = Fraction(BOUNDS["turns"].low), Fraction(BOUNDS["turns"].high)
 _PERIOD_ALLOWED = (
     'a positive number and a unit (s, min, h, d, yr), such as "27.321661 d", '
-    "from 1e-6 s to 1e6 yr"
+    + BOUNDS["period_s"].allowed()
 )
 
 
@@ -283,7 +336,9 @@ def _expected(kind: str, check: _Check | None) -> str:
 
 def _show(v: Any) -> str:
     if isinstance(v, str):
-        return f'"{v}"'
+        # JSON quoting shows a control character as an escape (``"sun\\n"``)
+        text = json.dumps(v, ensure_ascii=False)
+        return text if len(text) <= 60 else text[:56] + '..."'
     if isinstance(v, bool):
         return "true" if v else "false"
     text = repr(v)
@@ -400,14 +455,24 @@ class _Loader:
             )
             return default
         if kind == "number":
-            v = float(v)
+            try:
+                v = float(v)
+            except OverflowError:  # an integer of hundreds of digits
+                v = math.inf
             if not math.isfinite(v):
-                self.problem(w, f"{key} = {v}", "a finite number")
+                self.problem(
+                    w,
+                    f"{key} = {v}",
+                    check(math.nan) or "a finite number"
+                    if check
+                    else "a finite number",
+                    _reason(check),
+                )
                 return default
         if check is not None:
             allowed = check(v)
             if allowed:
-                self.problem(w, f"{key} = {_show(v)}", allowed)
+                self.problem(w, f"{key} = {_show(v)}", allowed, _reason(check))
                 return default
         return v
 
@@ -481,37 +546,34 @@ class _Loader:
             self.problem(
                 self.where(table, index, anon, "name"),
                 "'name' is missing",
-                "a name made of letters, digits, '-' and '_'",
+                NAME_ALLOWED,
             )
             return None, anon
         if not isinstance(raw, str):
             self.problem(
                 self.where(table, index, anon, "name"),
                 f"name = {_show(raw)} ({_type_name(raw)})",
-                "text: letters, digits, '-' and '_'",
+                "text: " + NAME_ALLOWED,
             )
             return None, anon
-        item = f'{table} "{raw}"'
-        if not SAFE_NAME.match(raw):
+        item = f"{table} {_show(raw)}"
+        wrong = name_problem(raw)
+        if wrong is not None:
             self.broken.setdefault(table, set()).add(raw)
+            reserved = name_key(raw) in RESERVED_NAMES
             self.problem(
                 self.where(table, index, item, "name"),
-                f"name = {_show(raw)} is not a safe file name",
-                "1 to 64 letters, digits, '-' and '_' (names become file names of parts)",
+                f"name = {_show(raw)}: {wrong}",
+                "any other name (not " + ", ".join(sorted(RESERVED_NAMES)) + ")"
+                if reserved
+                else NAME_ALLOWED,
             )
-            return None, anon
-        if raw in RESERVED_NAMES:
-            self.broken.setdefault(table, set()).add(raw)
-            self.problem(
-                self.where(table, index, item, "name"),
-                f"name = {_show(raw)} is kept for the build's own files",
-                "any other name (not " + ", ".join(sorted(RESERVED_NAMES)) + ")",
-            )
-            return None, item
+            return None, item if reserved else anon
         return raw, item
 
     # -- the whole file --------------------------------------------------------------
     def load(self) -> Design:
+        self.check_size_and_nesting()
         try:
             doc = tomllib.loads(self.text)
         except tomllib.TOMLDecodeError as exc:
@@ -538,6 +600,7 @@ class _Loader:
             )
             raise DesignError(self.problems) from None
 
+        self.check_document(doc)
         self.unknown_keys(doc, TOP_KEYS, ("", 0, ""))
         title, process = self.design_table(doc)
         defaults = self.defaults_table(doc)
@@ -559,11 +622,9 @@ class _Loader:
         if self.problems:
             raise DesignError(self.problems)
         assert drive is not None  # the cross check reported a missing drive
-        stem = Path(self.file).stem
-        name = re.sub(r"[^A-Za-z0-9_-]", "_", stem) or "design"
         design = Design(
             title=title,
-            name=name,
+            name=design_name(Path(self.file).stem),
             drive=drive,
             arbors=tuple(arbors),
             wheels=tuple(wheels),
@@ -583,8 +644,69 @@ class _Loader:
         )
         check_display_references(self, design)
         if self.problems:
-            raise DesignError(self.problems)
+            raise self.error()
         return design
+
+    def check_size_and_nesting(self) -> None:
+        """Refuse, before parsing, a file too large or with keys nested too deeply.
+
+        tomllib's time grows with the square of a dotted key's length (50,000 levels
+        take minutes), so deep keys are found by a scan that skips strings and comments.
+        """
+        size = len(self.text.encode("utf-8", "surrogatepass"))
+        limit = BOUNDS["file_bytes"]
+        if not limit.holds(size):
+            self.problem(
+                Where(self.file),
+                f"the file holds {size} bytes",
+                f"a train file of {limit.allowed()}",
+                f"Why: {limit.reason}.",
+            )
+            raise DesignError(self.problems)
+        for m in _DEEP_KEY.finditer(self.text):
+            if m.group("deep"):
+                line = self.text.count("\n", 0, m.start()) + 1
+                self.problem(
+                    Where(self.file, line=line),
+                    f"a dotted key of more than {int(BOUNDS['nesting'].high)} parts",
+                    f"keys and lists nested {BOUNDS['nesting'].allowed()}",
+                    f"Why: {BOUNDS['nesting'].reason}.",
+                )
+                raise DesignError(self.problems)
+
+    def check_document(self, doc: dict[str, Any]) -> None:
+        """Refuse a parsed file nested too deeply or with too many tables of a kind.
+
+        Every later step (and every check) grows with these counts, so a file beyond
+        them is refused here, before any work.
+        """
+        nesting = BOUNDS["nesting"]
+        stack: list[tuple[Any, int]] = [(doc, 1)]
+        while stack:
+            value, depth = stack.pop()
+            if depth > nesting.high:
+                self.problem(
+                    Where(self.file),
+                    f"tables or lists nested {depth} levels deep",
+                    f"keys and lists nested {nesting.allowed()}",
+                    f"Why: {nesting.reason}.",
+                )
+                raise DesignError(self.problems)
+            children = value.values() if isinstance(value, dict) else value
+            stack.extend(
+                (c, depth + 1) for c in children if isinstance(c, (dict, list))
+            )
+        for table, limit in TABLE_BOUNDS.items():
+            items = doc.get(table)
+            if isinstance(items, list) and not limit.holds(len(items)):
+                self.problem(
+                    Where(self.file, f"[[{table}]]", line=self.lines.line(table)),
+                    f"{len(items)} [[{table}]] tables",
+                    f"at most {int(limit.high)} [[{table}]] tables",
+                    f"Why: {limit.reason}.",
+                )
+        if self.problems:
+            raise DesignError(self.problems)
 
     def design_table(self, doc: dict[str, Any]) -> tuple[str, str]:
         t = self.table(doc, "design", required=True)
@@ -592,7 +714,9 @@ class _Loader:
             return "", "mill"
         ctx = ("design", 0, "[design]")
         self.unknown_keys(t, ("title", "process"), ctx, required=("title",))
-        title = self.value(t, "title", "string", ctx, required=True, default="")
+        title = self.value(
+            t, "title", "string", ctx, required=True, default="", check=_title
+        )
         process = self.value(
             t,
             "process",
@@ -651,22 +775,21 @@ class _Loader:
                 "[back, front] with front > back (mm)",
             )
         thickness = self.value(
-            t, "thickness", "number", ctx, default=2.0, check=_positive
+            t, "thickness", "number", ctx, default=2.0, check=_bounded("size")
         )
-        margin = self.value(t, "margin", "number", ctx, check=_non_negative)
-        clearance = self.value(t, "clearance", "number", ctx, check=_non_negative)
+        margin = self.value(t, "margin", "number", ctx, check=_bounded("size_or_zero"))
+        clearance = self.value(
+            t, "clearance", "number", ctx, check=_bounded("size_or_zero")
+        )
         corner = self.value(
-            t, "corner", "number", ctx, default=3.0, check=_non_negative
+            t, "corner", "number", ctx, default=3.0, check=_bounded("size_or_zero")
         )
         pillars = self.value(
-            t,
-            "pillars",
-            "integer",
-            ctx,
-            default=4,
-            check=lambda v: None if 3 <= v <= 12 else "a whole number from 3 to 12",
+            t, "pillars", "integer", ctx, default=4, check=_bounded("pillars")
         )
-        pillar_d = self.value(t, "pillar_diameter", "number", ctx, check=_positive)
+        pillar_d = self.value(
+            t, "pillar_diameter", "number", ctx, check=_bounded("size")
+        )
         screw = self.value(
             t, "screw", "string", ctx, default="M3", check=_choice(*SCREWS)
         )
@@ -698,9 +821,14 @@ class _Loader:
         if "rectangle" not in t:
             return None
         v = t["rectangle"]
-        allowed = "four numbers [x0, y0, x1, y1] (mm) with x1 > x0 and y1 > y0"
+        allowed = (
+            "four numbers [x0, y0, x1, y1] (mm) with x1 > x0 and y1 > y0, each "
+            + BOUNDS["position"].allowed()
+        )
         if not (
-            isinstance(v, list) and len(v) == 4 and all(_finite_number(x) for x in v)
+            isinstance(v, list)
+            and len(v) == 4
+            and all(_finite_number(x) and BOUNDS["position"].holds(x) for x in v)
         ):
             self.problem(
                 self.where(*ctx, "rectangle"), f"rectangle = {_show(v)}", allowed
@@ -720,17 +848,19 @@ class _Loader:
         if "polygon" not in t:
             return None
         v = t["polygon"]
+        corners, position = BOUNDS["frame_corners"], BOUNDS["position"]
         allowed = (
-            "a list of at least 3 corners [[x, y], ...] (mm) that do not cross, such as"
+            f"a list of {corners.allowed()} corners [[x, y], ...] (mm, each "
+            f"{position.allowed()}) that do not cross, such as"
             " [[-50, -40], [60, -40], [60, 50], [-50, 50]]"
         )
         if not (
             isinstance(v, list)
-            and 3 <= len(v) <= 1000
+            and corners.holds(len(v))
             and all(
                 isinstance(p, list)
                 and len(p) == 2
-                and all(_finite_number(x) for x in p)
+                and all(_finite_number(x) and position.holds(x) for x in p)
                 for p in v
             )
         ):
@@ -788,20 +918,20 @@ class _Loader:
         if key not in t:
             return default
         v = t[key]
+        position = BOUNDS["position"]
         if (
             not isinstance(v, list)
             or len(v) != 2
-            or not all(
-                isinstance(x, (int, float))
-                and not isinstance(x, bool)
-                and math.isfinite(x)
-                for x in v
-            )
+            or not all(isinstance(x, (int, float)) and position.holds(x) for x in v)
         ):
             self.problem(
                 self.where(ctx[0], ctx[1], ctx[2], key),
                 f"{key} = {_show(v)}",
-                "two numbers in brackets, such as [0.0, 40.0] (mm)",
+                "two numbers in brackets, such as [0.0, 40.0], each "
+                + position.allowed(),
+                _reason(_bounded("position"))
+                if isinstance(v, list) and len(v) == 2
+                else "",
             )
             return default
         return (float(v[0]), float(v[1]))
@@ -864,7 +994,7 @@ class _Loader:
             self.unknown_keys(t, known, ctx, required=("name",))
             at = self.pair_of_numbers(t, "at", ctx)
             diameter = self.value(
-                t, "diameter", "number", ctx, default=3.0, check=_positive
+                t, "diameter", "number", ctx, default=3.0, check=_bounded("size")
             )
             around = self.value(t, "around", "string", ctx)
             fixed = self.value(t, "fixed", "bool", ctx, default=False)
@@ -934,7 +1064,9 @@ class _Loader:
                     else f"a whole number from {MIN_TEETH} to {MAX_TEETH}"
                 ),
             )
-            height = self.value(t, "height", "number", ctx, default=0.0)
+            height = self.value(
+                t, "height", "number", ctx, default=0.0, check=_bounded("position")
+            )
             fields: dict[str, Any] = {}
             for key, (_, kind, check) in WHEEL_KEYS.items():
                 fields[_WHEEL_FIELD.get(key, key)] = self.value(
@@ -1014,7 +1146,7 @@ class _Loader:
                     "two different wheels",
                 )
                 continue
-            bearing = self.value(t, "bearing", "number", ctx)
+            bearing = self.value(t, "bearing", "number", ctx, check=_bounded("bearing"))
             out.append(
                 Mesh((pair[0], pair[1]), bearing, i + 1, self.where("mesh", i, item))
             )
@@ -1041,14 +1173,21 @@ class _Loader:
             pin = self.value(t, "pin", "string", ctx, required=True)
             slot = self.value(t, "slot", "string", ctx, required=True)
             radius = self.value(
-                t, "radius", "number", ctx, required=True, check=_positive
+                t, "radius", "number", ctx, required=True, check=_bounded("size")
             )
             offset = self.value(
-                t, "offset", "number", ctx, required=True, check=_non_negative
+                t,
+                "offset",
+                "number",
+                ctx,
+                required=True,
+                check=_bounded("size_or_zero"),
             )
-            bearing = self.value(t, "bearing", "number", ctx, default=0.0)
+            bearing = self.value(
+                t, "bearing", "number", ctx, default=0.0, check=_bounded("bearing")
+            )
             pin_d = self.value(
-                t, "pin_diameter", "number", ctx, default=1.0, check=_positive
+                t, "pin_diameter", "number", ctx, default=1.0, check=_bounded("size")
             )
             part = self.value(
                 t,
@@ -1219,12 +1358,12 @@ class _Loader:
                 check=_choice("tube", "bush", "bearing"),
             )
             outside = self.value(
-                t, "outside", "number", ctx, required=True, check=_positive
+                t, "outside", "number", ctx, required=True, check=_bounded("size")
             )
             inside = self.value(
-                t, "inside", "number", ctx, required=True, check=_positive
+                t, "inside", "number", ctx, required=True, check=_bounded("size")
             )
-            width = self.value(t, "width", "number", ctx, check=_positive)
+            width = self.value(t, "width", "number", ctx, check=_bounded("size"))
             if kind in ("bush", "bearing") and width is None and "width" not in t:
                 self.problem(
                     self.where("stock", i, item, "width"),
@@ -1270,20 +1409,31 @@ class _Loader:
     ) -> None:
         by_arbor = {a.name: a for a in arbors}
         by_wheel = {w.name: w for w in wheels}
-        seen: dict[str, Where | None] = {}
+        # names become file names: two that a case-insensitive disk takes for one
+        # file ("Sun", "sun") collide as surely as two equal ones
+        seen: dict[str, tuple[str, Where | None]] = {}
         for items in (arbors, wheels, pinslots):
             for it in items:
-                if it.name in seen:
+                key = name_key(it.name)
+                if key in seen:
+                    first, where = seen[key]
+                    same = first == it.name
                     self.problem(
                         self.at_key(it.where, "name"),
-                        f'the name "{it.name}" is used twice',
-                        "names unique across arbors, wheels and pin-and-slot couplings",
-                        f"It is first used at {seen[it.name]}."
-                        if seen[it.name]
-                        else "",
+                        f"the name {_show(it.name)} is used twice"
+                        if same
+                        else f"the names {_show(first)} and {_show(it.name)} differ "
+                        "only in case",
+                        "names unique across arbors, wheels and pin-and-slot couplings"
+                        + (
+                            ""
+                            if same
+                            else ", whatever their case (they become file names)"
+                        ),
+                        f"It is first used at {where}." if where else "",
                     )
                 else:
-                    seen[it.name] = it.where
+                    seen[key] = (it.name, it.where)
 
         def ref(
             where: Where | None, key: str, name: str, pool: dict[str, Any], what: str
@@ -1352,27 +1502,43 @@ class _Loader:
                 return by_wheel[a.carrier].arbor
             return None
 
+        # One walk per chain, each arbor visited once: depth of tubes on one axis and of
+        # carriers riding on carriers, both bounded (every later step follows them).
+        coaxial: dict[str, int] = {}
+        carried: dict[str, int] = {}
         bad: set[str] = set()
+        too_deep = False
         for a in by_arbor.values():
-            chain = [a.name]
-            cur = parent(a)
-            while cur is not None:
-                if cur in chain:
-                    loop = chain[chain.index(cur) :] + [cur]
-                    if not bad.intersection(loop):
-                        self.problem(
-                            self.at_key(
-                                a.where, "around" if a.around is not None else "carrier"
-                            ),
-                            "a cycle of 'around'/'carrier': "
-                            + " -> ".join(f'"{n}"' for n in loop),
-                            "each arbor surrounds or rides on a member that does not, in turn, lead back to it",
-                        )
-                    bad.update(loop)
+            path: list[str] = []
+            on_path: dict[str, int] = {}
+            cur: str | None = a.name
+            looped = False
+            while cur is not None and cur not in coaxial and cur not in bad:
+                if cur in on_path:
+                    loop = path[on_path[cur] :] + [cur]
+                    self.problem(
+                        self.at_key(
+                            a.where, "around" if a.around is not None else "carrier"
+                        ),
+                        "a cycle of 'around'/'carrier': "
+                        + " -> ".join(_show(n) for n in loop),
+                        "each arbor surrounds or rides on a member that does not, in turn, lead back to it",
+                    )
+                    looped = True
                     break
-                chain.append(cur)
+                on_path[cur] = len(path)
+                path.append(cur)
                 cur = parent(by_arbor[cur])
-        if bad:
+            if looped or cur in bad:
+                bad.update(path)  # a cycle, or a chain that runs into one
+                continue
+            for name in reversed(path):
+                arbor = by_arbor[name]
+                up = parent(arbor)
+                coaxial[name] = coaxial[arbor.around] + 1 if arbor.around else 1
+                carried[name] = (carried[up] if up else 0) + bool(arbor.carrier)
+                too_deep |= self.check_depth(arbor, coaxial[name], carried[name])
+        if bad or too_deep:
             return
 
         def axis(name: str) -> str:
@@ -1402,6 +1568,27 @@ class _Loader:
                 )
         self.check_placement(by_arbor, by_wheel, meshes, pinslots)
 
+    def check_depth(self, arbor: Arbor, coaxial: int, carried: int) -> bool:
+        """Report the arbor that first goes past a nesting bound; True if it does."""
+        for depth, limit, key, what in (
+            (coaxial, BOUNDS["coaxial_depth"], "around", "tubes nested on one axis"),
+            (
+                carried,
+                BOUNDS["carrier_depth"],
+                "carrier",
+                "carriers riding on carriers",
+            ),
+        ):
+            if depth == int(limit.high) + 1:
+                self.problem(
+                    self.at_key(arbor.where, key),
+                    f"{depth} {what}",
+                    f"at most {int(limit.high)}",
+                    f"Why: {limit.reason}.",
+                )
+                return True
+        return False
+
     def check_placement(
         self,
         by_arbor: dict[str, Arbor],
@@ -1422,13 +1609,17 @@ class _Loader:
                 links.append((a, b))
         for p in pinslots:
             links.append((axis(by_wheel[p.pin].arbor), axis(by_wheel[p.slot].arbor)))
-        changed = True
-        while changed:
-            changed = False
-            for a, b in links:
-                if (a in placed) != (b in placed):
-                    placed.update((a, b))
-                    changed = True
+        # placed axes spread along the links: each axis and link visited once
+        linked: dict[str, list[str]] = {}
+        for a, b in links:
+            linked.setdefault(a, []).append(b)
+            linked.setdefault(b, []).append(a)
+        todo = list(placed)
+        while todo:
+            for other in linked.get(todo.pop(), ()):
+                if other not in placed:
+                    placed.add(other)
+                    todo.append(other)
         for name, arbor in by_arbor.items():
             if axis(name) not in placed and arbor.around is None:
                 self.problem(
@@ -1444,20 +1635,38 @@ def loads_design(text: str, filename: str = "<design>") -> Design:
 
 
 def load_design(path: str | Path) -> Design:
-    """Read and check a train file; raise :class:`DesignError` listing every problem."""
+    """Read and check a train file; raise :class:`DesignError` listing every problem.
+
+    Only a regular file is read (a folder, a pipe or a device such as ``/dev/zero`` is
+    refused without reading from it), and only up to the ``file_bytes`` bound.
+    """
     p = Path(path)
+
+    def refuse(found: str, allowed: str = "a readable TOML file") -> DesignError:
+        return DesignError([Problem(Where(str(p)), found, allowed)])
+
+    limit = BOUNDS["file_bytes"]
     try:
-        raw = p.read_bytes()
+        # O_NONBLOCK: opening a pipe must not wait for a writer; a regular file ignores it
+        fd = os.open(p, os.O_RDONLY | getattr(os, "O_NONBLOCK", 0))
     except OSError as exc:
-        raise DesignError(
-            [
-                Problem(
-                    Where(str(p)),
-                    f"the file cannot be read ({exc.strerror or exc})",
-                    "a readable TOML file",
-                )
-            ]
-        ) from None
+        raise refuse(f"the file cannot be read ({exc.strerror or exc})") from None
+    try:
+        info = os.fstat(fd)
+        if not stat.S_ISREG(info.st_mode):
+            kind = "a folder" if stat.S_ISDIR(info.st_mode) else "not a regular file"
+            raise refuse(f"it is {kind}", "a regular TOML file") from None
+        if not limit.holds(info.st_size):
+            raise refuse(
+                f"the file holds {info.st_size} bytes",
+                f"a train file of {limit.allowed()}",
+            ) from None
+        with os.fdopen(fd, "rb", closefd=False) as fh:
+            raw = fh.read(int(limit.high) + 1)
+    except OSError as exc:
+        raise refuse(f"the file cannot be read ({exc.strerror or exc})") from None
+    finally:
+        os.close(fd)
     try:
         text = raw.decode("utf-8")
     except UnicodeDecodeError as exc:
