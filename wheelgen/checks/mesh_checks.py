@@ -15,6 +15,7 @@ from __future__ import annotations
 import math
 from collections.abc import Callable, Mapping
 from dataclasses import dataclass, replace
+from functools import lru_cache
 
 from ..design.model import Design, Process, Wheel
 from ..design.process_limits import (
@@ -318,9 +319,18 @@ def check_mesh(
         out += _clearance_from_outlines(o1, o2, a, subject, (n1, n2), m)
         if not simulate:
             return out
-    sim = simulate_mesh(o1, o2, a, steps=CHECK_STEPS)
+    if outlines is None:
+        sim = _simulated(spec1, spec2, a)
+    else:
+        sim = simulate_mesh(o1, o2, a, steps=CHECK_STEPS)
     out += _simulation_findings(sim, spec1, spec2, subject, o2, process, (n1, n2))
     return out
+
+
+@lru_cache(maxsize=512)
+def _simulated(spec1: ToothSpec, spec2: ToothSpec, a: float) -> MeshSimulation:
+    """The simulation of a pair at ``a`` mm, once per pair: large trains repeat pairs."""
+    return simulate_mesh(outline_for(spec1), outline_for(spec2), a, steps=CHECK_STEPS)
 
 
 def _centre_distance(
@@ -678,13 +688,12 @@ def design_mesh_checks(
     """
     findings: list[Finding] = []
     specs: dict[str, ToothSpec] = {}
-    outlines: dict[str, WheelOutline] = {}
     for wheel in design.wheels:
         subject = f"wheel {wheel.name}"
         try:
             spec = tooth_spec(wheel)
             # generating the outline is where impossible tooth forms show up
-            outlines[wheel.name] = outline_for(spec)
+            outline_for(spec)
             findings += check_wheel(spec, subject)
         except ValueError as exc:
             findings.append(_unmakeable(design, wheel, exc))
@@ -696,7 +705,6 @@ def design_mesh_checks(
         w1, w2 = design.wheel(mesh.pair[0]), design.wheel(mesh.pair[1])
         if w1.name not in specs or w2.name not in specs:
             continue  # already reported: a wheel whose teeth cannot be made
-        pair_outlines = (outlines[w1.name], outlines[w2.name])
         findings += check_mesh(
             specs[w1.name],
             specs[w2.name],
@@ -704,8 +712,7 @@ def design_mesh_checks(
             centre_distance=distances.get(mesh.index),
             process=design.process,
             simulate=simulate,
-            outlines=pair_outlines,
-            names=(w1.name, w2.name),
+            names=(w1.name, w2.name),  # outlines: outline_for's, shared with pairs
             judge_centres=False,
         )
     return findings

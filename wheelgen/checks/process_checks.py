@@ -16,6 +16,7 @@ from __future__ import annotations
 
 import math
 from collections.abc import Mapping
+from functools import lru_cache
 
 import numpy as np
 
@@ -42,7 +43,10 @@ __all__ = [
 _CHORD_TOL = 1e-4  # mm; widths are wanted to a micrometre or so
 
 
+@lru_cache(maxsize=256)
 def _table(outline: WheelOutline) -> ToothTable:
+    # outlines compare by identity and outline_for hands out one per spec: a large
+    # train's repeated wheels are tabulated once
     return tooth_table(outline, _CHORD_TOL, grid=2048)
 
 
@@ -76,6 +80,7 @@ def _space_width(t: ToothTable, radius: float) -> float:
     return max(0.0, radius * t.pitch_rad - _tooth_width(t, radius))
 
 
+@lru_cache(maxsize=256)
 def cutter_depth_lost(outline: WheelOutline, cutter: float) -> float:
     """How far (mm) above the root circle an end mill of diameter ``cutter`` stops.
 

@@ -365,25 +365,71 @@ class Design:
     drive_input: DriveInput = DriveInput()
     source: str = ""  # path of the file it came from
     sha256: str = ""  # of the file's bytes
+    # Look-ups by name, made once: every layer asks for arbors and wheels by name, and
+    # a linear search per question made large trains quadratic.
+    _arbors: dict[str, Arbor] = field(
+        init=False, repr=False, compare=False, default_factory=dict
+    )
+    _wheels: dict[str, Wheel] = field(
+        init=False, repr=False, compare=False, default_factory=dict
+    )
+    _wheels_on: dict[str, tuple[Wheel, ...]] = field(
+        init=False, repr=False, compare=False, default_factory=dict
+    )
+    _sleeves_on: dict[str, tuple[str, ...]] = field(
+        init=False, repr=False, compare=False, default_factory=dict
+    )
+    _carried_by: dict[str, tuple[Arbor, ...]] = field(
+        init=False, repr=False, compare=False, default_factory=dict
+    )
+
+    def __post_init__(self) -> None:
+        # the first of equal names wins, as the linear search it replaces did
+        arbors: dict[str, Arbor] = {}
+        for a in self.arbors:
+            arbors.setdefault(a.name, a)
+        wheels: dict[str, Wheel] = {}
+        on: dict[str, list[Wheel]] = {}
+        for w in self.wheels:
+            wheels.setdefault(w.name, w)
+            on.setdefault(w.arbor, []).append(w)
+        object.__setattr__(self, "_arbors", arbors)
+        object.__setattr__(self, "_wheels", wheels)
+        object.__setattr__(self, "_wheels_on", {k: tuple(v) for k, v in on.items()})
+        around: dict[str, list[str]] = {}
+        carried: dict[str, list[Arbor]] = {}
+        for a in self.arbors:
+            if a.around is not None:
+                around.setdefault(a.around, []).append(a.name)
+            if a.carrier is not None:
+                carried.setdefault(a.carrier, []).append(a)
+        object.__setattr__(
+            self, "_sleeves_on", {k: tuple(v) for k, v in around.items()}
+        )
+        object.__setattr__(
+            self, "_carried_by", {k: tuple(v) for k, v in carried.items()}
+        )
 
     def arbor(self, name: str) -> Arbor:
-        for a in self.arbors:
-            if a.name == name:
-                return a
-        raise KeyError(name)
+        return self._arbors[name]
 
     def wheel(self, name: str) -> Wheel:
-        for w in self.wheels:
-            if w.name == name:
-                return w
-        raise KeyError(name)
+        return self._wheels[name]
 
     def wheels_on(self, arbor: str) -> tuple[Wheel, ...]:
-        return tuple(w for w in self.wheels if w.arbor == arbor)
+        return self._wheels_on.get(arbor, ())
+
+    def sleeves_on(self, arbor: str) -> tuple[str, ...]:
+        """Names of the sleeves whose ``around`` is ``arbor``, in file order."""
+        return self._sleeves_on.get(arbor, ())
+
+    def carried_by(self, wheel: str) -> tuple[Arbor, ...]:
+        """The arbors whose ``carrier`` is ``wheel``, in file order."""
+        return self._carried_by.get(wheel, ())
 
     def axis_root(self, arbor: str) -> str:
         """The innermost member of ``arbor``'s coaxial group (itself unless a sleeve)."""
-        return axis_root_of({a.name: a for a in self.arbors}, arbor)
+        return axis_root_of(self._arbors, arbor)
 
     def inner_members(self, arbor: str) -> tuple[str, ...]:
         """The members a sleeve surrounds, from the next one in to the axis root."""

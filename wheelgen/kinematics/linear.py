@@ -45,10 +45,16 @@ class ExactSystem:
 
     def __init__(self) -> None:
         self.rows: dict[str, Row] = {}
+        # variable -> pivots of the rows that hold it: a new pivot is eliminated from
+        # those rows only, not looked for in every row (a long train has thousands)
+        self.holding: dict[str, set[str]] = {}
 
     def reduce(self, coeffs: Form, rhs: Form, sources: frozenset[int]) -> Row:
         """The equation with every pivot of the system eliminated from it."""
-        for pivot, row in self.rows.items():
+        # rows hold no other row's pivot, so subtracting one never brings a pivot in:
+        # the pivots the equation holds at first are all there is to eliminate
+        for pivot in [k for k in coeffs if k in self.rows]:
+            row = self.rows[pivot]
             c = coeffs.get(pivot)
             if c:
                 coeffs = minus(coeffs, row.coeffs, c)
@@ -75,14 +81,23 @@ class ExactSystem:
             {k: v / scale for k, v in row.rhs.items()},
             row.sources,
         )
-        for other in self.rows.values():
-            c = other.coeffs.get(pivot)
-            if c:
-                other.coeffs = minus(other.coeffs, row.coeffs, c)
-                other.rhs = minus(other.rhs, row.rhs, c)
-                other.sources = other.sources | row.sources
+        for name in sorted(self.holding.get(pivot, ())):
+            other = self.rows[name]
+            c = other.coeffs[pivot]
+            before = set(other.coeffs)
+            other.coeffs = minus(other.coeffs, row.coeffs, c)
+            other.rhs = minus(other.rhs, row.rhs, c)
+            other.sources = other.sources | row.sources
+            self._hold(name, before, set(other.coeffs))
         self.rows[pivot] = row
+        self._hold(pivot, set(), set(row.coeffs))
         return None
+
+    def _hold(self, pivot: str, before: set[str], after: set[str]) -> None:
+        for k in before - after:
+            self.holding[k].discard(pivot)
+        for k in after - before:
+            self.holding.setdefault(k, set()).add(pivot)
 
     def solved(self) -> dict[str, Form]:
         """Each variable the system fixes, as a form in the symbols."""

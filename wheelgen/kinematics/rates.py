@@ -34,6 +34,7 @@ __all__ = [
     "solve_rates",
     "axis_root",
     "mesh_frame",
+    "rate_text",
 ]
 
 
@@ -57,8 +58,7 @@ class Conflict:
     path_two: tuple[str, ...]
 
     def message(self) -> str:
-        r1 = "?" if self.rate_one is None else str(self.rate_one)
-        r2 = "?" if self.rate_two is None else str(self.rate_two)
+        r1, r2 = rate_text(self.rate_one), rate_text(self.rate_two)
         return (
             f'arbor "{self.arbor}" is driven two ways that disagree: through '
             f"{_path_text(self.path_one)} it turns {r1} times per drive turn, through "
@@ -66,10 +66,41 @@ class Conflict:
         )
 
 
+#: Links named in full in a message; a longer path names its ends and its length.
+_PATH_SHOWN = 12
+
+
 def _path_text(path: tuple[str, ...]) -> str:
     """'mesh a-b, mesh c-d' (the drive itself is implied unless it is all there is)."""
     links = [label for label in path if label != "the drive"]
+    if len(links) > _PATH_SHOWN:
+        head, tail = links[: _PATH_SHOWN // 2], links[-_PATH_SHOWN // 2 :]
+        more = len(links) - len(head) - len(tail)
+        links = [*head, f"... {more} more ...", *tail]
     return ", ".join(links) if links else "the drive"
+
+
+def rate_text(rate: Fraction | None, digits: int = 40) -> str:
+    """An exact rate as text (``"-127/38"``); one of thousands of digits, shortened.
+
+    A long train can have rates like 3^-2000, whose exact fraction runs to pages and
+    whose value no float holds: beyond ``digits`` characters it is written as
+    ``"about 1.23e-954"``, worked out on the integers.
+    """
+    if rate is None:
+        return "?"
+    text = str(rate)
+    if len(text) <= digits:
+        return text
+    sign = "-" if rate < 0 else ""
+    num, den = abs(rate.numerator), rate.denominator
+    # 10^e <= num/den < 10^(e+1), then four significant digits from integer division
+    e = len(str(num)) - len(str(den))
+    if num * 10 ** max(0, -e) < den * 10 ** max(0, e):
+        e -= 1
+    scaled = num * 10 ** max(0, 3 - e) // (den * 10 ** max(0, e - 3))
+    mantissa = f"{scaled // 1000}.{scaled % 1000:03d}"
+    return f"about {sign}{mantissa}e{e:+d}"
 
 
 @dataclass(frozen=True, slots=True)
@@ -94,7 +125,9 @@ def _frames(design: Design, arbor: str) -> list[str | None]:
     """Frames in which this arbor's axis stands still: its home frame, then the
     rotating frames of every member of its coaxial group (those turn about it)."""
     root = axis_root(design, arbor)
-    group = [a.name for a in design.arbors if axis_root(design, a.name) == root]
+    group = [root]
+    for name in group:  # the tubes around each member, outwards (depth is bounded)
+        group.extend(design.sleeves_on(name))
     return [design.carrier_arbor(root)] + sorted(group)
 
 
@@ -176,12 +209,78 @@ def _rate_from(eqs: list[Equation], use: set[int], arbor: str) -> Fraction | Non
     return None if rates is None else rates.get(arbor)
 
 
+#: Equations beyond which a conflict is explained by propagation alone: the exact
+#: search for shortest paths solves the system once per equation it tries to drop,
+#: which grows with the cube of a train's length.
+_EXPLAIN_LIMIT = 64
+#: Conflicts explained with both paths; further ones name the closing link only.
+_CONFLICTS_EXPLAINED = 20
+
+
+def _propagate(
+    eqs: list[Equation], use: set[int]
+) -> tuple[dict[str, Fraction], dict[str, int]]:
+    """Rates fixed one equation at a time (each with a single unknown left), and the
+    equation that fixed each: linear in the size of the equations.
+
+    Complete for chains and compound trains; an epicyclic loop whose rates follow only
+    from two equations together is left to the elimination.
+    """
+    unknown = {i: len(eqs[i].coeffs) for i in use}
+    holding: dict[str, list[int]] = {}
+    for i in sorted(use):
+        for k, _ in eqs[i].coeffs:
+            holding.setdefault(k, []).append(i)
+    rates: dict[str, Fraction] = {}
+    why: dict[str, int] = {}
+    todo = [i for i in sorted(use) if unknown[i] == 1]
+    while todo:
+        i = todo.pop(0) if len(todo) < 64 else todo.pop()
+        eq = eqs[i]
+        free = [(k, c) for k, c in eq.coeffs if k not in rates]
+        if len(free) != 1:
+            continue
+        k, c = free[0]
+        rates[k] = (eq.rhs - sum(v * rates[n] for n, v in eq.coeffs if n != k)) / c
+        why[k] = i
+        for j in holding[k]:
+            unknown[j] -= 1
+            if unknown[j] == 1:
+                todo.append(j)
+    return rates, why
+
+
+def _derivation(eqs: list[Equation], use: set[int], arbor: str) -> set[int] | None:
+    """The equations that fix ``arbor`` by propagation within ``use``, or None."""
+    _, why = _propagate(eqs, use)
+    if arbor not in why:
+        return None
+    path: set[int] = set()
+    todo = [why[arbor]]
+    while todo:
+        i = todo.pop()
+        if i in path:
+            continue
+        path.add(i)
+        todo.extend(why[k] for k, _ in eqs[i].coeffs if k in why and why[k] != i)
+    return path
+
+
 def _shortest(
     eqs: list[Equation], use: set[int], arbor: str, keep: int | None
 ) -> set[int]:
-    """Drop equations (last first) while the rest still fix the arbor's rate: one path."""
-    path = set(use)
-    for j in sorted(use, reverse=True):
+    """Drop equations (last first) while the rest still fix the arbor's rate: one path.
+
+    The search starts from the propagation's path where there is one; a path longer
+    than :data:`_EXPLAIN_LIMIT` is taken as it is.
+    """
+    start = _derivation(eqs, use, arbor)
+    path = set(use) if start is None else start
+    if keep is not None and keep in use:
+        path.add(keep)
+    if len(path) > _EXPLAIN_LIMIT:
+        return path
+    for j in sorted(path, reverse=True):
         if j != keep and _rate_from(eqs, path - {j}, arbor) is not None:
             path.discard(j)
     return path
@@ -195,7 +294,11 @@ def solve_rates(design: Design) -> TrainSolution:
     for i, eq in enumerate(eqs):
         bad_row = system.add(dict(eq.coeffs), {_ONE: eq.rhs}, i)
         if bad_row is not None:
-            conflicts.append(_explain(design, eqs, i, bad_row.sources - {i}))
+            if len(conflicts) < _CONFLICTS_EXPLAINED:
+                conflicts.append(_explain(design, eqs, i, bad_row.sources - {i}))
+            else:  # a train locked in many places: the first ones say enough
+                names = [k for k, _ in eq.coeffs]
+                conflicts.append(Conflict(names[-1], None, (), None, (eq.label,)))
     rates: dict[str, Fraction | None] = {a.name: None for a in design.arbors}
     for pivot, rhs in system.solved().items():
         rates[pivot] = rhs.get(_ONE, Fraction(0))
@@ -213,8 +316,13 @@ def _explain(
     that fixes it through the new equation ``index`` once one link of path one is cut.
     """
     eq = eqs[index]
-    earlier = _solve_subset(eqs, set(others)) or {}
     names = [k for k, _ in eq.coeffs]
+    large = len(others) > _EXPLAIN_LIMIT
+    earlier: dict[str, Fraction] = {}
+    if large:
+        earlier = _propagate(eqs, set(others))[0]
+    if not all(k in earlier for k in names):
+        earlier = _solve_subset(eqs, set(others)) or {}
 
     def labels(path: set[int]) -> tuple[str, ...]:
         return tuple(eqs[i].label for i in sorted(path))
@@ -225,6 +333,12 @@ def _explain(
             continue
         one = _shortest(eqs, set(others), target, None)
         everything = set(others) | {index}
+        if large:
+            # each cut below solves the whole system again: for a long train, name the
+            # closing link as the second path instead
+            coeff = dict(eq.coeffs)[target]
+            implied = (eq.rhs - sum(c * earlier[k] for k, c in rest)) / coeff
+            return Conflict(target, earlier[target], labels(one), implied, (eq.label,))
         # Cut a mesh or coupling before an anchor (the drive, a fixed arbor): without
         # its anchor a closed loop of meshes still "fixes" every rate, at zero.
         for cut in sorted(one, key=lambda i: (len(eqs[i].coeffs) == 1, i)):

@@ -37,6 +37,7 @@ from ..teeth.spec import ToothSpec, outline_for
 from .pinslot_geometry import pin_boss
 from .placement import nominal_tip_radius, tooth_spec
 from .plan import Layout
+from .proximity import overlapping_pairs
 
 __all__ = [
     "CONTACT_TOLERANCE",
@@ -204,20 +205,36 @@ def _polygon_depth(pa: np.ndarray, pb: np.ndarray) -> float:
     return depth
 
 
+def _reach_boxes(layout: Layout, items: list[Body]) -> tuple[np.ndarray, np.ndarray]:
+    """Boxes (x, y, z) that hold each body wherever its carrier turns it (mm)."""
+    low = np.empty((len(items), 3))
+    high = np.empty((len(items), 3))
+    centres: dict[str, tuple[np.ndarray, float]] = {}
+    for k, body in enumerate(items):
+        if body.axis not in centres:
+            centres[body.axis] = _centre(layout, body.axis)
+        c, eccentric = centres[body.axis]
+        reach = eccentric + body.radius
+        low[k] = (c[0] - reach, c[1] - reach, body.z0)
+        high[k] = (c[0] + reach, c[1] + reach, body.z1)
+    return low, high
+
+
 def find_clashes(layout: Layout, rates: dict[str, Fraction | None]) -> list[Clash]:
     """Every pair of bodies on different axes that overlap (mm); ``rates`` per arbor."""
     design = layout.design
     meshes = {frozenset(m.pair) for m in design.meshes}
     items = bodies(layout)
     clashes: list[Clash] = []
-    for i, a in enumerate(items):
-        for b in items[i + 1 :]:
-            z0, z1 = max(a.z0, b.z0), min(a.z1, b.z1)
-            if z1 - z0 <= CONTACT_TOLERANCE or _skip(design, a, b, meshes):
-                continue
-            depth = _depth(layout, rates, a, b)
-            if depth > CONTACT_TOLERANCE:
-                clashes.append(Clash(a, b, depth, z0, z1))
+    # only bodies whose reach overlaps by more than the tolerance can clash
+    for i, j in overlapping_pairs(*_reach_boxes(layout, items), CONTACT_TOLERANCE):
+        a, b = items[i], items[j]
+        z0, z1 = max(a.z0, b.z0), min(a.z1, b.z1)
+        if _skip(design, a, b, meshes):
+            continue
+        depth = _depth(layout, rates, a, b)
+        if depth > CONTACT_TOLERANCE:
+            clashes.append(Clash(a, b, depth, z0, z1))
     return clashes
 
 
@@ -294,20 +311,22 @@ def _nearest_approach(layout: Layout, a: str, b: str) -> float:
     return _approach(layout, a, b)[0]
 
 
-def _approach(layout: Layout, a: str, b: str) -> tuple[float, float]:
-    """Smallest and largest distance (mm) between two axes that circle carriers."""
+def _centre(layout: Layout, root: str) -> tuple[np.ndarray, float]:
+    """The point an axis root circles (its own position if not carried) and how far
+    from it the axis runs (mm)."""
     design = layout.design
     pos = layout.placing.positions
+    frame = _frame(design, root)
+    if frame is None:
+        return np.array(pos[root]), 0.0
+    c = np.array(pos[axis_root(design, frame)])
+    return c, float(np.hypot(*(np.array(pos[root]) - c)))
 
-    def centre(root: str) -> tuple[np.ndarray, float]:
-        frame = _frame(design, root)
-        if frame is None:
-            return np.array(pos[root]), 0.0
-        c = np.array(pos[axis_root(design, frame)])
-        return c, float(np.hypot(*(np.array(pos[root]) - c)))
 
-    ca, ea = centre(a)
-    cb, eb = centre(b)
+def _approach(layout: Layout, a: str, b: str) -> tuple[float, float]:
+    """Smallest and largest distance (mm) between two axes that circle carriers."""
+    ca, ea = _centre(layout, a)
+    cb, eb = _centre(layout, b)
     apart = float(np.hypot(*(ca - cb)))
     far = apart + ea + eb
     if eb == 0.0:
@@ -389,8 +408,16 @@ def find_pin_clashes(
     """
     items = bodies(layout)
     clashes: list[PinClash] = []
+    low, high = _reach_boxes(layout, items)
     for sweep in pin_sweeps(layout):
-        for body in items:
+        # only bodies whose reach meets the ring's can touch it
+        c, eccentric = _centre(layout, sweep.axis)
+        reach = eccentric + sweep.outer
+        ring_low = np.array([c[0] - reach, c[1] - reach, sweep.z0])
+        ring_high = np.array([c[0] + reach, c[1] + reach, sweep.z1])
+        overlap = np.minimum(high, ring_high) - np.maximum(low, ring_low)
+        near = np.flatnonzero(np.all(overlap > CONTACT_TOLERANCE, axis=1))
+        for body in (items[k] for k in near):
             if body.kind == "teeth" and body.wheel == sweep.slot_wheel:
                 continue
             z0, z1 = max(sweep.z0, body.z0), min(sweep.z1, body.z1)

@@ -58,8 +58,8 @@ def carried_holes(
     return tuple(
         (a.name, *_turned(a.at[0], a.at[1], -angle_deg),
          round(running_bore(design.process, a.diameter).diameter, 6))
-        for a in design.arbors
-        if a.carrier == wheel.name and a.at is not None
+        for a in design.carried_by(wheel.name)
+        if a.at is not None
     )  # fmt: skip
 
 

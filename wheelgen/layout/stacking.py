@@ -34,11 +34,14 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
+import numpy as np
+
 from ..design.model import Design
 from ..design.model import Seat as SeatShape
 from ..kinematics.rates import axis_root
 from .front import DisplayLevels, display_levels
 from .placement import nominal_tip_radius, tooth_spec
+from .proximity import overlapping_pairs
 from .sleeves import SleeveSize, coaxial_groups, member_outside
 
 __all__ = [
@@ -262,15 +265,23 @@ def stack_axes(
         for p in design.pinslots
     }
     split: dict[str, str] = {}
-    for i, a in enumerate(mounted):
-        for b in mounted[i + 1 :]:
-            d = math.dist(positions[a], positions[b])
-            if d < radius[a] + radius[b] or frozenset((a, b)) in coupled:
-                za = _mean_z(spans[a])
-                zb = _mean_z(spans[b])
-                lower, upper = (a, b) if za <= zb else (b, a)
-                split[lower], split[upper] = "back", "front"
-                one_plate.extend([(lower, upper, d), (upper, lower, d)])
+    index = {name: k for k, name in enumerate(mounted)}
+    centre = np.array([positions[a] for a in mounted], dtype=float).reshape(-1, 2)
+    reach = np.array([radius[a] for a in mounted], dtype=float)[:, None]
+    pairs = set(overlapping_pairs(centre - reach, centre + reach))
+    for pair in coupled:
+        ends = sorted(index[r] for r in pair if r in index)
+        if len(ends) == 2:
+            pairs.add((ends[0], ends[1]))
+    for i, j in sorted(pairs):
+        one, two = mounted[i], mounted[j]
+        d = math.dist(positions[one], positions[two])
+        if d < radius[one] + radius[two] or frozenset((one, two)) in coupled:
+            za = _mean_z(spans[one])
+            zb = _mean_z(spans[two])
+            lower, upper = (one, two) if za <= zb else (two, one)
+            split[lower], split[upper] = "back", "front"
+            one_plate.extend([(lower, upper, d), (upper, lower, d)])
     barred: list[tuple[str, str, str, float]] = []
     for root, (plate, wheel, d, depth) in _barred(
         design, spans, positions, mounted, plate_z

@@ -8,6 +8,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
+from functools import lru_cache
 
 from .outline import WheelOutline
 
@@ -87,8 +88,13 @@ def thinning_for(backlash: float) -> float:
     return backlash / 2.0
 
 
+@lru_cache(maxsize=256)
 def outline_for(spec: ToothSpec) -> WheelOutline:
-    """The wheel outline of ``spec``: generated involute or triangular teeth."""
+    """The wheel outline of ``spec``: generated involute or triangular teeth.
+
+    Outlines are kept for the specs asked most recently: a large train repeats its
+    wheels, and every check asks again. Treat the result as read-only.
+    """
     if spec.form == "involute":
         from .involute_tooth import involute_outline
 
