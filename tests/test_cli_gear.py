@@ -111,13 +111,18 @@ def test_undercut_and_pointed_warnings_in_text():
 @pytest.mark.parametrize(
     ("args", "message"),
     [
-        (["-z", "2", "-m", "1"], "'teeth' must be at least 3"),
-        (["-z", "20", "-m", "-1"], "'module' must be > 0 mm"),
+        (["-z", "2", "-m", "1"], "allowed: a whole number from 3 to 2000"),
+        (["-z", "20", "-m", "-1"], "allowed: a number from 0.05 to 50 mm"),
+        (["-z", "20", "-m", "nan"], "allowed: a number from 0.05 to 50 mm"),
+        (["-z", "20", "-m", "1", "--pin", "nan"], "'--pin': nan is out of range"),
+        (["-z", "20", "-m", "1", "--pin", "1e999999"], "1e999999 is out of range"),
+        (["-z", "20", "-m", "1", "--backlash", "inf"], "from 0 to 10 mm"),
+        (["-z", "1" + "0" * 5000, "-m", "1"], "too long to be a number"),
         (["-z", "4", "-m", "1", "--shift", "-0.5"], "cuts through the root"),
         (["-z", "20", "-m", "1", "--centre-distance", "30"], "needs '--mate'"),
         (
             ["-z", "20", "-m", "1", "--mate", "20", "--centre-distance", "5"],
-            "centre_distance",
+            "'--centre-distance' must be more than",
         ),
     ],
 )

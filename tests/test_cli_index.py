@@ -96,11 +96,15 @@ def test_angle():
 
 def test_bad_input_exits_2_without_traceback():
     for args, message in [
-        (("1",), "'teeth' must be at least 2, got 1"),
+        (("1",), "1 is out of range; allowed: a whole number from 2 to 10000"),
+        (("127", "--ratio", "1e7"), "allowed: a whole number from 1 to 1000"),
+        (("127", "--ratio", "nan"), "'nan' is not a whole number"),
+        (("127", "--plates", "15," * 200 + "16"), "'plates' may list at most 100"),
+        (("--angle", "1e999999"), "power of ten beyond 30"),
         (("127", "--plates", "15,,16"), "'plates' must be a comma-separated list"),
         (("127", "--plates", "gold"), "'plates' must be one of 'three-plate'"),
         (("127", "--gears", "24,x"), "'gears' must be a comma-separated list"),
-        (("127", "--ratio", "0"), "'ratio' must be at least 1, got 0"),
+        (("127", "--ratio", "0"), "0 is out of range; allowed: a whole number from 1"),
         (("127", "--angle", "3"), "give either TEETH or --angle"),
         ((), "give either TEETH or --angle"),
     ]:

@@ -318,13 +318,18 @@ def test_angle_setting_decimal_and_not_found():
 @pytest.mark.parametrize(
     ("kwargs", "message"),
     [
-        ({"teeth": 1}, "'teeth' must be at least 2, got 1"),
+        ({"teeth": 1}, "'teeth' must be a whole number from 2 to 10000 divisions"),
         ({"teeth": 12.0}, "'teeth' must be a whole number"),
         ({"teeth": True}, "'teeth' must be a whole number"),
-        ({"teeth": 12, "ratio": 0}, "'ratio' must be at least 1, got 0"),
+        ({"teeth": 12, "ratio": 0}, "'ratio' must be a whole number from 1 to 1000"),
+        (
+            {"teeth": 12, "ratio": 10**7},
+            "'ratio' must be a whole number from 1 to 1000",
+        ),
         ({"teeth": 12, "plates": ()}, "'plates' must hold at least one hole circle"),
-        ({"teeth": 12, "plates": (15, 1)}, "'plates' must be a whole number >= 2"),
-        ({"teeth": 12, "gears": (24, 0)}, "'gears' must be a whole number >= 1"),
+        ({"teeth": 12, "plates": (15, 1)}, "'plates' must be a whole number from 2"),
+        ({"teeth": 12, "gears": (24, 0)}, "'gears' must be a whole number from 8"),
+        ({"teeth": 12, "gears": (24,) * 17}, "'gears' may hold at most 16 entries"),
     ],
 )
 def test_bad_arguments_raise_value_error(kwargs, message):
@@ -337,6 +342,10 @@ def test_angle_must_be_positive():
         angle_setting(0)
     with pytest.raises(ValueError, match="'angle_deg' must be a number of degrees"):
         angle_setting("ten")
+    with pytest.raises(ValueError, match="power of ten beyond 30"):
+        angle_setting("1e999999")  # read without building a million-digit integer
+    with pytest.raises(ValueError, match="'angle_deg' must be a number more than 0"):
+        angle_setting(720)
 
 
 def test_plate_and_gear_specs():
@@ -349,7 +358,7 @@ def test_plate_and_gear_specs():
     for bad in ("", "15,,16", "15,x", "1", "plates-of-gold"):
         with pytest.raises(ValueError, match="'plates'"):
             plate_set(bad)
-    with pytest.raises(ValueError, match="'gears' must be at least 8, got 5"):
+    with pytest.raises(ValueError, match="'gears' must be a whole number from 8 to"):
         gear_set("24,5")
 
 

@@ -21,6 +21,7 @@ from ._common import (
     echo_json,
     load_or_exit,
 )
+from ._options import Bounded
 
 __all__ = ["DEFAULT_DESIGN", "build_command"]
 
@@ -58,7 +59,7 @@ def _parse_formats(text: str) -> tuple[str, ...]:
 @click.option(
     "--jobs",
     "-j",
-    type=click.IntRange(1, 64),
+    type=Bounded("option.build.jobs"),
     default=1,
     show_default=True,
     help="Build parts in this many processes (same files for any number).",
@@ -70,7 +71,7 @@ def _parse_formats(text: str) -> tuple[str, ...]:
 )
 @click.option(
     "--tolerance",
-    type=click.FloatRange(0.0005, 1.0),
+    type=Bounded("option.build.tolerance"),
     default=0.01,
     show_default=True,
     help="Largest chord deviation of STL/3MF meshes, and of DXF arcs from the "

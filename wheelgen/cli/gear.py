@@ -15,6 +15,7 @@ from ..teeth.gear_data import GearData, gear_data
 from ..teeth.mesh_data import MeshData, mesh_data
 from ..teeth.spec import ToothSpec, outline_for, thinning_for
 from ._common import EXIT_OK, echo_json, fail
+from ._options import Bounded
 
 __all__ = ["gear_command"]
 
@@ -121,6 +122,29 @@ def _mesh_lines(mesh: MeshData) -> list[str]:
     return lines
 
 
+# The library names its parameters; the user typed options.
+_OPTION_OF = {
+    "'teeth'": "'--teeth'",
+    "'module'": "'--module'",
+    "'pressure_angle_deg'": "'--pressure-angle'",
+    "'tooth_angle_deg'": "'--tooth-angle'",
+    "'shift'": "'--shift'",
+    "'addendum'": "'--addendum'",
+    "'dedendum'": "'--dedendum'",
+    "'root_radius'": "'--root-radius'",
+    "'tip_radius'": "'--tip-radius'",
+    "'thinning'": "'--backlash' (half of it on each wheel)",
+    "'pin_diameter'": "'--pin'",
+    "'centre_distance'": "'--centre-distance'",
+}
+
+
+def _in_option_words(message: str) -> str:
+    for name, option in _OPTION_OF.items():
+        message = message.replace(name, option)
+    return message
+
+
 def _clean(values: dict[str, Any]) -> dict[str, Any]:
     out: dict[str, Any] = {}
     for key, value in values.items():
@@ -132,13 +156,30 @@ def _clean(values: dict[str, Any]) -> dict[str, Any]:
     return out
 
 
-@click.option("--teeth", "-z", type=int, required=True, help="Number of teeth.")
-@click.option("--module", "-m", "module", type=float, required=True, help="Module, mm.")
 @click.option(
-    "--pressure-angle", type=float, default=20.0, show_default=True, help="Degrees."
+    "--teeth", "-z", type=Bounded("teeth"), required=True, help="Number of teeth."
 )
 @click.option(
-    "--shift", type=float, default=0.0, show_default=True, help="Profile shift x."
+    "--module",
+    "-m",
+    "module",
+    type=Bounded("module"),
+    required=True,
+    help="Module, mm.",
+)
+@click.option(
+    "--pressure-angle",
+    type=Bounded("pressure_angle"),
+    default=20.0,
+    show_default=True,
+    help="Degrees.",
+)
+@click.option(
+    "--shift",
+    type=Bounded("shift"),
+    default=0.0,
+    show_default=True,
+    help="Profile shift x.",
 )
 @click.option(
     "--form",
@@ -148,44 +189,59 @@ def _clean(values: dict[str, Any]) -> dict[str, Any]:
 )
 @click.option(
     "--tooth-angle",
-    type=float,
+    type=Bounded("tooth_angle"),
     default=60.0,
     show_default=True,
     help="Triangular teeth: included tooth angle, degrees.",
 )
 @click.option(
-    "--addendum", type=float, default=1.0, show_default=True, help="x module."
+    "--addendum",
+    type=Bounded("addendum"),
+    default=1.0,
+    show_default=True,
+    help="x module.",
 )
 @click.option(
-    "--dedendum", type=float, default=1.25, show_default=True, help="x module."
+    "--dedendum",
+    type=Bounded("dedendum"),
+    default=1.25,
+    show_default=True,
+    help="x module.",
 )
 @click.option(
     "--root-radius",
-    type=float,
+    type=Bounded("root_radius"),
     default=None,
     help="Rack tip radius (involute) or root rounding (triangular), x module.  "
     "[default: 0.38 involute, 0.1 triangular]",
 )
 @click.option(
     "--tip-radius",
-    type=float,
+    type=Bounded("tip_radius"),
     default=0.0,
     show_default=True,
     help="Tip rounding of triangular teeth, x module.",
 )
 @click.option(
     "--backlash",
-    type=float,
+    type=Bounded("play"),
     default=0.0,
     show_default=True,
     help="Backlash each wheel asks of its meshes, mm (as the train file's "
     "'backlash'): half of it comes off each wheel's teeth.",
 )
-@click.option("--pin", "pin", type=float, default=None, help="Pin diameter, mm.")
-@click.option("--mate", type=int, default=None, help="Teeth of the mating wheel.")
-@click.option("--mate-shift", type=float, default=0.0, show_default=True)
 @click.option(
-    "--centre-distance", type=float, default=None, help="Mesh at this distance, mm."
+    "--pin", "pin", type=Bounded("size"), default=None, help="Pin diameter, mm."
+)
+@click.option(
+    "--mate", type=Bounded("teeth"), default=None, help="Teeth of the mating wheel."
+)
+@click.option("--mate-shift", type=Bounded("shift"), default=0.0, show_default=True)
+@click.option(
+    "--centre-distance",
+    type=Bounded("size"),
+    default=None,
+    help="Mesh at this distance, mm.",
 )
 @click.option("--json", "as_json", is_flag=True, help="Print one JSON object.")
 @click.option(
@@ -220,8 +276,6 @@ def _gear(
     undercut limit; for a pair the working centre distance and pressure angle,
     contact ratio, clearance, backlash and interference.
     """
-    if backlash < 0:
-        fail(f"'--backlash' must be >= 0 mm, got {backlash}")
     # as in a train file: each wheel gives half the play it asks of its meshes
     thinning = thinning_for(backlash)
     if root_radius is None:
@@ -263,7 +317,7 @@ def _gear(
                 outline_for(spec), title=f"{teeth} teeth, module {module:g} mm, {form}"
             )
     except ValueError as exc:
-        fail(str(exc))
+        fail(_in_option_words(str(exc)))
     if svg_path is not None and svg_text is not None:
         try:
             Path(svg_path).write_text(svg_text, encoding="utf-8")

@@ -9,6 +9,7 @@ import click
 from ..workshop.indexing import AngleSetting, IndexPlan, angle_setting, indexing_plan
 from ..workshop.plates import DEFAULT_PLATES, PLATE_SETS, gear_set, plate_set
 from ._common import EXIT_FINDINGS, EXIT_OK, echo_json, fail
+from ._options import Bounded
 
 __all__ = ["index_command"]
 
@@ -145,9 +146,13 @@ _PLATE_HELP = (
 
 
 @click.command("index")
-@click.argument("teeth", type=int, required=False)
+@click.argument("teeth", type=Bounded("option.index.divisions"), required=False)
 @click.option(
-    "--ratio", type=int, default=40, show_default=True, help="Worm ratio of the head."
+    "--ratio",
+    type=Bounded("option.index.ratio"),
+    default=40,
+    show_default=True,
+    help="Worm ratio of the head.",
 )
 @click.option("--plates", default=DEFAULT_PLATES, show_default=True, help=_PLATE_HELP)
 @click.option(

@@ -11,10 +11,18 @@ from typing import Any
 import click
 import numpy as np
 
+from ..design.bounds import BOUNDS
 from ..design.model import Design
 from ..design.periods import format_period
-from ..kinematics.angles import AngleModel, angle_model, arbor_angles, arbor_deviations
+from ..kinematics.angles import (
+    AngleModel,
+    angle_model,
+    arbor_angles,
+    arbor_deviations,
+    drive_angle_deg,
+)
 from ._common import EXIT_FINDINGS, EXIT_OK, echo_json, fail, load_or_exit
+from ._options import Bounded
 
 __all__ = ["motion_command"]
 
@@ -22,6 +30,8 @@ __all__ = ["motion_command"]
 # smooth extreme sampled every 0.05 degree is found to about 1e-7 degree.
 _PER_DEGREE = 20
 _MAX_POINTS = 400_001
+# Values (samples x arbors) held at once while looking for the extremes.
+_CELLS = 4_000_000
 
 
 def _span(
@@ -56,27 +66,48 @@ def _extremes(
     sweep = fastest * 360.0 * span_s / float(design.drive.period_s)
     count = int(min(_MAX_POINTS, max(2001, _PER_DEGREE * sweep + 1)))
     t = np.linspace(0.0, span_s, count)
-    devs = arbor_deviations(design, t, model)
-    angles = arbor_angles(design, t, model)
+    # a slice of the times at a time, so that thousands of uneven arbors never need
+    # all their samples at once (about _CELLS values per slice)
+    step = max(1000, _CELLS // max(1, len(names) + len(model.couplings)))
+    best: dict[str, list[float]] = {a: [-np.inf, 0.0, np.inf, 0.0] for a in names}
+    for start in range(0, count, step):
+        part = t[start : start + step]
+        devs = arbor_deviations(design, part, model, names)
+        for a in names:
+            lead = (-1.0 if model.rates[a] < 0 else 1.0) * devs[a]
+            i, j = int(np.argmax(lead)), int(np.argmin(lead))
+            top = best[a]
+            if lead[i] > top[0]:
+                top[0], top[1] = float(lead[i]), float(part[i])
+            if lead[j] < top[2]:
+                top[2], top[3] = float(lead[j]), float(part[j])
     rows = []
     for a in names:
         rate = model.rates[a]
-        sense = -1.0 if rate < 0 else 1.0
-        lead = sense * devs[a]
-        i, j = int(np.argmax(lead)), int(np.argmin(lead))
+        lead_max, lead_t, lag_min, lag_t = best[a]
+        at = _angles_at(design, model, a, np.array([lead_t, lag_t]))
         rows.append(
             {
                 "arbor": a,
                 "turns_per_drive_turn": str(rate),
-                "max_lead_deg": max(float(lead[i]), 0.0),
-                "lead_at_s": float(t[i]),
-                "lead_arbor_angle_deg": float(np.mod(angles[a][i], 360.0)),
-                "max_lag_deg": max(-float(lead[j]), 0.0),
-                "lag_at_s": float(t[j]),
-                "lag_arbor_angle_deg": float(np.mod(angles[a][j], 360.0)),
+                "max_lead_deg": max(lead_max, 0.0),
+                "lead_at_s": lead_t,
+                "lead_arbor_angle_deg": float(np.mod(at[0], 360.0)),
+                "max_lag_deg": max(-lag_min, 0.0),
+                "lag_at_s": lag_t,
+                "lag_arbor_angle_deg": float(np.mod(at[1], 360.0)),
             }
         )
     return rows
+
+
+def _angles_at(
+    design: Design, model: AngleModel, arbor: str, times_s: np.ndarray
+) -> np.ndarray:
+    """One arbor's angle (degrees) at ``times_s``."""
+    drive = drive_angle_deg(design, times_s)
+    dev = arbor_deviations(design, times_s, model, [arbor])[arbor]
+    return float(model.rates[arbor]) * drive + dev
 
 
 def _write_csv(
@@ -169,14 +200,14 @@ def _rest_angles(design: Design) -> dict[str, float]:
 )
 @click.option(
     "--turns",
-    type=click.FloatRange(min=0.0, min_open=True),
+    type=Bounded("option.motion.turns"),
     default=1.0,
     show_default=True,
     help="Span: turns of --arbor, else cycles of the slowest coupling.",
 )
 @click.option(
     "--samples",
-    type=click.IntRange(min=2),
+    type=Bounded("option.motion.samples"),
     default=721,
     show_default=True,
     help="Rows in the CSV table and points in the plot.",
@@ -234,8 +265,16 @@ def motion_command(
     t = np.linspace(0.0, span_s, samples)
     table_names = [arbor] if arbor is not None else list(model.rates)
     if csv_path is not None or plot_path is not None:
-        angles = arbor_angles(d, t, model)
-        devs = arbor_deviations(d, t, model)
+        cells = BOUNDS["option.motion.table"]
+        shown = set(table_names if csv_path is not None else uneven)
+        if not cells.holds(samples * len(shown)):
+            fail(
+                f"--samples {samples} for {len(shown)} arbors make "
+                f"{samples * len(shown)} values; allowed: {cells.allowed()}. "
+                f"Why: {cells.reason}. Use fewer --samples, or --arbor NAME."
+            )
+        angles = arbor_angles(d, t, model, shown)
+        devs = arbor_deviations(d, t, model, shown)
         try:
             if csv_path is not None:
                 _write_csv(Path(csv_path), t, table_names, angles, devs)

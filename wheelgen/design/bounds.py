@@ -275,6 +275,10 @@ BOUNDS: dict[str, Bound] = {
         2, 100_000, "samples", "100000 rows per arbor is more than a plot or a "
         "spreadsheet shows, and keeps the table in memory", whole=True,
     ),
+    "option.motion.table": Bound(
+        1, 2_000_000, "values", "samples times arbors in a CSV table or a plot: two "
+        "million values is more than a spreadsheet opens", whole=True,
+    ),
     "option.index.divisions": Bound(
         2, 10_000, "divisions", "a dividing head is read to one hole space: beyond "
         "10000 divisions the steps are too small to set", whole=True,
@@ -296,7 +300,7 @@ BOUNDS: dict[str, Bound] = {
         "practice, no source)", whole=True,
     ),
     "option.index.gears": Bound(
-        0, 24, "gears", "a set of change gears holds about a dozen; the search tries "
+        0, 16, "gears", "a set of change gears holds about a dozen; the search tries "
         "every train of up to four of them", whole=True,
     ),
     "option.index.angle": Bound(

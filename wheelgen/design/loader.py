@@ -291,7 +291,23 @@ def _period_text(v: Any) -> str | None:
     return None if isinstance(v, str) else 'text such as "1 d" or "27.321661 d"'
 
 
+#: Problems described in full; a file with more is mostly not a train file.
+_PROBLEMS_SHOWN = 100
+
 _ORDINAL = {1: "st", 2: "nd", 3: "rd"}
+
+
+def _show_number(v: float) -> str:
+    return f"{v:g}"
+
+
+def _listed(names: Any, shown: int = 20) -> str:
+    """Names in quotes, the first ``shown`` of them: a large train has thousands."""
+    names = list(names)
+    if not names:
+        return "(none defined)"
+    text = ", ".join(f'"{n}"' for n in names[:shown])
+    return text if len(names) <= shown else f"{text} and {len(names) - shown} more"
 
 
 def _ordinal(n: int) -> str:
@@ -400,6 +416,7 @@ class _Loader:
             "pinslot": set(),
         }
         self.arbor_tables = 0  # how many [[arbor]] tables the file has, broken or not
+        self.left_out = 0  # problems found after the first _PROBLEMS_SHOWN
 
     # -- reporting -------------------------------------------------------------------
     def where(self, table: str, index: int, item: str, key: str = "") -> Where:
@@ -416,7 +433,27 @@ class _Loader:
         return Where(self.file, where.item, key, line)
 
     def problem(self, where: Where, found: str, allowed: str, hint: str = "") -> None:
+        if self.full():
+            self.left_out += 1
+            return
         self.problems.append(Problem(where, found, allowed, hint))
+
+    def full(self) -> bool:
+        """Enough problems to report: later ones are counted, not described."""
+        return len(self.problems) >= _PROBLEMS_SHOWN
+
+    def error(self) -> DesignError:
+        """Every problem found, and how many more were left out."""
+        problems = list(self.problems)
+        if self.left_out:
+            problems.append(
+                Problem(
+                    Where(self.file),
+                    f"{self.left_out} more problems, not listed",
+                    "a file with fewer mistakes: fix the ones above and check again",
+                )
+            )
+        return DesignError(problems)
 
     # -- typed access ----------------------------------------------------------------
     def value(
@@ -489,6 +526,9 @@ class _Loader:
         unused = [k for k in known if k not in data]
         for key in data:
             if key in known:
+                continue
+            if self.full():  # a hint costs a comparison with every known key
+                self.left_out += 1
                 continue
             close = difflib.get_close_matches(
                 key, [k for k in required if k not in data], n=1, cutoff=0.5
@@ -584,7 +624,7 @@ class _Loader:
                 f"the file is not valid TOML ({msg})",
                 "TOML syntax, see docs/format.md",
             )
-            raise DesignError(self.problems) from None
+            raise self.error() from None
         except (ValueError, RecursionError) as exc:
             # tomllib lets these through: an integer of more than 4300 digits
             # (ValueError from int()) and brackets nested deeper than Python's stack.
@@ -598,7 +638,7 @@ class _Loader:
                 f"the file is not usable TOML ({found})",
                 "TOML syntax, see docs/format.md",
             )
-            raise DesignError(self.problems) from None
+            raise self.error() from None
 
         self.check_document(doc)
         self.unknown_keys(doc, TOP_KEYS, ("", 0, ""))
@@ -620,7 +660,7 @@ class _Loader:
         hands, dials, display, drive_input = read_display_tables(self, doc)
         self.cross_check(arbors, wheels, meshes, pinslots, drive, targets)
         if self.problems:
-            raise DesignError(self.problems)
+            raise self.error()
         assert drive is not None  # the cross check reported a missing drive
         design = Design(
             title=title,
@@ -662,7 +702,7 @@ class _Loader:
                 f"a train file of {limit.allowed()}",
                 f"Why: {limit.reason}.",
             )
-            raise DesignError(self.problems)
+            raise self.error()
         for m in _DEEP_KEY.finditer(self.text):
             if m.group("deep"):
                 line = self.text.count("\n", 0, m.start()) + 1
@@ -672,7 +712,7 @@ class _Loader:
                     f"keys and lists nested {BOUNDS['nesting'].allowed()}",
                     f"Why: {BOUNDS['nesting'].reason}.",
                 )
-                raise DesignError(self.problems)
+                raise self.error()
 
     def check_document(self, doc: dict[str, Any]) -> None:
         """Refuse a parsed file nested too deeply or with too many tables of a kind.
@@ -691,7 +731,7 @@ class _Loader:
                     f"keys and lists nested {nesting.allowed()}",
                     f"Why: {nesting.reason}.",
                 )
-                raise DesignError(self.problems)
+                raise self.error()
             children = value.values() if isinstance(value, dict) else value
             stack.extend(
                 (c, depth + 1) for c in children if isinstance(c, (dict, list))
@@ -706,7 +746,7 @@ class _Loader:
                     f"Why: {limit.reason}.",
                 )
         if self.problems:
-            raise DesignError(self.problems)
+            raise self.error()
 
     def design_table(self, doc: dict[str, Any]) -> tuple[str, str]:
         t = self.table(doc, "design", required=True)
@@ -755,7 +795,7 @@ class _Loader:
         ):
             self.problem(
                 self.where("process", 0, "[process]", "fit"),
-                f'fit = "{fit}"',
+                f"fit = {_show(fit)}",
                 'an ISO 286 fit such as "H7/g6", "H7/h6" or "H8/f7"',
             )
             values.pop("fit")
@@ -972,13 +1012,13 @@ class _Loader:
             value = parse_period(raw)
         except PeriodError as exc:
             self.problem(
-                self.where(*ctx, key), f'{key} = "{raw}": {exc}', _PERIOD_ALLOWED
+                self.where(*ctx, key), f"{key} = {_show(raw)}: {exc}", _PERIOD_ALLOWED
             )
             return None
         if not MIN_PERIOD_S <= value <= MAX_PERIOD_S:
             self.problem(
                 self.where(*ctx, key),
-                f'{key} = "{raw}" is out of range',
+                f"{key} = {_show(raw)} is out of range",
                 _PERIOD_ALLOWED,
             )
             return None
@@ -1100,6 +1140,9 @@ class _Loader:
                 fields["root_radius"] = ROOT_RADIUS_BY_FORM.get(fields["form"], 0.38)
             if fields["backlash"] is None:
                 fields["backlash"] = default_backlash(proc)
+            if not self.wheel_fits(fields, teeth, ("wheel", i, item)):
+                self.broken["wheel"].add(name)
+                continue
             out.append(
                 Wheel(
                     name=name,
@@ -1111,6 +1154,26 @@ class _Loader:
                 )
             )
         return out
+
+    def wheel_fits(
+        self, fields: dict[str, Any], teeth: int, ctx: tuple[str, int, str]
+    ) -> bool:
+        """Is the wheel, teeth included, within the ``wheel_diameter`` bound?"""
+        limit = BOUNDS["wheel_diameter"]
+        module = fields["module"]
+        shift = max(fields["shift"], 0.0) if fields["form"] == "involute" else 0.0
+        across = module * (teeth + 2 * (fields["addendum"] + shift))
+        if limit.holds(across):
+            return True
+        self.problem(
+            self.where(*ctx, "teeth"),
+            f"teeth = {teeth} at module {module:g} mm make a wheel {across:.0f} mm "
+            "across",
+            f"a wheel at most {_show_number(limit.high)} mm across (fewer teeth or a "
+            "smaller module)",
+            f"Why: {limit.reason}.",
+        )
+        return False
 
     def meshes(self, doc: dict[str, Any]) -> list[Mesh]:
         out = []
@@ -1137,12 +1200,12 @@ class _Loader:
                     'two wheel names, such as pair = ["w1", "w2"]',
                 )
                 continue
-            item = f'the {_ordinal(i + 1)} [[mesh]] ("{pair[0]}"-"{pair[1]}")'
+            item = f"the {_ordinal(i + 1)} [[mesh]] ({_show(pair[0])}-{_show(pair[1])})"
             ctx = ("mesh", i, item)
             if pair[0] == pair[1]:
                 self.problem(
                     self.where("mesh", i, item, "pair"),
-                    f'wheel "{pair[0]}" meshes with itself',
+                    f"wheel {_show(pair[0])} meshes with itself",
                     "two different wheels",
                 )
                 continue
@@ -1200,7 +1263,7 @@ class _Loader:
             if pin is not None and pin == slot:
                 self.problem(
                     self.where("pinslot", i, item, "slot"),
-                    f'wheel "{pin}" is both pin and slot',
+                    f"wheel {_show(pin)} is both pin and slot",
                     "two different wheels",
                 )
                 pin = None
@@ -1237,7 +1300,7 @@ class _Loader:
             )
             arbor = self.value(t, "arbor", "string", ctx, required=True)
             if arbor is not None:
-                item = f'the {_ordinal(i + 1)} [[target]] (arbor "{arbor}")'
+                item = f"the {_ordinal(i + 1)} [[target]] (arbor {_show(arbor)})"
                 ctx = ("target", i, item)
             period = self.period(t, "period", ctx)
             turns = self.turns(t, ctx)
@@ -1442,13 +1505,15 @@ class _Loader:
                 return True
             if name in self.broken.get(what, ()):
                 return False  # that item's own problem is reported already
+            if self.full():  # a hint costs a comparison with every name
+                self.left_out += 1
+                return False
             close = difflib.get_close_matches(name, list(pool), n=1, cutoff=0.5)
             w = self.at_key(where, key)
             self.problem(
                 w,
-                f'{what} "{name}" does not exist',
-                f"the name of one of the {what}s: "
-                + (", ".join(f'"{n}"' for n in pool) or "(none defined)"),
+                f"{what} {_show(name)} does not exist",
+                f"the name of one of the {what}s: " + _listed(pool),
                 f'Did you mean "{close[0]}"?' if close else "",
             )
             return False

@@ -5,7 +5,13 @@ from __future__ import annotations
 import re
 from fractions import Fraction
 
-__all__ = ["UNIT_SECONDS", "parse_period", "format_period", "PeriodError"]
+__all__ = [
+    "UNIT_SECONDS",
+    "parse_number",
+    "parse_period",
+    "format_period",
+    "PeriodError",
+]
 
 #: Seconds in one of each unit. ``yr`` is the Julian year of 365.25 days, as the
 #: train format says (derived: 365.25 * 86400).
@@ -25,6 +31,33 @@ _PERIOD = re.compile(rf"^\s*({_NUMBER}(?:\s*/\s*\d+)?)\s*([a-z]+)\s*$")
 
 class PeriodError(ValueError):
     """A period string that cannot be read; the message says what is allowed."""
+
+
+def parse_number(text: str) -> Fraction:
+    """Read a number written as people write it, exactly: ``"29.5"``, ``"1.2e3"``,
+    ``"254/19"``, ``"6939.602/19"``.
+
+    At most 40 characters and powers of ten from -30 to 30: ``Fraction("1e999999")``
+    would first build an integer of a million digits. Raises :class:`PeriodError` (a
+    ``ValueError``) saying what is wrong.
+    """
+    if not isinstance(text, str):
+        raise PeriodError(f"expected a number as text, got {text!r}")
+    number = text.strip()
+    if len(number) > _MAX_DIGITS:
+        raise PeriodError(
+            f"{number[:20]!r}... has more than {_MAX_DIGITS} characters in its number"
+        )
+    if re.fullmatch(rf"{_NUMBER}(?:\s*/\s*\d+)?", number) is None:
+        raise PeriodError(f"{number!r} is not a number such as 29.5, 1.2e3 or 254/19")
+    exponent = re.search(r"[eE]([+-]?\d+)", number)
+    if exponent is not None and abs(int(exponent.group(1))) > _MAX_EXPONENT:
+        raise PeriodError(f"{number!r} has a power of ten beyond {_MAX_EXPONENT}")
+    # Fraction() itself reads "254/19" but not "6939.602/19": divide the parts here.
+    top, _, bottom = number.replace(" ", "").partition("/")
+    if bottom and int(bottom) == 0:
+        raise PeriodError(f"{number!r} divides by zero")
+    return Fraction(top) / (Fraction(bottom) if bottom else 1)
 
 
 def parse_period(text: str) -> Fraction:
@@ -56,11 +89,10 @@ def parse_period(text: str) -> Fraction:
     if unit not in UNIT_SECONDS:
         units = ", ".join(UNIT_SECONDS)
         raise PeriodError(f"unknown unit {unit!r} in {text!r}; units are {units}")
-    # Fraction() itself reads "254/19" but not "6939.602/19": divide the parts here.
-    top, _, bottom = number.replace(" ", "").partition("/")
-    if bottom and int(bottom) == 0:
-        raise PeriodError(f"{text!r} divides by zero")
-    value = Fraction(top) / (Fraction(bottom) if bottom else 1)
+    try:
+        value = parse_number(number)
+    except PeriodError as exc:
+        raise PeriodError(f"{exc} in {text!r}") from None
     if value <= 0:
         raise PeriodError(f"{text!r} is not a positive period")
     return value * UNIT_SECONDS[unit]

@@ -29,6 +29,7 @@ from pathlib import Path
 from typing import Any
 
 from .. import __version__
+from ..design.bounds import BOUNDS
 from ..layout.part_plan import BOUGHT_KINDS, DISPLAY_KINDS, FLAT_KINDS
 from . import sheets
 from .cache import PartCache, cache_root_for, part_key
@@ -103,13 +104,12 @@ class BuildOptions:
                 f"'formats' must be some of {', '.join(FORMATS)},"
                 f" got {', '.join(bad) or 'none'}"
             )
-        if self.jobs < 1:
-            raise ValueError(f"'jobs' must be at least 1, got {self.jobs}")
-        if not 0.0005 <= self.mesh_tolerance <= 1.0:
-            raise ValueError(
-                "'mesh_tolerance' must be from 0.0005 to 1 mm,"
-                f" got {self.mesh_tolerance}"
-            )
+        for name, value, bound in (
+            ("jobs", self.jobs, BOUNDS["option.build.jobs"]),
+            ("mesh_tolerance", self.mesh_tolerance, BOUNDS["option.build.tolerance"]),
+        ):
+            if not bound.holds(value):
+                raise ValueError(f"'{name}' must be {bound.allowed()}, got {value!r}")
         if self.dxf_curves not in DXF_CURVES:
             raise ValueError(
                 f"'dxf_curves' must be one of {', '.join(DXF_CURVES)},"

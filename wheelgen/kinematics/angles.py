@@ -26,6 +26,7 @@ the drive turns once per ``design.drive.period_s`` in its ``sense``.
 
 from __future__ import annotations
 
+from collections.abc import Iterable
 from dataclasses import dataclass
 from fractions import Fraction
 
@@ -247,17 +248,25 @@ def coupling_deviations(
 
 
 def arbor_deviations(
-    design: Design, times_s: ArrayLike, model: AngleModel | None = None
+    design: Design,
+    times_s: ArrayLike,
+    model: AngleModel | None = None,
+    arbors: Iterable[str] | None = None,
 ) -> dict[str, FloatArray]:
     """Each driven arbor's angle minus its uniform angle (degrees) at ``times_s``.
 
     Positive is counter-clockwise; an arbor turning clockwise leads when negative.
+    ``arbors`` limits the result to those names (driven ones only); a train of
+    thousands of arbors need not hold all of them at every time.
     """
     model = angle_model(design) if model is None else model
     drive = drive_angle_deg(design, times_s)
     deltas = _evaluate(model, drive)
     out: dict[str, FloatArray] = {}
+    wanted = None if arbors is None else set(arbors)
     for a, t in model.terms.items():
+        if wanted is not None and a not in wanted:
+            continue
         dev = np.zeros_like(drive)
         for k, v in t.items():
             dev = dev + float(v) * deltas[k]
@@ -266,9 +275,12 @@ def arbor_deviations(
 
 
 def arbor_angles(
-    design: Design, times_s: ArrayLike, model: AngleModel | None = None
+    design: Design,
+    times_s: ArrayLike,
+    model: AngleModel | None = None,
+    arbors: Iterable[str] | None = None,
 ) -> dict[str, FloatArray]:
-    """Angle of every driven arbor at ``times_s`` (seconds from rest).
+    """Angle of every driven arbor (or of ``arbors``) at ``times_s`` (seconds from rest).
 
     Returns degrees, cumulative, counter-clockwise seen from the front, in the fixed
     frame: the exact mean rate times the drive's angle plus the propagated deviations of
@@ -276,5 +288,5 @@ def arbor_angles(
     """
     model = angle_model(design) if model is None else model
     drive = drive_angle_deg(design, times_s)
-    devs = arbor_deviations(design, times_s, model)
-    return {a: float(r) * drive + devs[a] for a, r in model.rates.items()}
+    devs = arbor_deviations(design, times_s, model, arbors)
+    return {a: float(r) * drive + devs[a] for a, r in model.rates.items() if a in devs}

@@ -19,13 +19,16 @@ Everything here is exact (``int``, ``Fraction``); nothing imports the CAD kernel
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass
 from fractions import Fraction
 from functools import lru_cache
 from itertools import permutations
 from typing import Any, Iterable, Literal
 
+from ..design.bounds import BOUNDS
 from ..design.model import RelativeSense
+from ..design.periods import parse_number
 from .plates import CHANGE_GEARS, THREE_PLATE
 
 __all__ = [
@@ -192,24 +195,33 @@ class AngleSetting:
     suggested_circle: int | None = None
 
 
-def _whole(value: object, name: str, minimum: int) -> int:
+def _whole(value: object, name: str, bound: str) -> int:
     if isinstance(value, bool) or not isinstance(value, int):
         raise ValueError(f"'{name}' must be a whole number, got {value!r}")
-    if value < minimum:
-        raise ValueError(f"'{name}' must be at least {minimum}, got {value}")
+    limit = BOUNDS[bound]
+    if not limit.holds(value):
+        raise ValueError(
+            f"'{name}' must be {limit.allowed()}, got {value} ({limit.reason})"
+        )
     return value
 
 
-def _counts(values: object, name: str, minimum: int) -> tuple[int, ...]:
+def _counts(values: object, name: str, each: str, count: str) -> tuple[int, ...]:
     if isinstance(values, (str, bytes)) or not isinstance(values, Iterable):
         raise ValueError(
             f"'{name}' must be a sequence of whole numbers, got {values!r}"
         )
     items = tuple(values)
+    limit, most = BOUNDS[each], BOUNDS[count]
+    if len(items) > most.high:
+        raise ValueError(
+            f"'{name}' may hold at most {int(most.high)} entries, got {len(items)} "
+            f"({most.reason})"
+        )
     for item in items:
-        if isinstance(item, bool) or not isinstance(item, int) or item < minimum:
+        if isinstance(item, bool) or not isinstance(item, int) or not limit.holds(item):
             raise ValueError(
-                f"each of '{name}' must be a whole number >= {minimum}, got {item!r}"
+                f"each of '{name}' must be {limit.allowed()}, got {item!r}"
             )
     return items
 
@@ -257,13 +269,23 @@ def work_turns_per_division(
     return crank_turns / (ratio - gear_ratio)
 
 
+def _divisors(n: int) -> set[int]:
+    small = [d for d in range(1, math.isqrt(n) + 1) if n % d == 0]
+    return set(small) | {n // d for d in small}
+
+
 @lru_cache(maxsize=32)
 def _indexable(ratio: int, plates: tuple[int, ...]) -> dict[int, _Setting]:
-    # Every count A with ratio/A simple on these plates. The fractional part's
-    # denominator q = A / gcd(A, ratio) must divide a circle, so A <= ratio * max
-    # circle.
+    # Every count A with ratio/A simple on these plates, in increasing order. With
+    # g = gcd(A, ratio), the fractional part's denominator q = A / g must divide a
+    # circle, so A = q * g with q dividing a circle and g dividing the ratio: only
+    # those products are tried (a few hundred), not every count up to ratio * circle.
+    ratio_divisors = _divisors(ratio)
+    counts = {q * g for c in plates for q in _divisors(c) for g in ratio_divisors}
     found = {}
-    for count in range(2, ratio * max(plates) + 1):
+    for count in sorted(counts):
+        if count < 2:
+            continue
         setting = crank_settings(Fraction(ratio, count), plates)
         if setting is not None:
             found[count] = setting
@@ -375,10 +397,16 @@ def indexing_plan(
     ValueError
         For a bad argument (``teeth`` < 2, an empty plate list, a non-integer count).
     """
-    teeth = _whole(teeth, "teeth", 2)
-    ratio = _whole(ratio, "ratio", 1)
-    plates = tuple(sorted(set(_counts(plates, "plates", 2))))
-    gears = tuple(sorted(_counts(gears, "gears", 1)))
+    teeth = _whole(teeth, "teeth", "option.index.divisions")
+    ratio = _whole(ratio, "ratio", "option.index.ratio")
+    plates = tuple(
+        sorted(
+            set(_counts(plates, "plates", "option.index.holes", "option.index.circles"))
+        )
+    )
+    gears = tuple(
+        sorted(_counts(gears, "gears", "option.index.gear_teeth", "option.index.gears"))
+    )
     if not plates:
         raise ValueError("'plates' must hold at least one hole circle, got none")
 
@@ -456,20 +484,32 @@ def angle_setting(
     AngleSetting
         One crank turn is 360/``ratio`` degrees of the work.
     """
-    ratio = _whole(ratio, "ratio", 1)
-    plates = tuple(sorted(set(_counts(plates, "plates", 2))))
+    ratio = _whole(ratio, "ratio", "option.index.ratio")
+    plates = tuple(
+        sorted(
+            set(_counts(plates, "plates", "option.index.holes", "option.index.circles"))
+        )
+    )
     if not plates:
         raise ValueError("'plates' must hold at least one hole circle, got none")
     try:
         # a float at its shortest repr, so 0.1 is 1/10 and not 3602879701896397/2**55
-        text = str(angle_deg) if isinstance(angle_deg, float) else angle_deg
-        angle = Fraction(text)
-    except (ValueError, ZeroDivisionError, TypeError):
+        if isinstance(angle_deg, (int, float)) and not isinstance(angle_deg, bool):
+            angle_deg = repr(angle_deg)
+        angle = (
+            angle_deg if isinstance(angle_deg, Fraction) else parse_number(angle_deg)
+        )
+    except ValueError as exc:
         raise ValueError(
-            f"'angle_deg' must be a number of degrees, got {angle_deg!r}"
+            f"'angle_deg' must be a number of degrees, got {angle_deg!r} ({exc})"
         ) from None
+    limit = BOUNDS["option.index.angle"]
     if angle <= 0:
         raise ValueError(f"'angle_deg' must be greater than 0, got {angle}")
+    if not limit.holds(angle):
+        raise ValueError(
+            f"'angle_deg' must be {limit.allowed()}, got {angle} ({limit.reason})"
+        )
     crank = angle * ratio / 360
     setting = crank_settings(crank, plates)
     if setting is None:

@@ -7,6 +7,8 @@ command line, into such a tuple and say what is wrong when they cannot.
 
 from __future__ import annotations
 
+from ..design.bounds import BOUNDS
+
 __all__ = [
     "THREE_PLATE",
     "TWO_SIDED",
@@ -47,31 +49,38 @@ DEFAULT_PLATES = "three-plate"
 # Indexing"). 24 comes twice, so a compound train may use two 24s.
 CHANGE_GEARS: tuple[int, ...] = (24, 24, 28, 32, 40, 44, 48, 56, 64, 72, 86, 100)
 
-# A hole circle or a gear below these counts is not a real part: refuse it as a typo.
-_MIN_HOLES = 2
-_MIN_TEETH = 8
 
-
-def _count_list(text: str, what: str, minimum: int) -> tuple[int, ...]:
+def _count_list(text: str, what: str, each: str, count: str) -> tuple[int, ...]:
+    """Whole numbers from ``"15, 16, 17"``, each within bound ``each`` and at most as
+    many as bound ``count`` allows (both from the bounds table)."""
     items = [item.strip() for item in text.split(",")]
     if not text.strip() or any(item == "" for item in items):
         raise ValueError(
-            f"'{what}' must be a comma-separated list of whole numbers, got {text!r}"
+            f"'{what}' must be a comma-separated list of whole numbers, got {text[:40]!r}"
+        )
+    most, limit = BOUNDS[count], BOUNDS[each]
+    if len(items) > most.high:
+        raise ValueError(
+            f"'{what}' may list at most {int(most.high)}, got {len(items)} "
+            f"({most.reason})"
         )
     counts = []
     for item in items:
         try:
-            count = int(item)
+            if len(item) > 12:  # int() of thousands of digits is slow and says so
+                raise ValueError
+            number = int(item)
         except ValueError:
             raise ValueError(
                 f"'{what}' must be a comma-separated list of whole numbers, "
-                f"got {item!r} in {text!r}"
+                f"got {item[:20]!r} in {text[:40]!r}"
             ) from None
-        if count < minimum:
+        if not limit.holds(number):
             raise ValueError(
-                f"each of '{what}' must be at least {minimum}, got {count}"
+                f"each of '{what}' must be {limit.allowed()}, got {number} "
+                f"({limit.reason})"
             )
-        counts.append(count)
+        counts.append(number)
     return tuple(counts)
 
 
@@ -97,7 +106,15 @@ def plate_set(spec: str) -> tuple[int, ...]:
         raise ValueError(
             f"'plates' must be one of {names} or a list like '15,16,17', got {spec!r}"
         )
-    return tuple(sorted(set(_count_list(spec, "plates", _MIN_HOLES))))
+    return tuple(
+        sorted(
+            set(
+                _count_list(
+                    spec, "plates", "option.index.holes", "option.index.circles"
+                )
+            )
+        )
+    )
 
 
 def gear_set(spec: str) -> tuple[int, ...]:
@@ -120,4 +137,8 @@ def gear_set(spec: str) -> tuple[int, ...]:
         return CHANGE_GEARS
     if key == "none":
         return ()
-    return tuple(sorted(_count_list(spec, "gears", _MIN_TEETH)))
+    return tuple(
+        sorted(
+            _count_list(spec, "gears", "option.index.gear_teeth", "option.index.gears")
+        )
+    )
