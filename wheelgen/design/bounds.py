@@ -124,8 +124,8 @@ BOUNDS: dict[str, Bound] = {
         whole=True,
     ),
     "wheel_diameter": Bound(
-        0, 2000, "mm", "a wheel larger than 2 m across (module times teeth, plus the "
-        "teeth) fits no workshop machine or printer",
+        0, 5000, "mm", "a wheel more than 5 m across (module times teeth, plus the "
+        "teeth) fits no workshop machine, printer bed or floor",
     ),
     "size": Bound(0.01, 2000, "mm", _SIZE_REASON),
     "size_or_zero": Bound(0.01, 2000, "mm", _SIZE_REASON, or_zero=True),
