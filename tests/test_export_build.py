@@ -14,6 +14,10 @@ from wheelgen.design import load_design  # noqa: E402
 from wheelgen.export import build as build_mod  # noqa: E402
 from wheelgen.export import sheets  # noqa: E402
 from wheelgen.export.build import BuildBlocked, BuildOptions, build_design  # noqa: E402
+from wheelgen.export.output_folder import (  # noqa: E402
+    MARKER_NAME,
+    OutputFolderError,
+)
 from wheelgen.export.staging import UnsafeNameError  # noqa: E402
 from wheelgen.frame import plan_parts  # noqa: E402
 from wheelgen.layout.part_plan import (  # noqa: E402
@@ -82,7 +86,7 @@ def test_manifest_lists_every_file_with_its_hash(first, design):
     )
     assert m["checked"] is True
     listed = {r["path"]: r["sha256"] for r in m["files"]}
-    assert set(listed) == set(files) - {"manifest.json"}
+    assert set(listed) == set(files) - {"manifest.json", MARKER_NAME}
     for path, digest in listed.items():
         assert hashlib.sha256(files[path]).hexdigest() == digest
     names = {p["name"]: p for p in m["parts"]}
@@ -215,7 +219,7 @@ def test_refuses_to_replace_a_folder_that_is_not_a_build(design, tmp_path):
     mine = tmp_path / "documents"
     mine.mkdir()
     (mine / "letter.txt").write_text("keep me")
-    with pytest.raises(UnsafeNameError, match="not an earlier wheelgen build"):
+    with pytest.raises(OutputFolderError, match="not a folder wheelgen wrote"):
         build_design(
             design, mine, BuildOptions(), findings=[], parts=[ArborPart("a", 3.0, 5.0)]
         )

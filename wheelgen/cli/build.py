@@ -6,6 +6,8 @@ module (and ``wheelgen --help``) starts without cadquery.
 
 from __future__ import annotations
 
+import errno
+import signal
 import sys
 from pathlib import Path
 from typing import Any
@@ -47,7 +49,10 @@ def _parse_formats(text: str) -> tuple[str, ...]:
     "--output",
     "output",
     type=click.Path(file_okay=False),
-    help="Folder for the files (replaced as a whole). Default: output/<design name>.",
+    help="Folder for the files, replaced as a whole on success, and only if it is new, "
+    "empty or an earlier build (else nothing is changed and the foreign files are "
+    "named). A link to a folder builds into that folder. Default: "
+    "output/<design name>.",
 )
 @click.option(
     "--formats",
@@ -127,18 +132,25 @@ def build_command(
     the outline, bore, windows, slots, pin holes and holes for carried arbors as cut
     lines, and the marks of pins and hub bosses, each on its own layer.
     Everything is written to a staging folder first and moved into place only when
-    all of it succeeded.
+    all of it succeeded. The output folder is replaced only if wheelgen wrote it (its
+    .wheelgen-build marker and manifest.json list every file in it, unchanged); a
+    folder holding anything else, or write-protected, is left alone with exit 2.
 
     Parts whose parameters did not change are copied from the cache in
-    .wheelgen-cache/ next to the output folder (output/.wheelgen-cache/ by default);
-    entries no build has used for 30 days are removed, and the folder may be deleted at
-    any time.
+    .wheelgen-cache/ next to the output folder (output/.wheelgen-cache/ by default).
+    Each cached file is checked against the size and SHA-256 recorded with it; a
+    damaged entry is made again (with a note), never shipped. The cache is private to
+    you; entries no build has used for 30 days are removed, and the folder may be
+    deleted at any time.
+
+    Ctrl-C or SIGTERM stops the build and its worker processes; the previous output
+    stays as it was.
 
     Exit status: 0 built; 1 a check found an error (nothing written; see --force)
-    or a part could not be made; 2 the design or an option cannot be used.
+    or a part could not be made; 2 the design, an option or the output folder cannot
+    be used; 130 (Ctrl-C) or 143 (SIGTERM) stopped.
     """
-    from ..export.build import BuildBlocked, BuildOptions, build_design
-    from ..export.staging import UnsafeNameError
+    from ..export.build import BuildOptions
 
     fmt = _parse_formats(formats)
     d = load_or_exit(design)
@@ -151,7 +163,28 @@ def build_command(
         dxf_curves=dxf_curves,
     )
     out_dir = Path(output) if output else None
+    stopped, previous = _stop_on_sigterm()
+    try:
+        _run(d, out_dir, options, force, as_json, stopped)
+    finally:
+        for sig, handler in previous.items():
+            signal.signal(sig, handler)
+
+
+def _run(
+    d: Any,
+    out_dir: Path | None,
+    options: Any,
+    force: bool,
+    as_json: bool,
+    stopped: list[int],
+) -> None:
+    from ..export.build import BuildBlocked, PartSizeError, build_design
+    from ..export.output_folder import OutputFolderError
+    from ..export.staging import UnsafeNameError
+
     bar: Any = None
+    notes: list[str] = []
     try:
         from ..checks import run_checks
         from ..checks.findings import findings_table
@@ -174,6 +207,7 @@ def build_command(
             progress=(lambda _name: bar.update(1)) if bar is not None else None,
             findings=findings,
             parts=parts,
+            note=notes.append,
         )
     except BuildBlocked as exc:
         _close(bar)
@@ -191,9 +225,22 @@ def build_command(
                 "Nothing exported: fix the errors above, or use --force.", err=True
             )
         sys.exit(EXIT_FINDINGS)
-    except UnsafeNameError as exc:
+    except KeyboardInterrupt:
+        _close(bar)
+        signum = stopped[0] if stopped else signal.SIGINT
+        click.echo(
+            f"wheelgen: stopped ({signal.Signals(signum).name}); nothing was changed "
+            "in the output folder",
+            err=True,
+        )
+        sys.exit(128 + int(signum))
+    except (UnsafeNameError, OutputFolderError, PartSizeError) as exc:
         _close(bar)
         click.echo(f"wheelgen: {exc}", err=True)
+        sys.exit(EXIT_INPUT)
+    except OSError as exc:
+        _close(bar)
+        click.echo(f"wheelgen: {_os_error_text(exc, out_dir, d)}", err=True)
         sys.exit(EXIT_INPUT)
     except Exception as exc:  # noqa: BLE001  (kernel/layout failure: message, exit 1)
         _close(bar)
@@ -202,6 +249,8 @@ def build_command(
         click.echo(f"wheelgen: could not build: {exc}", err=True)
         sys.exit(EXIT_FINDINGS)
     _close(bar)
+    for text in notes:
+        click.echo(f"wheelgen: note: {text}", err=True)
     status = "checked" if result.checked else "UNCHECKED (--force past errors)"
     if as_json:
         echo_json(
@@ -216,6 +265,7 @@ def build_command(
                 "files": result.files,
                 "sizes": result.manifest.get("sizes", {}),
                 "findings": [f.as_dict() for f in result.findings],
+                "notes": result.notes,
             }
         )
     else:
@@ -237,6 +287,54 @@ def _sizes_line(sizes: dict[str, Any]) -> str:
         for fmt, row in sizes.get("formats", {}).items()
     )
     return f"Sizes: {size_text(sizes.get('total_bytes', 0))} in all ({per})."
+
+
+def _stop_on_sigterm() -> tuple[list[int], dict[int, Any]]:
+    """Make SIGTERM stop the build as Ctrl-C does (cleanly, workers too).
+
+    Returns where the stopping signal is recorded, and the handlers to put back.
+    """
+    received: list[int] = []
+
+    def stop(signum: int, frame: Any) -> None:
+        received.append(signum)
+        raise KeyboardInterrupt
+
+    previous = {}
+    for sig in (signal.SIGTERM, signal.SIGINT):
+        previous[sig] = signal.signal(sig, stop)
+    return received, previous
+
+
+# What to do about an operating-system error, by its errno.
+_OS_FIXES = {
+    errno.EACCES: "choose a folder you may write to with -o",
+    errno.EPERM: "choose a folder you may write to with -o",
+    errno.EROFS: "the disk is read-only: choose another place with -o",
+    errno.ENOSPC: "free some space (the part cache .wheelgen-cache beside the output "
+    "may be deleted), or build onto another disk with -o",
+    errno.EDQUOT: "your disk quota is used up: free some space, or build elsewhere "
+    "with -o",
+    errno.EBUSY: "the folder is in use (a mount point, or open in another program): "
+    "close what uses it, or choose another folder with -o",
+    errno.ENOENT: "choose a folder on an ordinary disk with -o",
+    errno.ENOTDIR: "a part of the path is a file, not a folder: choose another -o",
+    errno.ENAMETOOLONG: "choose a shorter path with -o",
+}
+
+
+def _os_error_text(exc: OSError, out_dir: Path | None, design: Any) -> str:
+    """One line: what could not be done, where, and what to do about it."""
+    where = exc.filename or out_dir or "the output folder"
+    fix = _OS_FIXES.get(exc.errno or 0, "check the output folder, or choose another -o")
+    if "cache" in str(exc) or ".wheelgen-cache" in str(where):
+        fix += "; or build without the part cache (--no-cache)"
+    target = out_dir if out_dir is not None else Path("output") / design.name
+    reason = exc.strerror or str(exc)
+    return (
+        f"cannot write the build of {design.name} into {target}: {reason} "
+        f"({where}); {fix}. The previous output is untouched."
+    )
 
 
 def _blocked(findings: Any, force: bool) -> bool:

@@ -16,12 +16,17 @@ built, so a fully cached rebuild never pays cadquery's start-up.
 
 from __future__ import annotations
 
+import dataclasses
 import hashlib
+import io
 import json
 import math
 import multiprocessing
+import os
 import shutil
+import signal
 import sys
+import threading
 from collections.abc import Callable, Sequence
 from concurrent.futures import ProcessPoolExecutor, as_completed
 from dataclasses import dataclass, field
@@ -30,10 +35,12 @@ from typing import Any
 
 from .. import __version__
 from ..design.bounds import BOUNDS
+from ..design.names import name_key
 from ..layout.part_plan import BOUGHT_KINDS, DISPLAY_KINDS, FLAT_KINDS
 from . import sheets
-from .cache import PartCache, cache_root_for, part_key
+from .cache import CacheUnusable, DamagedEntry, PartCache, cache_root_for, part_key
 from .manifest import MANIFEST_NAME, make_manifest, write_manifest
+from .output_folder import MARKER_NAME, check_replaceable, marker_text, real_target
 from .staging import Staging, UnsafeNameError, inside, safe_name
 
 __all__ = [
@@ -45,6 +52,8 @@ __all__ = [
     "BuildBlocked",
     "BuildOptions",
     "BuildResult",
+    "CacheError",
+    "PartSizeError",
     "build_design",
     "build_part_files",
     "default_output_dir",
@@ -146,11 +155,12 @@ class BuildResult:
     cache_root: Path | None
     findings: list[Any] = field(default_factory=list)
     manifest: dict[str, Any] = field(default_factory=dict)
+    notes: list[str] = field(default_factory=list)
 
 
 def default_output_dir(design: Any, base: Path = Path("output")) -> Path:
     """``output/<design name>``: the design's name must be a plain file name."""
-    return Path(base) / safe_name(design.name, "design name")
+    return Path(base) / safe_name(design.name, "design name", reserved=False)
 
 
 def part_file_names(part: Any, formats: Sequence[str]) -> list[tuple[str, str]]:
@@ -335,16 +345,96 @@ def _build_into_cache(part: Any, options: BuildOptions, cache_root: Path) -> str
     """Worker: build one part's files into a cache entry; returns its key."""
     cache = PartCache(cache_root)
     key = part_key(part, options.key_options())
-    if cache.has(key):
-        return key
+    try:
+        if cache.check(key):
+            return key
+    except DamagedEntry:
+        cache.discard(key)
     tmp = cache.new_entry()
     try:
         files = build_part_files(part, options, tmp)
+        if (tmp / _BREP).is_file():
+            files.append(_BREP)
     except BaseException:
         shutil.rmtree(tmp, ignore_errors=True)
         raise
     cache.publish(key, tmp, files)
     return key
+
+
+# -- worker processes: they stop with the build, and by themselves if it dies ---------
+_WATCH_S = 0.5  # how often a worker looks for a stop or for its parent's death
+
+
+def _worker_start(stop: Any) -> None:
+    """Initializer of every worker: follow the parent, ignore Ctrl-C.
+
+    A worker stops when the build sets ``stop`` (an interrupted or failed build) and
+    when its parent dies (killed outright: it can clean up nothing); Ctrl-C reaches
+    the whole process group, but only the parent decides what happens then.
+    """
+    signal.signal(signal.SIGINT, signal.SIG_IGN)
+    signal.signal(signal.SIGTERM, signal.SIG_DFL)
+    parent = os.getppid()
+    _die_with_parent()
+
+    def watch() -> None:
+        while not stop.wait(_WATCH_S):
+            if os.getppid() != parent:
+                break
+        os._exit(1)  # nothing of a stopped part is kept: its entry is temporary
+
+    threading.Thread(target=watch, name="wheelgen-watch", daemon=True).start()
+
+
+def _die_with_parent() -> None:
+    """On Linux, have the kernel end this process when its parent ends (at once,
+    even inside a long kernel call that holds the interpreter)."""
+    if not sys.platform.startswith("linux"):
+        return
+    try:
+        import ctypes
+
+        libc = ctypes.CDLL(None, use_errno=True)
+        pr_set_pdeathsig = 1  # from <sys/prctl.h>
+        libc.prctl(pr_set_pdeathsig, signal.SIGKILL, 0, 0, 0)
+    except (OSError, AttributeError):
+        pass  # the watching thread still ends the worker, a little later
+
+
+def _build_parallel(
+    todo: dict[str, Any],
+    options: BuildOptions,
+    cache_root: Path,
+    progress: Callable[[str], None] | None,
+) -> None:
+    # fork is the fastest start (no re-import of the kernel, notes §7), but a parent
+    # that already ran the kernel has its thread pools, and a forked child can hang on
+    # their locks: then start clean processes instead
+    kernel_loaded = "OCP" in sys.modules
+    ctx = multiprocessing.get_context("forkserver" if kernel_loaded else "fork")
+    stop = ctx.Event()
+    pool = ProcessPoolExecutor(
+        min(options.jobs, len(todo)),
+        mp_context=ctx,
+        initializer=_worker_start,
+        initargs=(stop,),
+    )
+    try:
+        futures = {
+            pool.submit(_build_into_cache, p, options, cache_root): p
+            for p in todo.values()
+        }
+        for fut in as_completed(futures):
+            fut.result()
+            if progress is not None:
+                progress(futures[fut].name)
+    except BaseException:
+        # interrupted (Ctrl-C, SIGTERM) or a part failed: the workers stop now
+        stop.set()
+        pool.shutdown(wait=True, cancel_futures=True)
+        raise
+    pool.shutdown(wait=True)
 
 
 def _assembly_key(design: Any, parts: Sequence[Any], keys: Sequence[str]) -> str:
@@ -373,41 +463,77 @@ def _write_assembly(
 
     items = []
     for p, k in zip(parts, keys):
-        shape = cq.Shape.importBrep(str(cache.entry(k) / _BREP))
+        shape = cq.Shape.importBrep(io.BytesIO(cache.read_verified(k, _BREP)))
         pl = p.placement
         loc = cq.Location(cq.Vector(pl.x, pl.y, pl.z), cq.Vector(0, 0, 1), pl.angle_deg)
         items.append((p.name, shape, loc, _COLOURS.get(p.kind, (0.5, 0.5, 0.5))))
-    write_step_assembly(safe_name(design.name, "design name"), items, path)
+    write_step_assembly(
+        safe_name(design.name, "design name", reserved=False), items, path
+    )
 
 
 def _check_names(parts: Sequence[Any]) -> None:
-    seen: set[str] = set()
+    """The name rule on every part, and no two names one file on any disk."""
+    seen: dict[str, str] = {}
     for p in parts:
         safe_name(p.name)
-        if p.name in seen:
+        key = name_key(p.name)
+        if key in seen:
+            same = seen[key] == p.name
             raise UnsafeNameError(
                 f"two parts are called {p.name!r}; part names must differ"
+                if same
+                else f"parts {seen[key]!r} and {p.name!r} differ only in case: on a "
+                "case-insensitive disk their files are one; rename one of them"
             )
-        if p.name == "assembly":
-            raise UnsafeNameError(
-                "a part may not be called 'assembly' (step/assembly.step)"
-            )
-        seen.add(p.name)
+        seen[key] = p.name
 
 
-def _check_replaceable(target: Path) -> None:
-    """Refuse to replace a folder that is not an earlier build (or empty)."""
-    if not target.exists():
-        return
-    if not target.is_dir() or (
-        any(target.iterdir()) and not (target / MANIFEST_NAME).is_file()
-    ):
-        raise UnsafeNameError(
-            f"{target} exists and is not an earlier wheelgen build"
-            f" (no {MANIFEST_NAME});"
-            " the build replaces its output folder as a whole, so choose an empty or"
-            " new folder"
-        )
+class PartSizeError(ValueError):
+    """A planned part has a size the CAD kernel cannot make (out of its bounds)."""
+
+
+def _check_part_sizes(parts: Sequence[Any]) -> None:
+    """Refuse, before the kernel runs, a part with a size beyond the bounds table.
+
+    The loader bounds every key of a design; this catches what follows from them (and
+    parts handed in by a script): every number of a part must be finite and within
+    the ``position`` bound, its main sizes within ``size``, its module and teeth within
+    theirs.
+    """
+    for p in parts:
+        for path, value in _numbers(p):
+            limit = BOUNDS[_PART_BOUND.get(path, "position")]
+            if not limit.holds(value):
+                raise PartSizeError(
+                    f"part {p.name!r}: {path} = {value!r}; allowed: "
+                    f"{limit.allowed()}. Why: {limit.reason}"
+                )
+
+
+# Part fields with a bound of their own; every other number is a position.
+_PART_BOUND = {
+    **dict.fromkeys(
+        ("face_width", "bore", "diameter", "length", "inside", "outside", "thickness"),
+        "size",
+    ),
+    "tooth.module": "module",
+    "tooth.teeth": "teeth",
+}
+
+
+def _numbers(value: Any, path: str = "") -> list[tuple[str, int | float]]:
+    """Every number of a part (its placement and tooth spec too), by dotted path."""
+    out: list[tuple[str, int | float]] = []
+    if dataclasses.is_dataclass(value) and not isinstance(value, type):
+        for f in dataclasses.fields(value):
+            out += _numbers(getattr(value, f.name), f"{path}.{f.name}".lstrip("."))
+    elif isinstance(value, (tuple, list)):
+        for k, item in enumerate(value):
+            out += _numbers(item, f"{path}[{k}]")
+    elif isinstance(value, (int, float)) and not isinstance(value, bool):
+        out.append((path, value))
+    return out
 
 
 def build_design(
@@ -417,6 +543,7 @@ def build_design(
     progress: Callable[[str], None] | None = None,
     findings: Sequence[Any] | None = None,
     parts: Sequence[Any] | None = None,
+    note: Callable[[str], None] | None = None,
 ) -> BuildResult:
     """Check, plan and export ``design`` into ``out_dir`` (default ``output/<name>``).
 
@@ -425,13 +552,19 @@ def build_design(
     design : Design
         A loaded design (``wheelgen.design.load_design``).
     out_dir : Path, optional
-        The folder that will hold the files; replaced as a whole, only on success.
+        The folder that will hold the files; replaced as a whole, only on success, and
+        only if it is empty or an earlier build (``export/output_folder.py``). A
+        symbolic link to a folder builds into that folder.
     options : BuildOptions
         Formats, jobs, force, cache and mesh chord tolerance (mm).
     progress : callable, optional
         Called with a part's name each time one is done (built or reused).
     findings, parts : optional
         Precomputed check findings and part plan (else computed here).
+    note : callable, optional
+        Called with a one-line note when the build works around something: a damaged
+        cache entry made again, a cache that cannot be used. The notes are also in
+        :attr:`BuildResult.notes`.
 
     Raises
     ------
@@ -439,8 +572,21 @@ def build_design(
         A check found an error and ``options.force`` is false.
     UnsafeNameError
         A part or design name is not a plain file name.
+    PartSizeError
+        A planned part has a size beyond the bounds (refused before the kernel runs).
+    OutputFolderError
+        The output folder holds files wheelgen did not write, or is protected.
+    OSError
+        The output cannot be written (a read-only place, a full disk).
     """
     from ..checks.findings import has_errors
+
+    notes: list[str] = []
+
+    def tell(text: str) -> None:
+        notes.append(text)
+        if note is not None:
+            note(text)
 
     if findings is None:
         from ..checks import run_checks
@@ -456,67 +602,75 @@ def build_design(
         parts = plan_parts(design)
     parts = list(parts)
     _check_names(parts)
-    target = Path(out_dir) if out_dir is not None else default_output_dir(design)
-    _check_replaceable(target)
+    _check_part_sizes(parts)
+    default = out_dir is None
+    target = real_target(
+        Path(out_dir) if out_dir is not None else default_output_dir(design)
+    )
+    design_file = _design_file(design) if default else None
+    check_replaceable(target, design_file)
     key_options = options.key_options()
     with Staging(target) as stage:
         assert stage.dir is not None
-        cache_root = (
-            cache_root_for(target) if options.use_cache else stage.dir / ".work"
-        )
+        use_cache = options.use_cache
+        cache_root = cache_root_for(target)
+        if use_cache:
+            try:
+                PartCache(cache_root).prepare()
+            except CacheUnusable as exc:
+                tell(f"{exc}; building without it (as with --no-cache)")
+                use_cache = False
+        if not use_cache:
+            cache_root = stage.dir / ".work"
+            PartCache(cache_root).prepare()
         cache = PartCache(cache_root)
         keys = [part_key(p, key_options) for p in parts]
         todo: dict[str, Any] = {}
+        whole: set[str] = set()
         for p, k in zip(parts, keys):
-            if not cache.has(k) and k not in todo:
-                todo[k] = p
+            if k in todo or k in whole:
+                continue
+            try:
+                if cache.check(k):
+                    whole.add(k)
+                    continue
+            except DamagedEntry as exc:
+                tell(
+                    f"part {p.name}: its cache entry is damaged ({exc}); making it again"
+                )
+                cache.discard(k)
+            todo[k] = p
         built = len(todo)
         for p, k in zip(parts, keys):
             if k not in todo and progress is not None:
                 progress(p.name)
         if options.jobs > 1 and len(todo) > 1:
-            # fork is the fastest start (no re-import of the kernel, notes §7), but a
-            # parent that already ran the kernel has its thread pools, and a forked
-            # child can hang on their locks: then start clean processes instead
-            kernel_loaded = "OCP" in sys.modules
-            ctx = multiprocessing.get_context("forkserver" if kernel_loaded else "fork")
-            with ProcessPoolExecutor(
-                min(options.jobs, len(todo)), mp_context=ctx
-            ) as pool:
-                futures = {
-                    pool.submit(_build_into_cache, p, options, cache_root): p
-                    for p in todo.values()
-                }
-                for fut in as_completed(futures):
-                    fut.result()
-                    if progress is not None:
-                        progress(futures[fut].name)
+            _build_parallel(todo, options, cache_root, progress)
         else:
             for p in todo.values():
                 _build_into_cache(p, options, cache_root)
                 if progress is not None:
                     progress(p.name)
-        for k in keys:
-            for rel in cache.files(k):
-                shutil.copyfile(cache.entry(k) / rel, stage.path(rel))
+        for p, k in zip(parts, keys):
+            _copy_part(cache, k, p, options, stage, tell)
         used = list(keys)
         if "step" in options.formats and parts:
             akey = _assembly_key(design, parts, keys)
             used.append(akey)
-            if not cache.has(akey):
-                tmp = cache.new_entry()
+            for attempt in (1, 2):
                 try:
-                    dest = inside(tmp, ASSEMBLY_FILE)
-                    dest.parent.mkdir(parents=True)
-                    _write_assembly(design, parts, keys, cache, dest)
-                except BaseException:
-                    shutil.rmtree(tmp, ignore_errors=True)
-                    raise
-                cache.publish(akey, tmp, [ASSEMBLY_FILE])
-            shutil.copyfile(
-                cache.entry(akey) / ASSEMBLY_FILE, stage.path(ASSEMBLY_FILE)
-            )
-        if not options.use_cache:
+                    if not cache.check(akey):
+                        _make_assembly(design, parts, keys, cache, akey)
+                    cache.copy_verified(akey, ASSEMBLY_FILE, stage.path(ASSEMBLY_FILE))
+                    break
+                except DamagedEntry as exc:
+                    if attempt == 2:
+                        raise _changing(cache) from None
+                    tell(
+                        f"the assembly's cache entry is damaged ({exc}); making it again"
+                    )
+                    cache.discard(akey)
+        if not use_cache:
             shutil.rmtree(cache_root, ignore_errors=True)
         else:
             for k in used:
@@ -537,8 +691,19 @@ def build_design(
         manifest = make_manifest(
             design, parts, findings, stage.dir, files, checked, key_options
         )
-        write_manifest(manifest, stage.path(MANIFEST_NAME))
-        stage.commit()
+        manifest_path = write_manifest(manifest, stage.path(MANIFEST_NAME))
+        stage.path(MARKER_NAME).write_text(
+            marker_text(manifest_path.read_bytes()), encoding="utf-8", newline="\n"
+        )
+        # files may have come into the folder while the parts were made
+        check_replaceable(target, design_file)
+        try:
+            stage.commit()
+        except KeyboardInterrupt:
+            # a stop held back while the folders were swapped: the build is whole
+            if not stage.committed:
+                raise
+            tell("a stop came as the finished build was moved into place; it is whole")
     rel_files = [r["path"] for r in manifest["files"]] + [MANIFEST_NAME]
     return BuildResult(
         out_dir=target,
@@ -546,7 +711,64 @@ def build_design(
         checked=checked,
         built=built,
         reused=len(parts) - built,
-        cache_root=cache_root if options.use_cache else None,
+        cache_root=cache_root if use_cache else None,
         findings=findings,
         manifest=manifest,
+        notes=notes,
     )
+
+
+def _design_file(design: Any) -> str | None:
+    source = getattr(design, "source", "")
+    return Path(source).name if source else None
+
+
+class CacheError(OSError):
+    """The part cache keeps changing under the build; build again with --no-cache."""
+
+
+def _changing(cache: PartCache) -> CacheError:
+    return CacheError(
+        f"the part cache {cache.root} changed while the build read it, twice; build "
+        "again, or with --no-cache"
+    )
+
+
+def _copy_part(
+    cache: PartCache,
+    key: str,
+    part: Any,
+    options: BuildOptions,
+    stage: Staging,
+    tell: Callable[[str], None],
+) -> None:
+    """Copy a part's files from its entry, each checked; a damaged entry is made again."""
+    for attempt in (1, 2):
+        try:
+            for rel in cache.files(key):
+                if rel != _BREP:
+                    cache.copy_verified(key, rel, stage.path(rel))
+            return
+        except (DamagedEntry, FileNotFoundError) as exc:
+            if attempt == 2:
+                raise _changing(cache) from None
+            what = exc if isinstance(exc, DamagedEntry) else "it is gone"
+            tell(
+                f"part {part.name}: its cache entry is damaged ({what}); making it again"
+            )
+            cache.discard(key)
+            _build_into_cache(part, options, cache.root)
+
+
+def _make_assembly(
+    design: Any, parts: Sequence[Any], keys: Sequence[str], cache: PartCache, akey: str
+) -> None:
+    tmp = cache.new_entry()
+    try:
+        dest = inside(tmp, ASSEMBLY_FILE)
+        dest.parent.mkdir(parents=True)
+        _write_assembly(design, parts, keys, cache, dest)
+    except BaseException:
+        shutil.rmtree(tmp, ignore_errors=True)
+        raise
+    cache.publish(akey, tmp, [ASSEMBLY_FILE])

@@ -4,8 +4,10 @@ Sizes: each file's ``bytes``; ``sizes`` with the total and the files and bytes o
 each format (``"step"``, ``"dxf"``...); and each part's ``file_bytes`` per format, so
 a user sees what will be sent to a shop before sending it.
 
-The manifest holds no dates or machine paths, so two builds of the same design give
-the same manifest byte for byte.
+The manifest holds no dates or machine paths (the design file's name, not its folder),
+so two builds of the same design give the same manifest byte for byte. Next to it the
+build writes its marker (``export/output_folder.py``), which names the manifest's hash:
+together they prove that wheelgen wrote the folder.
 """
 
 from __future__ import annotations
@@ -60,6 +62,9 @@ def make_manifest(
             "name": getattr(design, "name", ""),
             "title": getattr(design, "title", ""),
             "sha256": getattr(design, "sha256", ""),
+            # the file's name without its folder: two files whose names give one
+            # output folder are told apart by it (export/output_folder.py)
+            "file": Path(getattr(design, "source", "") or "").name,
         },
         "checked": checked,
         "status": "checked"

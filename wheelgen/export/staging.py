@@ -13,25 +13,33 @@ from __future__ import annotations
 import os
 import re
 import shutil
+import signal
 import tempfile
 from pathlib import Path
 from types import TracebackType
 
-__all__ = ["Staging", "UnsafeNameError", "inside", "safe_name"]
+from ..design.names import NAME_ALLOWED, RESERVED_NAMES, name_key, name_problem
 
-_SAFE = re.compile(r"^[A-Za-z0-9][A-Za-z0-9_.-]{0,99}$")
+__all__ = ["Staging", "UnsafeNameError", "inside", "safe_name"]
 
 
 class UnsafeNameError(ValueError):
     """A part or file name that could write outside the output folder."""
 
 
-def safe_name(name: str, what: str = "part name") -> str:
-    """``name`` if it is a plain file name (letters, digits, ``_ . -``), else raise."""
-    if not isinstance(name, str) or not _SAFE.match(name) or ".." in name:
+def safe_name(name: str, what: str = "part name", reserved: bool = True) -> str:
+    """``name`` if it follows the name rule (``design/names.py``), else raise.
+
+    ``reserved=False`` allows the names the build keeps for its own files (a design
+    may be called ``report``; a part may not).
+    """
+    problem = name_problem(name)
+    if problem is not None and not (
+        not reserved and isinstance(name, str) and name_key(name) in RESERVED_NAMES
+    ):
         raise UnsafeNameError(
-            f"{what} {name!r} is not allowed in a file name; allowed: letters, digits,"
-            " '_', '.', '-', starting with a letter or digit, no '..', at most 100"
+            f"{what} {name!r} is not allowed in a file name ({problem}); allowed: "
+            f"{NAME_ALLOWED}"
         )
     return name
 
@@ -55,6 +63,20 @@ def _pid_alive(pid: int) -> bool:
     except PermissionError:
         return True
     return True
+
+
+_STOPS = {signal.SIGINT, signal.SIGTERM}
+
+
+def _hold_signals() -> set[signal.Signals] | None:
+    if not hasattr(signal, "pthread_sigmask"):
+        return None
+    return signal.pthread_sigmask(signal.SIG_BLOCK, _STOPS)
+
+
+def _release_signals(held: set[signal.Signals] | None) -> None:
+    if held is not None:
+        signal.pthread_sigmask(signal.SIG_SETMASK, held)
 
 
 class Staging:
@@ -106,7 +128,19 @@ class Staging:
         return p
 
     def commit(self) -> None:
-        """Move the staging folder into place, replacing the previous output."""
+        """Move the staging folder into place, replacing the previous output.
+
+        Ctrl-C and SIGTERM wait until both renames are done (where the system allows
+        blocking them), so a stop never falls between the two.
+        """
+        assert self.dir is not None
+        held = _hold_signals()
+        try:
+            self._swap()
+        finally:
+            _release_signals(held)
+
+    def _swap(self) -> None:
         assert self.dir is not None
         old = None
         if self.target.exists():
