@@ -179,7 +179,7 @@ def _run(
     as_json: bool,
     stopped: list[int],
 ) -> None:
-    from ..export.build import BuildBlocked, PartSizeError, build_design
+    from ..export.build import BuildBlocked, CacheError, PartSizeError, build_design
     from ..export.output_folder import OutputFolderError
     from ..export.staging import UnsafeNameError
 
@@ -192,19 +192,26 @@ def _run(
 
         findings = run_checks(d)
         parts = plan_parts(d) if not _blocked(findings, force) else ()
-        if parts:
-            bar = click.progressbar(
-                length=len(parts),
-                label="building parts",
-                file=sys.stderr,
-                show_pos=True,
-            )
-            bar.__enter__()
+
+        def step(_name: str) -> None:
+            # the bar starts with the first part: a build refused before any part is
+            # made prints only its reason
+            nonlocal bar
+            if bar is None:
+                bar = click.progressbar(
+                    length=len(parts),
+                    label="building parts",
+                    file=sys.stderr,
+                    show_pos=True,
+                )
+                bar.__enter__()
+            bar.update(1)
+
         result = build_design(
             d,
             out_dir,
             options,
-            progress=(lambda _name: bar.update(1)) if bar is not None else None,
+            progress=step,
             findings=findings,
             parts=parts,
             note=notes.append,
@@ -234,7 +241,7 @@ def _run(
             err=True,
         )
         sys.exit(128 + int(signum))
-    except (UnsafeNameError, OutputFolderError, PartSizeError) as exc:
+    except (UnsafeNameError, OutputFolderError, PartSizeError, CacheError) as exc:
         _close(bar)
         click.echo(f"wheelgen: {exc}", err=True)
         sys.exit(EXIT_INPUT)
@@ -326,6 +333,8 @@ _OS_FIXES = {
 def _os_error_text(exc: OSError, out_dir: Path | None, design: Any) -> str:
     """One line: what could not be done, where, and what to do about it."""
     where = exc.filename or out_dir or "the output folder"
+    if ".staging-" in str(where):  # the build's own temporary folder: name its place
+        where = Path(str(where)).parent
     fix = _OS_FIXES.get(exc.errno or 0, "check the output folder, or choose another -o")
     if "cache" in str(exc) or ".wheelgen-cache" in str(where):
         fix += "; or build without the part cache (--no-cache)"

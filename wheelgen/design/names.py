@@ -94,16 +94,17 @@ def control_characters(text: str) -> list[str]:
 _NOT_XML = re.compile("[\x00-\x08\x0b\x0c\x0e-\x1f\ud800-\udfff\ufffe\uffff]")
 
 
-def xml_text(text: str, quote: bool = True) -> str:
-    """``text`` safe inside XML or HTML content and double-quoted attributes.
+def xml_text(text: object, quote: bool = True) -> str:
+    """``text`` safe inside XML or HTML content and quoted attributes.
 
-    Escapes ``& < >`` (and ``"`` when ``quote``) and drops the characters XML 1.0
-    cannot hold at all, so a file stays well-formed whatever the text holds.
+    Escapes ``& < >`` (and both quotes when ``quote``, as :func:`html.escape` does)
+    and drops the characters XML 1.0 cannot hold at all, so a file stays well-formed
+    whatever the text holds.
     """
     out = (
-        _NOT_XML.sub("", text)
+        _NOT_XML.sub("", str(text))
         .replace("&", "&amp;")
         .replace("<", "&lt;")
         .replace(">", "&gt;")
     )
-    return out.replace('"', "&quot;") if quote else out
+    return out.replace('"', "&quot;").replace("'", "&#x27;") if quote else out

@@ -455,15 +455,15 @@ def _assembly_key(design: Any, parts: Sequence[Any], keys: Sequence[str]) -> str
 
 
 def _write_assembly(
-    design: Any, parts: Sequence[Any], keys: Sequence[str], cache: PartCache, path: Path
+    design: Any, parts: Sequence[Any], breps: Sequence[bytes], path: Path
 ) -> None:
     import cadquery as cq
 
     from .step import write_step_assembly
 
     items = []
-    for p, k in zip(parts, keys):
-        shape = cq.Shape.importBrep(io.BytesIO(cache.read_verified(k, _BREP)))
+    for p, brep in zip(parts, breps):
+        shape = cq.Shape.importBrep(io.BytesIO(brep))
         pl = p.placement
         loc = cq.Location(cq.Vector(pl.x, pl.y, pl.z), cq.Vector(0, 0, 1), pl.angle_deg)
         items.append((p.name, shape, loc, _COLOURS.get(p.kind, (0.5, 0.5, 0.5))))
@@ -582,9 +582,12 @@ def build_design(
     from ..checks.findings import has_errors
 
     notes: list[str] = []
+    remade: set[str] = set()
 
-    def tell(text: str) -> None:
+    def tell(text: str, part: str | None = None) -> None:
         notes.append(text)
+        if part is not None:
+            remade.add(part)
         if note is not None:
             note(text)
 
@@ -660,7 +663,11 @@ def build_design(
             for attempt in (1, 2):
                 try:
                     if not cache.check(akey):
-                        _make_assembly(design, parts, keys, cache, akey)
+                        breps = [
+                            _verified(cache, k, p, _BREP, options, tell)
+                            for p, k in zip(parts, keys)
+                        ]
+                        _make_assembly(design, parts, breps, cache, akey)
                     cache.copy_verified(akey, ASSEMBLY_FILE, stage.path(ASSEMBLY_FILE))
                     break
                 except DamagedEntry as exc:
@@ -709,8 +716,8 @@ def build_design(
         out_dir=target,
         files=rel_files,
         checked=checked,
-        built=built,
-        reused=len(parts) - built,
+        built=built + len(remade),
+        reused=len(parts) - built - len(remade),
         cache_root=cache_root if use_cache else None,
         findings=findings,
         manifest=manifest,
@@ -740,7 +747,7 @@ def _copy_part(
     part: Any,
     options: BuildOptions,
     stage: Staging,
-    tell: Callable[[str], None],
+    tell: Callable[..., None],
 ) -> None:
     """Copy a part's files from its entry, each checked; a damaged entry is made again."""
     for attempt in (1, 2):
@@ -752,22 +759,57 @@ def _copy_part(
         except (DamagedEntry, FileNotFoundError) as exc:
             if attempt == 2:
                 raise _changing(cache) from None
-            what = exc if isinstance(exc, DamagedEntry) else "it is gone"
-            tell(
-                f"part {part.name}: its cache entry is damaged ({what}); making it again"
-            )
-            cache.discard(key)
-            _build_into_cache(part, options, cache.root)
+            _remake(cache, key, part, options, tell, exc)
+
+
+def _verified(
+    cache: PartCache,
+    key: str,
+    part: Any,
+    rel: str,
+    options: BuildOptions,
+    tell: Callable[..., None],
+) -> bytes:
+    """One file of a part's entry, checked; a damaged entry is made again first."""
+    try:
+        return cache.read_verified(key, rel)
+    except (DamagedEntry, FileNotFoundError) as exc:
+        _remake(cache, key, part, options, tell, exc)
+    try:
+        return cache.read_verified(key, rel)
+    except (DamagedEntry, FileNotFoundError):
+        raise _changing(cache) from None
+
+
+def _remake(
+    cache: PartCache,
+    key: str,
+    part: Any,
+    options: BuildOptions,
+    tell: Callable[..., None],
+    exc: Exception,
+) -> None:
+    what = exc if isinstance(exc, DamagedEntry) else "it is gone"
+    tell(
+        f"part {part.name}: its cache entry is damaged ({what}); making it again",
+        part.name,
+    )
+    cache.discard(key)
+    _build_into_cache(part, options, cache.root)
 
 
 def _make_assembly(
-    design: Any, parts: Sequence[Any], keys: Sequence[str], cache: PartCache, akey: str
+    design: Any,
+    parts: Sequence[Any],
+    breps: Sequence[bytes],
+    cache: PartCache,
+    akey: str,
 ) -> None:
     tmp = cache.new_entry()
     try:
         dest = inside(tmp, ASSEMBLY_FILE)
         dest.parent.mkdir(parents=True)
-        _write_assembly(design, parts, keys, cache, dest)
+        _write_assembly(design, parts, breps, dest)
     except BaseException:
         shutil.rmtree(tmp, ignore_errors=True)
         raise

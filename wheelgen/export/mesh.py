@@ -36,6 +36,8 @@ from OCP.TopLoc import TopLoc_Location
 from OCP.TopoDS import TopoDS, TopoDS_Compound, TopoDS_Edge, TopoDS_Face, TopoDS_Shape
 from OCP.TopTools import TopTools_IndexedMapOfShape
 
+from ..design.names import xml_text
+
 __all__ = ["Mesh", "mesh_shape", "read_stl", "write_3mf", "write_stl"]
 
 
@@ -331,12 +333,7 @@ _RELS = (
 
 
 def _xml_escape(text: str) -> str:
-    return (
-        text.replace("&", "&amp;")
-        .replace("<", "&lt;")
-        .replace(">", "&gt;")
-        .replace('"', "&quot;")
-    )
+    return xml_text(text)
 
 
 def _model_xml(mesh: Mesh, name: str) -> str:

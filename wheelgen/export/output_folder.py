@@ -201,7 +201,10 @@ def _same(path: Path, size: object, digest: object) -> bool:
 
 def _writable(target: Path, dirs: list[Path]) -> None:
     for folder in [target, *dirs]:
-        if not os.access(folder, os.W_OK | os.X_OK):
+        # the owner's write bit says "protected" even to an administrator, whom
+        # access() always lets write
+        protected = not os.lstat(folder).st_mode & stat.S_IWUSR
+        if protected or not os.access(folder, os.W_OK | os.X_OK):
             where = "" if folder == target else f" (its folder {folder.name})"
             raise OutputFolderError(
                 f"{target} is write-protected{where}; wheelgen does not replace a "

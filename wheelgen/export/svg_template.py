@@ -13,6 +13,7 @@ from pathlib import Path
 
 import numpy as np
 
+from ..design.names import xml_text
 from ..layout.part_plan import PlatePart
 from ..layout.wheel_profile import PlateProfile
 
@@ -37,7 +38,7 @@ def _path_d(loop: np.ndarray) -> str:
 
 
 def _esc(text: str) -> str:
-    return text.replace("&", "&amp;").replace("<", "&lt;").replace(">", "&gt;")
+    return xml_text(text, quote=False)
 
 
 def _pin_marks(pins: Sequence[tuple[float, float, float]]) -> list[str]:

@@ -11,6 +11,8 @@ from typing import Iterable
 
 import numpy as np
 
+from ..design.names import xml_text
+
 __all__ = ["fmt", "esc", "pt", "path_d", "simplify", "PALETTE", "colour"]
 
 # Our own plain palette: dark ink, muted colours that survive a grey-scale printout.
@@ -38,13 +40,8 @@ def fmt(value: float, digits: int = 3) -> str:
 
 
 def esc(text: str) -> str:
-    """Text safe inside SVG or HTML element content and double-quoted attributes."""
-    return (
-        text.replace("&", "&amp;")
-        .replace("<", "&lt;")
-        .replace(">", "&gt;")
-        .replace('"', "&quot;")
-    )
+    """Text safe inside SVG or HTML element content and quoted attributes."""
+    return xml_text(text)
 
 
 def pt(x: float, y: float, digits: int = 3) -> str:

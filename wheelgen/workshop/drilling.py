@@ -108,11 +108,6 @@ def drilling_csv(design: Design, plate: str) -> str:
     return buf.getvalue()
 
 
-def _plain(text: str) -> str:
-    # control characters are not allowed in XML text, even escaped
-    return "".join(ch if ch >= " " or ch in "\t\n" else " " for ch in text)
-
-
 def _mesh_lines(
     design: Design, dx: float, dy: float
 ) -> tuple[
@@ -187,8 +182,8 @@ def drilling_svg(design: Design, plate: str, unchecked: bool = False) -> str:
             f'<svg xmlns="http://www.w3.org/2000/svg" width="{width:.4f}mm"'
             f' height="{height:.4f}mm" viewBox="0 0 {width:.4f} {height:.4f}">'
         ),
-        f"<title>{esc(_plain(title))}</title>",
-        f'<text x="2" y="5" font-family="sans-serif" font-size="3.5">{esc(_plain(title))}</text>',
+        f"<title>{esc(title)}</title>",
+        f'<text x="2" y="5" font-family="sans-serif" font-size="3.5">{esc(title)}</text>',
         (
             '<text x="2" y="9" font-family="sans-serif" font-size="2.5">datum: axis of'
             f" arbor {esc(design.drive.arbor)}; X right, Y up; every hole's position"

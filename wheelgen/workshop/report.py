@@ -14,13 +14,13 @@ files only their sizes are read.
 from __future__ import annotations
 
 import base64
-import html
 from pathlib import Path
 from typing import Any, Sequence
 
 from .. import __version__
 from ..checks.findings import Finding, has_errors, sort_findings
 from ..design.model import Design
+from ..design.names import xml_text
 from ..design.periods import format_period
 from ..frame.plan import plan_frame
 from ..kinematics.rates import TrainSolution, solve_rates
@@ -105,7 +105,7 @@ _SECTIONS = (
 
 
 def _e(text: object) -> str:
-    return html.escape(str(text), quote=True)
+    return xml_text(text)
 
 
 def _num(value: float | None, digits: int = 3) -> str:
