@@ -521,3 +521,138 @@ def test_triangular_root_rounding_follows_the_form_and_the_cutter():
         and "root_radius" in message
         and "cutter radius" in message
     )
+
+
+# --- one name rule, hostile files and numbers -----------------------------------------
+
+
+@pytest.mark.parametrize(
+    ("name", "why"),
+    [
+        ("sun\n", "control character U+000A"),  # '$' once matched before a newline
+        ("-rf", "starts with '-'"),  # a file name read as an option by every tool
+        ("x" * 65, "65 characters"),
+        ("Uhr_ä", "not a safe file name"),
+        ("MANIFEST", "kept for the build's own files"),  # reserved whatever the case
+    ],
+)
+def test_the_name_rule_matches_whole_names(name, why):
+    quoted = name.replace("\n", "\\n")
+    problems = problems_of(BASE.replace('name = "w2"', f'name = "{quoted}"'))
+    assert any(why in p for p in problems), problems
+
+
+def test_check_and_build_use_one_name_rule():
+    # whatever the loader accepts, the build accepts, and the other way round
+    from wheelgen.design.names import name_problem
+    from wheelgen.export.staging import UnsafeNameError, safe_name
+
+    for name in ["w1", "_x", "a-b", "A9", "-rf", "sun\n", "a.b", "", "x" * 65, "ä"]:
+        loads = name_problem(name) is None
+        try:
+            safe_name(name)
+            builds = True
+        except UnsafeNameError:
+            builds = False
+        assert loads == builds, name
+
+
+def test_names_that_differ_only_in_case_collide():
+    # on case-insensitive disks "W1.step" and "w1.step" are one file
+    text = BASE.replace('name = "w2"', 'name = "W1"')
+    (problem,) = [p for p in problems_of(text) if "case" in p]
+    assert '"w1" and "W1" differ only in case' in problem
+
+
+@pytest.mark.parametrize(
+    ("title", "why"),
+    [("Clock\\u0007bell", "control character U+0007"), ("x" * 201, "200 characters")],
+)
+def test_titles_are_one_printable_line(title, why):
+    (problem,) = problems_of(BASE.replace('title = "Base"', f'title = "{title}"'))
+    assert "key 'title'" in problem and why in problem
+
+
+@pytest.mark.parametrize(
+    ("key", "value", "allowed"),
+    [
+        ("module", "1e10", "from 0.05 to 50 mm"),
+        ("module", "9.2e18", "from 0.05 to 50 mm"),
+        ("module", "1e300", "from 0.05 to 50 mm"),
+        ("module", "nan", "from 0.05 to 50 mm"),
+        ("module", "1" + "0" * 400, "from 0.05 to 50 mm"),  # an int no float holds
+        ("face_width", "5e-324", "from 0.01 to 2000 mm"),
+        ("rim", "1e308", "from 0.01 to 2000 mm"),
+        ("height", "-inf", "from -10000 to 10000 mm"),
+        ("backlash", "11", "from 0 to 10 mm"),
+    ],
+)
+def test_hostile_numbers_are_refused_with_the_reason(key, value, allowed):
+    text = BASE.replace("teeth = 40\n", f"teeth = 40\nspokes = 4\n{key} = {value}\n")
+    (problem,) = problems_of(text)
+    assert f"key '{key}'" in problem and allowed in problem and "Why:" in problem
+
+
+def test_a_wheel_too_large_across_is_refused():
+    # derived: 2000 teeth at module 3 is 6006 mm across, past the 5000 mm bound
+    text = BASE.replace("teeth = 40\n", "teeth = 2000\nmodule = 3\n")
+    (problem,) = problems_of(text)
+    assert "6006 mm across" in problem and "at most 5000 mm" in problem
+
+
+def test_arbor_and_frame_sizes_are_bounded():
+    text = BASE.replace('name = "b"\n', 'name = "b"\ndiameter = 1e-300\n')
+    text += "\n[frame]\nthickness = 1e308\n"
+    problems = problems_of(text)
+    assert any("key 'diameter'" in p for p in problems)
+    assert any("key 'thickness'" in p for p in problems)
+
+
+def _chain(count: int, key: str) -> str:
+    tables = [f'[[arbor]]\nname = "t0"\n{key} = "a"\n']
+    tables += [
+        f'[[arbor]]\nname = "t{i}"\naround = "t{i - 1}"\n' for i in range(1, count)
+    ]
+    return "\n".join(tables)
+
+
+def test_tubes_nest_at_most_32_deep():
+    # derived: 32 is the coaxial_depth bound; the arbor "a" itself is the first member
+    assert loads_design(BASE + _chain(31, "around"), "t.toml")
+    (problem,) = problems_of(BASE + _chain(32, "around"))
+    assert "33 tubes nested on one axis" in problem and 'arbor "t31"' in problem
+
+
+def test_too_many_tables_are_refused_before_any_work():
+    from wheelgen.design.bounds import BOUNDS
+
+    most = int(BOUNDS["arbors"].high)
+    text = BASE + "".join(f'[[arbor]]\nname = "x{i}"\n' for i in range(most))
+    (problem,) = problems_of(text)
+    assert f"{most + 2} [[arbor]] tables" in problem and f"at most {most}" in problem
+
+
+def test_keys_nested_too_deeply_are_refused_before_parsing():
+    (problem,) = problems_of(BASE + "a" + ".b" * 50_000 + " = 1\n")
+    assert "dotted key of more than 8 parts" in problem
+    (problem,) = problems_of(BASE + "x = " + "[" * 20 + "]" * 20 + "\n")
+    assert "nested more than 8 levels deep" in problem
+
+
+def test_only_regular_files_of_bounded_size_are_read(tmp_path):
+    with pytest.raises(DesignError, match="not a regular file"):
+        load_design("/dev/null")
+    with pytest.raises(DesignError, match="it is a folder"):
+        load_design(tmp_path)
+    big = tmp_path / "big.toml"
+    big.write_bytes(b"#" * (4 * 2**20 + 1))
+    with pytest.raises(DesignError, match="at most 4 MiB"):
+        load_design(big)
+
+
+def test_many_mistakes_are_listed_up_to_a_limit():
+    text = BASE + "".join(f'[[mesh]]\npair = ["w1", "nope{i}"]\n' for i in range(300))
+    with pytest.raises(DesignError) as info:
+        loads_design(text, "t.toml")
+    problems = info.value.problems
+    assert len(problems) == 101 and "more problems, not listed" in str(problems[-1])

@@ -727,7 +727,7 @@ class _Loader:
             if depth > nesting.high:
                 self.problem(
                     Where(self.file),
-                    f"tables or lists nested {depth} levels deep",
+                    f"tables or lists nested more than {int(nesting.high)} levels deep",
                     f"keys and lists nested {nesting.allowed()}",
                     f"Why: {nesting.reason}.",
                 )
