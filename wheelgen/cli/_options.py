@@ -35,7 +35,9 @@ class Bounded(click.ParamType):
     def get_metavar(
         self, param: click.Parameter, *args: Any, **kwargs: Any
     ) -> str | None:
-        return "N" if self.bound.whole else "X"
+        if isinstance(param, click.Argument):
+            return None  # an argument shows its own name
+        return "INTEGER" if self.bound.whole else "FLOAT"
 
     def convert(
         self, value: Any, param: click.Parameter | None, ctx: click.Context | None

@@ -284,7 +284,7 @@ BOUNDS: dict[str, Bound] = {
         "10000 divisions the steps are too small to set", whole=True,
     ),
     "option.index.ratio": Bound(
-        1, 1000, ":1", "worm dividing heads and rotary tables are made from about "
+        1, 1000, "", "worm dividing heads and rotary tables are made from about "
         "4:1 to 360:1 (common practice, no source)", whole=True,
     ),
     "option.index.holes": Bound(
