@@ -656,3 +656,20 @@ def test_many_mistakes_are_listed_up_to_a_limit():
         loads_design(text, "t.toml")
     problems = info.value.problems
     assert len(problems) == 101 and "more problems, not listed" in str(problems[-1])
+
+
+def test_the_format_document_gives_every_bounded_range():
+    # docs/format.md and the bounds table must tell the same story
+    from wheelgen.design.bounds import _show
+    from wheelgen.design.loader import PROCESS_KEYS, WHEEL_KEYS
+
+    doc = (Path(__file__).parents[1] / "docs" / "format.md").read_text(encoding="utf-8")
+    checks = {k: v[2] for k, v in WHEEL_KEYS.items()}
+    checks |= {k: v[1] for k, v in PROCESS_KEYS.items()}
+    for key, check in checks.items():
+        bound = getattr(check, "bound", None)
+        if bound is None or bound.phrase:
+            continue
+        (row,) = [line for line in doc.splitlines() if line.startswith(f"| `{key}` |")]
+        kind = row.split("|")[2].replace("−", "-")
+        assert f"{_show(bound.low)}..{_show(bound.high)}" in kind, (key, kind)
