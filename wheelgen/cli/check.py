@@ -2,16 +2,28 @@
 
 from __future__ import annotations
 
+import math
 import sys
+from fractions import Fraction
 
 import click
 
 from ..checks import analyse, findings_table, has_errors
-from ..design.periods import format_period
+from ..design.periods import as_float, format_period
+from ..kinematics.rates import rate_text
 from ..kinematics.targets import arbor_period, arbor_sense
 from ._common import EXIT_FINDINGS, EXIT_OK, echo_json, load_or_exit
 
 __all__ = ["check_command"]
+
+
+def _seconds(value: Fraction | None) -> float | None:
+    """A period in seconds for JSON; null where no float holds it (JSON has no inf)."""
+    return None if value is None else _finite(as_float(value))
+
+
+def _finite(value: float | None) -> float | None:
+    return value if value is not None and math.isfinite(value) else None
 
 
 @click.command("check")
@@ -35,7 +47,7 @@ def check_command(design: str | None, as_json: bool) -> None:
             {
                 "name": a.name,
                 "turns_per_drive_turn": None if rate is None else str(rate),
-                "period_s": None if period is None else float(period),
+                "period_s": _seconds(period),
                 "period": "still"
                 if rate == 0
                 else ("-" if period is None else format_period(period)),
@@ -45,10 +57,10 @@ def check_command(design: str | None, as_json: bool) -> None:
     targets = [
         {
             "arbor": t.arbor,
-            "wanted_s": None if t.wanted_s is None else float(t.wanted_s),
-            "got_s": None if t.got_s is None else float(t.got_s),
-            "error_ppm": t.error_ppm,
-            "drift_deg_per_year": t.drift_deg_per_year,
+            "wanted_s": _seconds(t.wanted_s),
+            "got_s": _seconds(t.got_s),
+            "error_ppm": _finite(t.error_ppm),
+            "drift_deg_per_year": _finite(t.drift_deg_per_year),
             "sense_ok": t.sense_ok,
             "met": t.met,
         }
@@ -83,7 +95,8 @@ def check_command(design: str | None, as_json: bool) -> None:
         f"{'arbor':{width}}  {'turns per drive turn':>22}  {'period':>16}  sense"
     )
     for r in rows:
-        rate = r["turns_per_drive_turn"] or "-"
+        exact = result.solution.rate(r["name"])
+        rate = "-" if exact is None else rate_text(exact)  # JSON keeps every digit
         click.echo(f"{r['name']:{width}}  {rate:>22}  {r['period']:>16}  {r['sense']}")
     if result.targets:
         click.echo("")

@@ -128,13 +128,16 @@ def _title(v: Any) -> str | None:
 
 # A dotted key of more parts than the nesting bound, found by a scan that skips strings
 # and comments (matched as tokens of their own, so a dot inside them never counts).
-_BARE = r"[A-Za-z0-9_-]+"
-_BASIC = r'"(?:[^"\\\n]|\\.)*"'
-_LITERAL = r"'[^'\n]*'"
+# Possessive runs (``++``) and a run of key characters skipped as one token keep the scan
+# linear: a long run of digits is tried once, not once per character.
+_BARE = r"[A-Za-z0-9_-]++"
+_BASIC = r'"(?:[^"\\\n]|\\.)*+"'
+_LITERAL = r"'[^'\n]*+'"
 _PART = rf"(?:{_BARE}|{_BASIC}|{_LITERAL})"
 _DEEP_KEY = re.compile(
     rf"(?P<deep>{_PART}(?:[ \t]*\.[ \t]*{_PART}){{{int(BOUNDS['nesting'].high)},}})"
-    rf'|"""[\s\S]*?"""|' + r"'''[\s\S]*?'''|" + rf"{_BASIC}|{_LITERAL}|#[^\n]*"
+    rf'|"""[\s\S]*?"""|' + r"'''[\s\S]*?'''|" + rf"{_BASIC}|{_LITERAL}|#[^\n]*+"
+    rf"|{_BARE}"
 )
 
 

@@ -2,11 +2,14 @@
 
 from __future__ import annotations
 
+import math
 import re
 from fractions import Fraction
 
 __all__ = [
     "UNIT_SECONDS",
+    "as_float",
+    "scientific",
     "parse_number",
     "parse_period",
     "format_period",
@@ -98,10 +101,41 @@ def parse_period(text: str) -> Fraction:
     return value * UNIT_SECONDS[unit]
 
 
+def as_float(value: Fraction | float) -> float:
+    """``value`` as a float; ``inf`` (with its sign) where no float is that large.
+
+    A long train can turn an arbor 3^-2000 times per drive turn: its period is exact,
+    but ``float()`` of it raises OverflowError.
+    """
+    try:
+        return float(value)
+    except OverflowError:
+        return math.inf if value > 0 else -math.inf
+
+
+def scientific(value: Fraction, digits: int = 4) -> str:
+    """An exact number of any size as ``"1.235e+330"``, worked out on the integers."""
+    if value == 0:
+        return "0"
+    sign = "-" if value < 0 else ""
+    num, den = abs(value.numerator), value.denominator
+    # 10^e <= num/den < 10^(e+1)
+    e = len(str(num)) - len(str(den))
+    if num * 10 ** max(0, -e) < den * 10 ** max(0, e):
+        e -= 1
+    shift = digits - 1 - e
+    scaled = (num * 10 ** max(0, shift)) // (den * 10 ** max(0, -shift))
+    text = str(scaled)
+    mantissa = text[0] + ("." + text[1:digits] if digits > 1 else "")
+    return f"{sign}{mantissa}e{e:+d}"
+
+
 def format_period(seconds: Fraction | float, digits: int = 6) -> str:
     """A period in the largest unit that keeps the number at least 1, e.g. ``"27.3217 d"``."""
-    value = float(seconds)
+    value = as_float(seconds)
     if value == float("inf"):
+        if isinstance(seconds, Fraction) and seconds != math.inf:
+            return f"{scientific(seconds / UNIT_SECONDS['yr'], digits)} yr"
         return "never"
     for unit in ("yr", "d", "h", "min"):
         size = float(UNIT_SECONDS[unit])

@@ -25,6 +25,7 @@ from dataclasses import dataclass
 from fractions import Fraction
 
 from ..design.model import Design
+from ..design.periods import scientific
 from .linear import ExactSystem, Row
 
 __all__ = [
@@ -90,17 +91,7 @@ def rate_text(rate: Fraction | None, digits: int = 40) -> str:
     if rate is None:
         return "?"
     text = str(rate)
-    if len(text) <= digits:
-        return text
-    sign = "-" if rate < 0 else ""
-    num, den = abs(rate.numerator), rate.denominator
-    # 10^e <= num/den < 10^(e+1), then four significant digits from integer division
-    e = len(str(num)) - len(str(den))
-    if num * 10 ** max(0, -e) < den * 10 ** max(0, e):
-        e -= 1
-    scaled = num * 10 ** max(0, 3 - e) // (den * 10 ** max(0, e - 3))
-    mantissa = f"{scaled // 1000}.{scaled % 1000:03d}"
-    return f"about {sign}{mantissa}e{e:+d}"
+    return text if len(text) <= digits else f"about {scientific(rate)}"
 
 
 @dataclass(frozen=True, slots=True)

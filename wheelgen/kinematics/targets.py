@@ -6,7 +6,7 @@ from dataclasses import dataclass
 from fractions import Fraction
 
 from ..design.model import Design, Target
-from ..design.periods import UNIT_SECONDS
+from ..design.periods import UNIT_SECONDS, as_float
 from .rates import TrainSolution
 
 __all__ = ["TargetResult", "evaluate_targets", "arbor_period", "arbor_sense"]
@@ -68,9 +68,9 @@ def evaluate_targets(design: Design, solution: TrainSolution) -> list[TargetResu
         got_s = arbor_period(design, rate)
         error_ppm = drift = None
         if got_s is not None:
-            error_ppm = float((got_s - wanted_s) / wanted_s * 1_000_000)
+            error_ppm = as_float((got_s - wanted_s) / wanted_s * 1_000_000)
             # rates in turns per second; their difference over a year, in degrees
-            drift = float((1 / got_s - 1 / wanted_s) * _YEAR_S * 360)
+            drift = as_float((1 / got_s - 1 / wanted_s) * _YEAR_S * 360)
         sense = arbor_sense(design, rate)
         sense_ok = t.sense == "either" or sense == t.sense
         met = False

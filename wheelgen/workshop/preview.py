@@ -20,8 +20,8 @@ from typing import Mapping
 import numpy as np
 
 from ..design.model import Design
-from ..design.periods import format_period
-from ..kinematics.angles import arbor_angles
+from ..design.periods import as_float, format_period
+from ..kinematics.angles import angle_model, arbor_angles
 from ..kinematics.rates import TrainSolution
 from ..kinematics.targets import arbor_period
 from ._svg import colour, esc, fmt
@@ -68,12 +68,13 @@ class PreviewPlan:
 
 
 def _turning(design: Design, solution: TrainSolution) -> dict[str, float]:
-    """Period in seconds of every arbor that turns."""
+    """Period in seconds of every arbor that turns (within what a float holds: an
+    arbor that turns once in more than 1e308 s stands still in any animation)."""
     out = {}
     for a in design.arbors:
         period = arbor_period(design, solution.rate(a.name))
-        if period is not None:
-            out[a.name] = float(period)
+        if period is not None and math.isfinite(seconds := as_float(period)):
+            out[a.name] = seconds
     return out
 
 
@@ -86,10 +87,16 @@ def uneven_arbors(
     the straight line through the two ends, which a periodic unevenness leaves.
     """
     periods = _turning(design, solution)
+    # only an arbor behind a coupling can stray; each is sampled on its own, so a
+    # train of thousands of arbors costs as much as its couplings' arbors
+    model = angle_model(design)
     out = []
-    for name, period in periods.items():
+    for name in model.uneven():
+        if name not in periods:
+            continue
+        period = periods[name]
         t = np.linspace(0.0, period, samples)
-        ang = np.asarray(arbor_angles(design, t)[name], dtype=float)
+        ang = np.asarray(arbor_angles(design, t, model, [name])[name], dtype=float)
         even = ang[0] + (ang[-1] - ang[0]) * t / period
         if float(np.max(np.abs(ang - even))) > _UNEVEN_DEG:
             out.append(name)
@@ -118,7 +125,7 @@ def preview_plan(design: Design, solution: TrainSolution) -> PreviewPlan:
     # the mean rate over one whole turn of each uneven arbor (the loop need not be one)
     means = {}
     for n in uneven:
-        ends = arbor_angles(design, np.array([0.0, periods[n]]))[n]
+        ends = arbor_angles(design, np.array([0.0, periods[n]]), arbors=[n])[n]
         means[n] = float((ends[1] - ends[0]) / periods[n])
     return PreviewPlan(
         reference=reference,
