@@ -53,7 +53,9 @@ def arbors(count: int, link: str) -> str:
     out = ['[design]\ntitle = "t"\n[drive]\narbor = "a0"\nperiod = "1 h"\n']
     out.append('[[arbor]]\nname = "a0"\nat = [0.0, 0.0]\n')
     for i in range(1, count):
-        extra = f'around = "a{i - 1}"' if link == "around" else f"at = [{i * 10.0}, 0.0]"
+        extra = (
+            f'around = "a{i - 1}"' if link == "around" else f"at = [{i * 10.0}, 0.0]"
+        )
         out.append(f'[[arbor]]\nname = "a{i}"\n{extra}\n')
     return "\n".join(out)
 
@@ -105,8 +107,14 @@ def main() -> None:
         os.mkfifo(where / "fifo.toml")
         show("a FIFO as the design", run(["check", "fifo.toml"], where))
         show("/dev/zero as the design", run(["check", "/dev/zero"], where))
-        show("index 127 --ratio 10000000", run(["index", "127", "--ratio", "10000000"], where))
-        show("gear --pin nan", run(["gear", "-z", "20", "-m", "1", "--pin", "nan"], where))
+        show(
+            "index 127 --ratio 10000000",
+            run(["index", "127", "--ratio", "10000000"], where),
+        )
+        show(
+            "gear --pin nan",
+            run(["gear", "-z", "20", "-m", "1", "--pin", "nan"], where),
+        )
         print("large trains, wheelgen check (time per arbor should not grow):")
         sizes = (250, 500) if quick else (250, 500, 1000, 2000)
         for unique in (False, True):

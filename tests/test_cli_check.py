@@ -346,3 +346,47 @@ def test_any_mix_of_mistakes_is_reported_together(tmp_path, chosen):
     count = len(chosen) + (1 if 4 in chosen else 0)
     noun = "problem" if count == 1 else "problems"
     assert f"{count} {noun} in the design file" in result.output
+
+
+def _steep_train(stages: int) -> str:
+    # derived: each stage turns the next arbor 10/2000 times, so arbor k turns
+    # 200^-k times per drive turn; from about k = 134 no float holds its period
+    out = [
+        '[design]\ntitle = "steep"\n[defaults]\nmodule = 0.05\nface_width = 1.0\n'
+        '[drive]\narbor = "a0"\nperiod = "1 s"\n'
+    ]
+    for i in range(stages):
+        at = "at = [0.0, 0.0]\n" if i == 0 else ""
+        out.append(f'[[arbor]]\nname = "a{i}"\n{at}diameter = 1.0\n')
+        out.append(
+            f'[[wheel]]\nname = "w{i}"\narbor = "a{i}"\nteeth = 2000\n'
+            f"height = {2.0 + 3 * (i % 3)}\n"
+        )
+        out.append(
+            f'[[wheel]]\nname = "p{i}"\narbor = "a{i}"\nteeth = 10\n'
+            f"height = {2.0 + 3 * ((i + 1) % 3)}\n"
+        )
+        if i:
+            out.append(f'[[mesh]]\npair = ["p{i - 1}", "w{i}"]\nbearing = 0.0\n')
+    out.append('[[target]]\narbor = "a139"\nperiod = "1 h"\n')
+    return "\n".join(out)
+
+
+def test_rates_no_float_holds_are_reported_without_a_traceback(tmp_path):
+    from wheelgen.design import load_design
+    from wheelgen.kinematics.rates import solve_rates
+    from wheelgen.workshop.preview import preview_plan
+
+    path = tmp_path / "steep.toml"
+    path.write_text(_steep_train(140))
+    result = run(path)
+    assert result.exit_code == 1, result.output  # a missed target, not a crash
+    assert "about -1.434e-320" in result.output  # derived: -(10/2000)^139
+    assert "2.20833e+312 yr" in result.output
+    data = json.loads(run(path, "--json").stdout)
+    last = data["arbors"][-1]
+    assert Fraction(last["turns_per_drive_turn"]) == Fraction(-1, 200**139)
+    assert last["period_s"] is None  # JSON has no number that large
+    assert data["targets"][0]["error_ppm"] is None
+    design = load_design(path)
+    preview_plan(design, solve_rates(design))  # the report's animation, too

@@ -300,10 +300,6 @@ _PROBLEMS_SHOWN = 100
 _ORDINAL = {1: "st", 2: "nd", 3: "rd"}
 
 
-def _show_number(v: float) -> str:
-    return f"{v:g}"
-
-
 def _listed(names: Any, shown: int = 20) -> str:
     """Names in quotes, the first ``shown`` of them: a large train has thousands."""
     names = list(names)
@@ -1172,7 +1168,7 @@ class _Loader:
             self.where(*ctx, "teeth"),
             f"teeth = {teeth} at module {module:g} mm make a wheel {across:.0f} mm "
             "across",
-            f"a wheel at most {_show_number(limit.high)} mm across (fewer teeth or a "
+            f"a wheel at most {float(limit.high):g} mm across (fewer teeth or a "
             "smaller module)",
             f"Why: {limit.reason}.",
         )

@@ -494,11 +494,12 @@ def angle_setting(
         raise ValueError("'plates' must hold at least one hole circle, got none")
     try:
         # a float at its shortest repr, so 0.1 is 1/10 and not 3602879701896397/2**55
-        if isinstance(angle_deg, (int, float)) and not isinstance(angle_deg, bool):
-            angle_deg = repr(angle_deg)
-        angle = (
-            angle_deg if isinstance(angle_deg, Fraction) else parse_number(angle_deg)
-        )
+        if isinstance(angle_deg, Fraction):
+            angle = angle_deg
+        elif isinstance(angle_deg, (int, float)) and not isinstance(angle_deg, bool):
+            angle = parse_number(repr(angle_deg))
+        else:
+            angle = parse_number(angle_deg)  # refuses anything but text
     except ValueError as exc:
         raise ValueError(
             f"'angle_deg' must be a number of degrees, got {angle_deg!r} ({exc})"
