@@ -274,6 +274,32 @@ class Stock:
     width: float | None = None
 
 
+class _Lookup:
+    """A design's arbors and wheels by name, made once (the first of equal names wins,
+    as a search in file order would find it)."""
+
+    __slots__ = ("arbors", "wheels", "wheels_on", "sleeves_on", "carried_by")
+
+    def __init__(self, arbors: tuple[Arbor, ...], wheels: tuple[Wheel, ...]) -> None:
+        self.arbors: dict[str, Arbor] = {}
+        self.wheels: dict[str, Wheel] = {}
+        on: dict[str, list[Wheel]] = {}
+        around: dict[str, list[str]] = {}
+        carried: dict[str, list[Arbor]] = {}
+        for a in arbors:
+            self.arbors.setdefault(a.name, a)
+            if a.around is not None:
+                around.setdefault(a.around, []).append(a.name)
+            if a.carrier is not None:
+                carried.setdefault(a.carrier, []).append(a)
+        for w in wheels:
+            self.wheels.setdefault(w.name, w)
+            on.setdefault(w.arbor, []).append(w)
+        self.wheels_on = {k: tuple(v) for k, v in on.items()}
+        self.sleeves_on = {k: tuple(v) for k, v in around.items()}
+        self.carried_by = {k: tuple(v) for k, v in carried.items()}
+
+
 @dataclass(frozen=True, slots=True)
 class Hand:
     """A hand on the front end of an arbor; lengths in mm.
@@ -367,69 +393,31 @@ class Design:
     sha256: str = ""  # of the file's bytes
     # Look-ups by name, made once: every layer asks for arbors and wheels by name, and
     # a linear search per question made large trains quadratic.
-    _arbors: dict[str, Arbor] = field(
-        init=False, repr=False, compare=False, default_factory=dict
-    )
-    _wheels: dict[str, Wheel] = field(
-        init=False, repr=False, compare=False, default_factory=dict
-    )
-    _wheels_on: dict[str, tuple[Wheel, ...]] = field(
-        init=False, repr=False, compare=False, default_factory=dict
-    )
-    _sleeves_on: dict[str, tuple[str, ...]] = field(
-        init=False, repr=False, compare=False, default_factory=dict
-    )
-    _carried_by: dict[str, tuple[Arbor, ...]] = field(
-        init=False, repr=False, compare=False, default_factory=dict
-    )
+    _by: _Lookup = field(init=False, repr=False, compare=False)
 
     def __post_init__(self) -> None:
-        # the first of equal names wins, as the linear search it replaces did
-        arbors: dict[str, Arbor] = {}
-        for a in self.arbors:
-            arbors.setdefault(a.name, a)
-        wheels: dict[str, Wheel] = {}
-        on: dict[str, list[Wheel]] = {}
-        for w in self.wheels:
-            wheels.setdefault(w.name, w)
-            on.setdefault(w.arbor, []).append(w)
-        object.__setattr__(self, "_arbors", arbors)
-        object.__setattr__(self, "_wheels", wheels)
-        object.__setattr__(self, "_wheels_on", {k: tuple(v) for k, v in on.items()})
-        around: dict[str, list[str]] = {}
-        carried: dict[str, list[Arbor]] = {}
-        for a in self.arbors:
-            if a.around is not None:
-                around.setdefault(a.around, []).append(a.name)
-            if a.carrier is not None:
-                carried.setdefault(a.carrier, []).append(a)
-        object.__setattr__(
-            self, "_sleeves_on", {k: tuple(v) for k, v in around.items()}
-        )
-        object.__setattr__(
-            self, "_carried_by", {k: tuple(v) for k, v in carried.items()}
-        )
+        object.__setattr__(self, "_by", _Lookup(self.arbors, self.wheels))
 
     def arbor(self, name: str) -> Arbor:
-        return self._arbors[name]
+        return self._by.arbors[name]
 
     def wheel(self, name: str) -> Wheel:
-        return self._wheels[name]
+        return self._by.wheels[name]
 
     def wheels_on(self, arbor: str) -> tuple[Wheel, ...]:
-        return self._wheels_on.get(arbor, ())
+        return self._by.wheels_on.get(arbor, ())
 
     def sleeves_on(self, arbor: str) -> tuple[str, ...]:
         """Names of the sleeves whose ``around`` is ``arbor``, in file order."""
-        return self._sleeves_on.get(arbor, ())
+        return self._by.sleeves_on.get(arbor, ())
 
     def carried_by(self, wheel: str) -> tuple[Arbor, ...]:
         """The arbors whose ``carrier`` is ``wheel``, in file order."""
-        return self._carried_by.get(wheel, ())
+        return self._by.carried_by.get(wheel, ())
 
     def axis_root(self, arbor: str) -> str:
         """The innermost member of ``arbor``'s coaxial group (itself unless a sleeve)."""
-        return axis_root_of(self._arbors, arbor)
+        return axis_root_of(self._by.arbors, arbor)
 
     def inner_members(self, arbor: str) -> tuple[str, ...]:
         """The members a sleeve surrounds, from the next one in to the axis root."""

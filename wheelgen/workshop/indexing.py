@@ -499,7 +499,7 @@ def angle_setting(
         elif isinstance(angle_deg, (int, float)) and not isinstance(angle_deg, bool):
             angle = parse_number(repr(angle_deg))
         else:
-            angle = parse_number(angle_deg)  # refuses anything but text
+            angle = parse_number(str(angle_deg))  # True, None: not numbers
     except ValueError as exc:
         raise ValueError(
             f"'angle_deg' must be a number of degrees, got {angle_deg!r} ({exc})"
