@@ -51,7 +51,7 @@ def carrier_hole_problems(layout: Layout) -> list[HoleProblem]:
     wall = design.process.wall_minimum
     out: list[HoleProblem] = []
     for wheel in design.wheels:
-        if not any(a.carrier == wheel.name for a in design.arbors):
+        if not design.carried_by(wheel.name):
             continue
         try:
             part = wheel_part(layout, wheel)
