@@ -18,7 +18,7 @@ import sys
 from pathlib import Path
 
 import pytest
-from _hostile_cases import Case, cases  # noqa: I001  (tests/ is on the path)
+from _hostile_cases import Case, cases
 
 HERE = Path(__file__).parent
 #: The longest a single case may take before it counts as unbounded work.

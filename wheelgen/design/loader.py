@@ -44,7 +44,7 @@ from .names import (
     name_key,
     name_problem,
 )
-from .periods import UNIT_SECONDS, PeriodError, parse_period
+from .periods import UNIT_SECONDS, PeriodError, parse_number, parse_period
 from .process_limits import default_backlash
 from .screws import SCREWS
 
@@ -1346,11 +1346,8 @@ class _Loader:
         try:
             if isinstance(raw, bool) or not isinstance(raw, (str, int, float)):
                 raise ValueError
-            text = str(raw).replace(" ", "")
-            if re.search(r"[eE][+-]?\d{3}", text):
-                raise ValueError  # Fraction would build a huge integer first
-            value = Fraction(text)
-        except (ValueError, ZeroDivisionError):
+            value = parse_number(str(raw))  # at most 40 characters, 1e-30 to 1e30
+        except ValueError:
             self.problem(self.where(*ctx, "turns"), f"turns = {_show(raw)}", allowed)
             return None
         if value <= 0:
