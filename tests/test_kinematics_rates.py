@@ -458,3 +458,38 @@ def test_carried_arbor_meshing_with_a_plate_arbor_is_flagged():
     )
     sol = solve_rates(design(body, drive="shaft"))
     assert sol.bad_meshes == ("mesh wp-ws",)
+
+
+def test_a_lock_closing_a_long_loop_is_explained_without_solving_it_again():
+    # derived: 199 meshes of 30:30 turn the last arbor at (-1)^199 = -1; closing it back
+    # to the drive through 31:30 asks -30/31: the train locks. The explanation must not
+    # solve the system once per link (that grew with the cube of the length).
+    names = ["a"] + [f"x{i}" for i in range(1, 200)]
+    body = arbors(*names)
+    for i, name in enumerate(names):
+        body += wheel(f"w{i}", name, 30) + wheel(f"p{i}", name, 30)
+    for i in range(1, len(names)):
+        body += mesh(f"p{i - 1}", f"w{i}")
+    body += wheel("close_a", "a", 31) + wheel("close_z", names[-1], 30)
+    body += mesh("close_z", "close_a")
+    (conflict,) = solve_rates(design(body)).conflicts
+    text = conflict.message()
+    assert "more ..." in text and "mesh close_z-close_a" in text
+    assert {conflict.rate_one, conflict.rate_two} >= {Fraction(-1)}
+
+
+def test_a_train_locked_in_many_places_explains_the_first_twenty():
+    body = arbors("a")
+    for k in range(25):  # 25 pairs of arbors, each driven two ways that disagree
+        b, c = f"b{k}", f"c{k}"
+        body += f'[[arbor]]\nname = "{b}"\nat = [0.0, {40.0 * (k + 1)}]\n'
+        body += f'[[arbor]]\nname = "{c}"\nat = [40.0, {40.0 * (k + 1)}]\n'
+        body += wheel(f"a{k}", "a", 20) + wheel(f"ab{k}", b, 20)
+        body += wheel(f"bc{k}", b, 20) + wheel(f"cb{k}", c, 20)
+        body += wheel(f"ac{k}", "a", 20) + wheel(f"ca{k}", c, 21)
+        body += mesh(f"a{k}", f"ab{k}") + mesh(f"bc{k}", f"cb{k}")
+        body += mesh(f"ac{k}", f"ca{k}")
+    conflicts = solve_rates(design(body)).conflicts
+    assert len(conflicts) == 25
+    assert all(c.path_one for c in conflicts[:20])
+    assert all(not c.path_one and "first 20" in c.message() for c in conflicts[20:])

@@ -21,6 +21,7 @@ that disagree.
 
 from __future__ import annotations
 
+from collections import deque
 from dataclasses import dataclass
 from fractions import Fraction
 
@@ -59,6 +60,12 @@ class Conflict:
     path_two: tuple[str, ...]
 
     def message(self) -> str:
+        if not self.path_one:  # one of many locks: only the first are explained
+            return (
+                f'arbor "{self.arbor}" is driven two ways that disagree as well, at '
+                f"{_path_text(self.path_two)}; the train locks (only the first "
+                f"{_CONFLICTS_EXPLAINED} such places are explained in full)"
+            )
         r1, r2 = rate_text(self.rate_one), rate_text(self.rate_two)
         return (
             f'arbor "{self.arbor}" is driven two ways that disagree: through '
@@ -224,9 +231,9 @@ def _propagate(
             holding.setdefault(k, []).append(i)
     rates: dict[str, Fraction] = {}
     why: dict[str, int] = {}
-    todo = [i for i in sorted(use) if unknown[i] == 1]
+    todo = deque(i for i in sorted(use) if unknown[i] == 1)
     while todo:
-        i = todo.pop(0) if len(todo) < 64 else todo.pop()
+        i = todo.popleft()
         eq = eqs[i]
         free = [(k, c) for k, c in eq.coeffs if k not in rates]
         if len(free) != 1:
@@ -318,18 +325,24 @@ def _explain(
     def labels(path: set[int]) -> tuple[str, ...]:
         return tuple(eqs[i].label for i in sorted(path))
 
+    if large and all(k in earlier for k in names):
+        # each cut below would solve the whole system again: for a long train, name
+        # the longest path found and the closing link as the second one
+        paths = {t: _shortest(eqs, set(others), t, None) for t in names}
+        target = max(reversed(names), key=lambda t: len(paths[t]))
+        rest = [(k, c) for k, c in eq.coeffs if k != target]
+        implied = (eq.rhs - sum(c * earlier[k] for k, c in rest)) / dict(eq.coeffs)[
+            target
+        ]
+        return Conflict(
+            target, earlier[target], labels(paths[target]), implied, (eq.label,)
+        )
     for target in reversed(names):
         rest = [(k, c) for k, c in eq.coeffs if k != target]
         if target not in earlier or not all(k in earlier for k, _ in rest):
             continue
         one = _shortest(eqs, set(others), target, None)
         everything = set(others) | {index}
-        if large:
-            # each cut below solves the whole system again: for a long train, name the
-            # closing link as the second path instead
-            coeff = dict(eq.coeffs)[target]
-            implied = (eq.rhs - sum(c * earlier[k] for k, c in rest)) / coeff
-            return Conflict(target, earlier[target], labels(one), implied, (eq.label,))
         # Cut a mesh or coupling before an anchor (the drive, a fixed arbor): without
         # its anchor a closed loop of meshes still "fixes" every rate, at zero.
         for cut in sorted(one, key=lambda i: (len(eqs[i].coeffs) == 1, i)):
