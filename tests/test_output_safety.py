@@ -121,7 +121,7 @@ def test_a_project_folder_with_a_manifest_is_never_replaced(tmp_path):
             "mine/",
         ),
         (lambda out: (out / "dxf" / "extra.dxf").write_text("x"), "dxf/extra.dxf"),
-        (lambda out: (out / "link").symlink_to("/etc/hostname"), "link"),
+        (lambda out: (out / "link").symlink_to(out / "cutting.csv"), "link"),
         (lambda out: (out / "cutting.csv").write_text("edited"), "cutting.csv"),
         (lambda out: (out / "empty").mkdir(), "empty/"),
     ],
