@@ -664,12 +664,17 @@ def test_the_format_document_gives_every_bounded_range():
     from wheelgen.design.loader import PROCESS_KEYS, WHEEL_KEYS
 
     doc = (Path(__file__).parents[1] / "docs" / "format.md").read_text(encoding="utf-8")
-    checks = {k: v[2] for k, v in WHEEL_KEYS.items()}
-    checks |= {k: v[1] for k, v in PROCESS_KEYS.items()}
-    for key, check in checks.items():
-        bound = getattr(check, "bound", None)
-        if bound is None or bound.phrase:
-            continue
-        (row,) = [line for line in doc.splitlines() if line.startswith(f"| `{key}` |")]
-        kind = row.split("|")[2].replace("−", "-")
-        assert f"{_show(bound.low)}..{_show(bound.high)}" in kind, (key, kind)
+    sections = {s.split("\n", 1)[0]: s for s in doc.split("\n## ")}
+    tables = [
+        ("`[[wheel]]`", {k: v[2] for k, v in WHEEL_KEYS.items()}),
+        ("`[process]`", {k: v[1] for k, v in PROCESS_KEYS.items()}),
+    ]
+    for heading, checks in tables:
+        lines = sections[heading].splitlines()
+        for key, check in checks.items():
+            bound = getattr(check, "bound", None)
+            if bound is None or bound.phrase:
+                continue
+            (row,) = [line for line in lines if line.startswith(f"| `{key}` |")]
+            kind = row.split("|")[2].replace("−", "-")
+            assert f"{_show(bound.low)}..{_show(bound.high)}" in kind, (key, kind)

@@ -91,7 +91,7 @@ def test_new_frame_keys_load():
         ),
         ("pillars = 2", "from 3 to 12"),
         ('screw = "M7"', "'M2', 'M2.5', 'M3', 'M4', 'M5'"),
-        ("pillar_diameter = 0.0", "a number > 0"),
+        ("pillar_diameter = 0.0", "a number from 0.01 to 2000 mm"),
     ],
 )
 def test_bad_frame_keys_say_what_is_allowed(change, words):

@@ -368,23 +368,3 @@ def test_a_part_beyond_the_bounds_is_refused_before_the_kernel(tmp_path):
             parts=[thin],
         )  # fmt: skip
     assert not (tmp_path / "out").exists()
-
-
-# --- free text in files ---------------------------------------------------------------
-
-
-def test_control_characters_in_a_title_never_make_ill_formed_xml():
-    # the loader refuses such a title; a script may still build a Design by hand
-    import dataclasses
-    import xml.etree.ElementTree as ET
-
-    from wheelgen.design.names import xml_text
-    from wheelgen.layout.drilling import drilling_svg
-
-    demo = Path(__file__).resolve().parents[1] / "designs" / "harbour_tide_clock.toml"
-    design = load_design(demo)  # it has a frame, so it has plates to drill
-    hostile = dataclasses.replace(design, title="Clock\x01\x1b[31m <&> \"'\ufffe")
-    svg = drilling_svg(hostile, "back")
-    root = ET.fromstring(svg)  # raises on ill-formed XML
-    assert "Clock" in "".join(root.itertext())
-    assert xml_text("a\x00b\x0bc\td") == "abc\td"  # XML 1.0 keeps only tab, LF, CR

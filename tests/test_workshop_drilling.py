@@ -2,6 +2,7 @@
 holes; the 1:1 SVG with its check bar; the sheet writer."""
 
 import csv
+import dataclasses
 import io
 import math
 import re
@@ -15,7 +16,9 @@ import pytest
 
 from tests._demo import DEMO_TEXT
 from wheelgen.checks.findings import Finding
+from wheelgen.design import DesignError
 from wheelgen.design.loader import load_design, loads_design
+from wheelgen.design.names import xml_text
 from wheelgen.frame.plan import plan_frame
 from wheelgen.workshop.drilling import drilling_csv, drilling_sheet_writer, drilling_svg
 
@@ -142,10 +145,17 @@ def test_mesh_lines_on_both_plates(plate):
 
 
 def test_control_characters_in_the_title_keep_the_svg_well_formed():
-    design = loads_design(
-        DEMO_TEXT.replace('title = "Harbour', 'title = "\\u0007Harbour'), "demo.toml"
+    # the loader refuses such a title; a script may still build a Design by hand
+    hostile = DEMO_TEXT.replace('title = "Harbour', 'title = "\\u0007Harbour')
+    with pytest.raises(DesignError, match="control character U\\+0007"):
+        loads_design(hostile, "demo.toml")
+    design = dataclasses.replace(
+        loads_design(DEMO_TEXT, "demo.toml"),
+        title="\x07Harbour\x01\x1b[31m <&> \"'\ufffe",
     )
-    ET.fromstring(drilling_svg(design, "front"))
+    root = ET.fromstring(drilling_svg(design, "front"))  # raises if ill-formed
+    assert "Harbour" in "".join(root.itertext())
+    assert xml_text("a\x00b\x0bc\td") == "abc\td"  # XML 1.0 keeps tab, LF, CR only
 
 
 def test_sheet_writer_writes_both_plates(tmp_path):

@@ -889,8 +889,9 @@ class _Loader:
         v = t["polygon"]
         corners, position = BOUNDS["frame_corners"], BOUNDS["position"]
         allowed = (
-            f"a list of {corners.allowed()} corners [[x, y], ...] (mm, each "
-            f"{position.allowed()}) that do not cross, such as"
+            f"a list of at least {int(corners.low)} corners [[x, y], ...] (at most "
+            f"{int(corners.high)}; mm, each {position.allowed()}) that do not cross, "
+            "such as"
             " [[-50, -40], [60, -40], [60, 50], [-50, 50]]"
         )
         if not (
