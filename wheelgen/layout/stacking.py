@@ -390,20 +390,34 @@ def _barred(
     reports it)."""
     if not plate_z:
         return []
+    on_plates = set(mounted)
     discs = []  # (axis, z0, z1, radius, wheel) of wheels and hubs on fixed axes
     for w in design.wheels:
         root = axis_root(design, w.arbor)
-        if root not in mounted:
+        if root not in on_plates:
             continue
         top = w.height + w.face_width
         discs.append((root, w.height, top, nominal_tip_radius(tooth_spec(w)), w.name))
         if w.hub_diameter > 0 and w.hub_length > 0:
             discs.append((root, top, top + w.hub_length, w.hub_diameter / 2, w.name))
+    seated = [a for a in mounted if spans[a].seats]
+    # only a disc whose circle reaches the arbor can bar it: found through boxes, not
+    # by comparing every arbor with every wheel
+    near: dict[int, list[int]] = {}
+    if seated and discs:
+        centres = np.array(
+            [positions[a] for a in seated] + [positions[d[0]] for d in discs], float
+        )
+        reach = np.array(
+            [design.arbor(a).diameter / 2 for a in seated] + [d[3] for d in discs]
+        )[:, None]
+        count = len(seated)
+        for i, j in overlapping_pairs(centres - reach, centres + reach):
+            if i < count <= j:
+                near.setdefault(i, []).append(j - count)
     out = []
-    for a in mounted:
+    for k, a in enumerate(seated):
         span = spans[a]
-        if not span.seats:
-            continue
         ways = {
             "back": (plate_z["back"][1], span.z0),
             "front": (span.z1, plate_z["front"][0]),
@@ -411,7 +425,7 @@ def _barred(
         ra = design.arbor(a).diameter / 2
         barred: dict[str, tuple[str, float, float]] = {}
         for plate, (lo, hi) in ways.items():
-            for b, z0, z1, r, wheel in discs:
+            for b, z0, z1, r, wheel in (discs[n] for n in near.get(k, ())):
                 d = math.dist(positions[a], positions[b])
                 if b != a and z0 < hi - _EPS and z1 > lo + _EPS and d < r + ra - _EPS:
                     barred.setdefault(plate, (wheel, d, r + ra - d))
