@@ -5,8 +5,8 @@ after 120 s; the figures are its wall time and its peak memory (largest resident
 
 1. ``wheelgen check`` of chains of N arbors (two wheels each, N - 1 meshes, N from 250 to
    the 2000 the bounds allow): every pair alike, pairs of 350 kinds (each kind of pair
-   is worked out once), and every pair different (N from 100 to 400: each pair costs
-   its own simulation). Target: the time per arbor does not grow with N (no worse than
+   is worked out once), the pairs alike in a frame (plates, pillars and their checks),
+   and every pair different (N from 100 to 400: each pair costs its own simulation). Target: the time per arbor does not grow with N (no worse than
    linear).
 2. The hostile cases that used to run for minutes or out of memory. Target: each ends
    with exit 1 or 2 within 15 s and under 500 MB.
@@ -34,15 +34,19 @@ def chain(count: int, kinds: str) -> str:
     """A train of ``count`` arbors in a line, each driving the next (derived layout:
     wheels on three heights, so no wheel meets one it does not mesh with).
 
-    ``kinds``: ``"alike"`` (every pair 30:30), ``"350"`` (pairs of 350 kinds) or
+    ``kinds``: ``"alike"`` (every pair 30:30; ``"frame"``: the same between plates),
+    ``"350"`` (pairs of 350 kinds) or
     ``"all"`` (every pair different: 30 + i teeth driven by 12).
     """
     out = ['[design]\ntitle = "chain"\n[drive]\narbor = "a0"\nperiod = "1 h"\n']
     if kinds == "all":
         out[0] += "[defaults]\nmodule = 0.5\n"
+    if kinds == "frame":
+        out[0] += "[frame]\nplates = [0.0, 24.0]\n"
     for i in range(count):
         zw, zp = {
             "alike": (30, 30),
+            "frame": (30, 30),
             "350": (30 + (i * 7) % 50, 12 + (i * 3) % 7),
             "all": (30 + i, 12),
         }[kinds]
@@ -131,13 +135,15 @@ def main() -> None:
         sizes = (250, 500) if quick else (250, 500, 1000, 2000)
         for kinds, counts in (
             ("alike", sizes),
+            ("frame", sizes),
             ("350", sizes),
             ("all", (100, 200, 400)),
         ):
             for n in counts if not quick else counts[:2]:
                 (where / "c.toml").write_text(chain(n, kinds), encoding="utf-8")
                 result = run(["check", "c.toml"], where)
-                label = {"alike": "pairs alike", "350": "pairs of 350 kinds",
+                label = {"alike": "pairs alike", "frame": "alike, in a frame",
+                         "350": "pairs of 350 kinds",
                          "all": "every pair different"}[kinds]  # fmt: skip
                 per = f"  {1000 * result[0] / n:6.1f} ms per arbor"
                 show(f"{n} arbors, {label}", result, per)
