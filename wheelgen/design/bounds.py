@@ -141,6 +141,10 @@ BOUNDS: dict[str, Bound] = {
         -360, 360, "degrees", "a direction: -360 to 360 degrees covers every way of "
         "writing it",
     ),
+    "reading": Bound(
+        -100_000, 100_000, "", "a reading on a dial, in its own units (hours, days, "
+        "degrees or a label's number): a hundred thousand is more than any dial shows",
+    ),
     "pressure_angle": Bound(
         10, 35, "degrees", "involute teeth outside 10 to 35 degrees are undercut or "
         "pointed at any practical tooth count",
