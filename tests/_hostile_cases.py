@@ -101,12 +101,16 @@ _NUMBER_KEYS = [
                              "teeth", "height"]),
     ("[defaults]", ["module", "face_width", "backlash"]),
     ("[process]", [k for k, v in PROCESS_KEYS.items() if v[0] != "string"]),
-    ("[frame]", ["plates", "thickness"]),
+    ("[frame]", ["plates", "thickness", "margin", "clearance", "corner", "pillars",
+                 "pillar_diameter", "rectangle", "polygon"]),
     ('name = "lay"', ["at", "diameter"]),
     ('name = "planet"', ["at", "diameter"]),
     ('name = "moon_coupling"', ["radius", "offset", "bearing", "pin_diameter"]),
     ('pair = ["day_wheel", "lay_pinion"]', ["bearing"]),
     ("[[stock]]", ["outside", "inside"]),
+    ("[[hand]]", ["length", "tail", "counterweight", "width", "thickness", "rest"]),
+    ('arbor = "tide"', ["zero"]),
+    ("[display]", ["dial_gap", "hand_gap", "dial_thickness", "hand_thickness"]),
     ('period = "12.4206012 h"     # mean period of the principal lunar tide', ["turns"]),
 ]  # fmt: skip
 
@@ -122,7 +126,10 @@ _TEXT_KEYS = [
     ("[process]", ["fit"]),
 ]  # fmt: skip
 
-_STOCK = "\n[[stock]]\noutside = 6.0\ninside = 4.0\n"
+_STOCK = (
+    "\n[[stock]]\noutside = 6.0\ninside = 4.0\n"
+    '\n[[hand]]\narbor = "hours"\n\n[display]\nreadings = "targets"\n'
+)
 
 
 def _label(anchor: str) -> str:
