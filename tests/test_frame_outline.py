@@ -101,6 +101,40 @@ def test_hull_holds_every_circle_and_is_convex(circles):
     assert np.all(cross >= -1e-6)
 
 
+def test_hull_holds_a_small_circle_between_two_far_ones():
+    # found by the property test above: two large circles 120 mm apart whose common
+    # tangent passes 0.024 mm inside a small circle between them, over a range of
+    # directions narrower than the sampling step; derived: the small circle reaches
+    # y = -59.8678 - 21.3058 = -81.1735, 0.024 mm beyond that tangent
+    circles = [
+        (-4.448944819908078, -59.86775478015392, 21.30575847067319),
+        (-7.407277117457255, 8.347127798773414, 22.228903677261027),
+        (-70.70794916829345, 43.733757429866074, 11.950321304057773),
+        (-63.81606882170285, -44.19403106713963, 36.89007857753235),
+        (45.663075633006144, 13.75411352636499, 36.94552682946598),
+        (56.296644217205625, -43.14791998906229, 38.06901227324005),
+        (-28.872282410853067, -18.812365379323793, 11.692311510614072),
+    ]
+    loop = edges_polyline(rounded_hull(circles), 0.0005)
+    x, y, r = circles[0]
+    d = outline_distance(np.array([(x, y)]), loop)[0]
+    assert d >= r - 1e-3
+
+
+@pytest.mark.parametrize(
+    "circles",
+    [
+        [(0.0, 3.0, 1.0), (0.0, 4.0, 2.0)],  # touching from inside
+        [(0.0, 0.0, 1.0), (0.0, 1e-12, 1.0)],  # equal but for float noise
+    ],
+)
+def test_hull_of_a_circle_inside_another_is_the_outer_circle(circles):
+    # derived: the hull of a circle and one inside it is the outer circle itself
+    x, y, r = max(circles, key=lambda c: c[2])
+    loop = edges_polyline(rounded_hull(circles), 0.0005)
+    assert area(loop) == pytest.approx(math.pi * r * r, rel=1e-5)
+
+
 def test_rounded_rectangle_area():
     # derived: each rounded corner removes a square of side r less a quarter circle,
     # r^2 (1 - pi / 4)
