@@ -16,6 +16,11 @@ Method (our own, in the driven wheel's frame, no polygon booleans):
   other; the two sets of bounds are intersected. With polygons, first contact is always
   a vertex of one outline on an edge of the other, so using both outlines' vertices as
   samples finds every contact.
+- The swapped bounds come at driven angles of their own and are interpolated onto the
+  driver's steps; where the contact passes from one corner to another the bound has a
+  kink that the interpolation would cut short. So the swapped sweep is turned again to
+  just where the contact was found at each step (twice), which brings the error there
+  from about 0.01 to below 5e-4 degrees at 60 steps a pitch.
 
 Angles are degrees in public (``_deg``), radians inside. The driver turns
 counter-clockwise (``sense="ccw"``) about the origin, the driven wheel sits at
@@ -32,10 +37,23 @@ import numpy as np
 from ..design.model import Sense
 from ..teeth.outline import WheelOutline
 
-__all__ = ["MeshSimulation", "ToothTable", "tooth_table", "simulate_mesh"]
+__all__ = [
+    "CHECK_STEPS",
+    "JAM_TOLERANCE_DEG",
+    "MeshSimulation",
+    "ToothTable",
+    "tooth_table",
+    "simulate_mesh",
+]
 
 #: Play below this (degrees, at the driven wheel) counts as overlap: the pair binds.
 JAM_TOLERANCE_DEG = 1e-4
+#: Steps per pitch when the checks run the simulator (enough for a verdict; the
+#: benchmark and tests use finer steps). Every search for a running value uses the
+#: same, so a value it finds clears the check's verdict.
+CHECK_STEPS = 60
+#: Extra turns of the swapped sweep to where the contact was found (see simulate_mesh).
+REFINE_PASSES = 2
 
 
 @dataclass(frozen=True, slots=True, eq=False)
@@ -344,6 +362,38 @@ def simulate_mesh(
     far = 4 * p2
     hi = np.minimum(_limit(hi_a, far), _regrid(ideal1, hi_b, k, theta1, p1, far))
     lo = np.maximum(_limit(lo_a, far), _regrid(ideal1, lo_b, k, theta1, p1, far))
+    # Between those evenly spread driven angles the swapped bound is interpolated, and
+    # where the contact passes from one corner to another it has a kink that a chord
+    # cuts short (by up to 0.01 degrees at 60 steps). So turn the driven wheel again,
+    # to just where the estimate puts it at each driver step: there the swapped bound
+    # lands (almost) on that step, and interpolation has nothing to cut. Twice: the
+    # second lands within a hair of the step even beside a kink.
+    xs_hi, ys_hi, xs_lo, ys_lo = [ideal1], [hi_b], [ideal1], [lo_b]
+    direct_hi, direct_lo = _limit(hi_a, far), _limit(lo_a, far)
+    for _ in range(REFINE_PASSES):
+        # only where the swapped bound is the one that holds
+        ok_hi = (np.abs(hi) < p2) & (hi < direct_hi - 1e-12)
+        ok_lo = (np.abs(lo) < p2) & (lo > direct_lo + 1e-12)
+        m_hi = int(ok_hi.sum())
+        t2_r = np.concatenate((ideal2[ok_hi] + hi[ok_hi], ideal2[ok_lo] + lo[ok_lo]))
+        if not len(t2_r):
+            break
+        ideal1_r = (theta2_0 - t2_r) / k
+        lo_r, hi_r = _offset_bounds(
+            driven, (centre_distance, 0.0), t2_r, t1, (0.0, 0.0), ideal1_r, spacing, tol
+        )
+        xs_hi.append(ideal1_r[:m_hi])
+        ys_hi.append(hi_r[:m_hi])
+        xs_lo.append(ideal1_r[m_hi:])
+        ys_lo.append(lo_r[m_hi:])
+        hi = np.minimum(
+            direct_hi,
+            _regrid(np.concatenate(xs_hi), np.concatenate(ys_hi), k, theta1, p1, far),
+        )
+        lo = np.maximum(
+            direct_lo,
+            _regrid(np.concatenate(xs_lo), np.concatenate(ys_lo), k, theta1, p1, far),
+        )
     # no finite bound can exceed one pitch: beyond it no tooth touches on that side
     hi = np.where(hi > p2, np.inf, hi)
     lo = np.where(lo < -p2, -np.inf, lo)
