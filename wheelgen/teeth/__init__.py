@@ -21,6 +21,8 @@ from .spec import ToothSpec as ToothSpec
 from .spec import outline_for as outline_for
 from .triangular import min_root_radius_for_cutter as min_root_radius_for_cutter
 from .triangular import triangular_outline as triangular_outline
+from .triangular_data import TriangularData as TriangularData
+from .triangular_data import triangular_data as triangular_data
 
 __all__ = [
     "ISO_53_A",
@@ -29,6 +31,7 @@ __all__ = [
     "MeshData",
     "Segment",
     "ToothSpec",
+    "TriangularData",
     "WheelOutline",
     "gear_data",
     "inverse_involute_deg",
@@ -41,4 +44,5 @@ __all__ = [
     "outline_svg",
     "shift_for_centre_distance",
     "triangular_outline",
+    "triangular_data",
 ]

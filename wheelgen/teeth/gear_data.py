@@ -13,7 +13,7 @@ from .involute import _inv, _inverse_inv
 from .involute_tooth import GeneratedTooth, generate_tooth
 from .limits import tip_thickness, tooth_verdicts
 from .spec import ToothSpec
-from .triangular import triangular_tooth
+from .triangular_data import triangular_data
 
 __all__ = [
     "CUTTER_RANGES",
@@ -299,25 +299,25 @@ def gear_data(spec: ToothSpec, pin_diameter: float | None = None) -> GearData:
 
 
 def _triangular_data(spec: ToothSpec) -> GearData:
-    tooth = triangular_tooth(spec)
-    m = spec.module
-    warnings = [v.message for v in tooth_verdicts(spec)]
+    # the involute sheet's fields, for the cutting sheet; the triangular data sheet
+    # itself is wheelgen.teeth.triangular_data
+    tri = triangular_data(spec)
     return GearData(
         form="triangular",
         teeth=spec.teeth,
-        module=m,
-        pressure_angle_deg=spec.tooth_angle_deg / 2.0,
+        module=spec.module,
+        pressure_angle_deg=tri.flank_angle_deg,
         shift=0.0,
-        pitch_diameter=2 * tooth.ref_radius,
+        pitch_diameter=tri.pitch_diameter,
         base_diameter=None,
-        tip_diameter=2 * tooth.tip_radius,
-        root_diameter=2 * tooth.root_radius,
+        tip_diameter=tri.tip_diameter,
+        root_diameter=tri.root_diameter,
         form_diameter=None,
-        circular_pitch=math.pi * m,
+        circular_pitch=tri.circular_pitch,
         base_pitch=None,
-        pitch_thickness=math.pi * m / 2.0 - spec.thinning,
-        tip_thickness=tip_thickness(spec),
-        pointed=tooth.pointed,
+        pitch_thickness=tri.pitch_thickness_arc,
+        tip_thickness=tri.tip_land,
+        pointed=tri.pointed,
         span_teeth=None,
         span_width=None,
         pin_diameter=None,
@@ -328,7 +328,7 @@ def _triangular_data(spec: ToothSpec) -> GearData:
         undercut_limit=None,
         min_teeth_no_undercut=None,
         undercut=False,
-        blank_diameter=2 * tooth.tip_radius,
-        depth_of_cut=tooth.tip_radius - tooth.root_radius,
-        warnings=tuple(warnings),
+        blank_diameter=tri.blank_diameter,
+        depth_of_cut=tri.cutter_depth,
+        warnings=tri.warnings,
     )

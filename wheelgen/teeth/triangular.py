@@ -1,9 +1,15 @@
 """Triangular (straight-flanked) teeth, as on early instruments and hand-cut models.
 
-The tooth is a triangle of the given included angle whose thickness on the pitch
-circle is half the pitch (p = pi m) minus the thinning; it is cut off by the tip
-circle (``addendum`` x m above the pitch circle) and the root circle (``dedendum`` x m
-below), with optional tip and root rounding. Lengths in mm, angles in degrees.
+The basic tooth is a triangle of the given included angle whose thickness on the
+pitch circle is half the pitch (p = pi m); it is cut off by the tip circle
+(``addendum`` x m above the pitch circle) and the root circle (``dedendum`` x m
+below), with optional tip and root rounding. The thinning (half the backlash) turns
+each flank about the wheel's centre by ``thinning / (2 r)`` towards the tooth's middle,
+as if the wheel itself had turned: the flank keeps its distance from the centre, so its
+angle to the radius at the pitch circle (what must match on two wheels that run
+together) does not change, and the play grows by exactly the backlash. The tooth as
+cut is then ``thinning / r`` radians more pointed than the basic one. Lengths in mm,
+angles in degrees.
 """
 
 from __future__ import annotations
@@ -49,9 +55,19 @@ class TriangularTooth:
     apex_radius: float
     pointed: bool
     tip_rounded: bool
-    half_angle_rad: float  # half the included tooth angle
+    half_angle_rad: float  # half the included angle of the tooth as cut (thinned)
     tip_flat_half_rad: float  # half the angular width of the tip arc (0 if none)
+    root_flat_half_rad: float  # half the angular width of the root arc (0 if none)
+    flank_offset: float  # distance of each flank line from the wheel's centre
+    v_radius: float  # where the flanks of neighbouring teeth meet (the space's V)
     segments: tuple[Segment, ...]
+
+    @property
+    def pitch_flank_angle_deg(self) -> float:
+        """Angle (degrees) between a flank and the radius where it crosses the pitch
+        circle: the flank line passes ``flank_offset`` from the centre, so the angle is
+        asin(flank_offset / pitch radius)."""
+        return math.degrees(math.asin(min(1.0, self.flank_offset / self.ref_radius)))
 
 
 def _arc3(centre: np.ndarray, radius: float, p0: np.ndarray, p1: np.ndarray) -> Segment:
@@ -81,7 +97,8 @@ def triangular_tooth(spec: ToothSpec) -> TriangularTooth:
     if s <= 0:
         raise ValueError(f"'thinning' {spec.thinning} mm leaves no tooth")
     psi = s / (2.0 * r)
-    gam = math.radians(spec.tooth_angle_deg) / 2.0
+    # the basic flank turned about the centre by thinning / (2 r) towards the middle
+    gam = math.radians(spec.tooth_angle_deg) / 2.0 + spec.thinning / (2.0 * r)
     half_space = math.pi / z
     # lower flank of the tooth on +X: through the pitch point at angle -psi, leaning
     # towards the tooth axis by the half included angle; n points into the space
@@ -95,9 +112,10 @@ def triangular_tooth(spec: ToothSpec) -> TriangularTooth:
     v_sin = math.sin(gam + half_space)  # sine of the half angle of the V space
     if gam + half_space > math.pi / 2 + 1e-12:
         # the flanks of neighbouring teeth would diverge towards the centre
+        most = 180.0 - 360.0 / z - math.degrees(spec.thinning / r)
         raise ValueError(
-            f"'tooth_angle_deg' must be at most {180.0 - 360.0 / z:g} degrees for "
-            f"{z} teeth, got {spec.tooth_angle_deg}"
+            f"'tooth_angle_deg' must be at most {most:.4g} degrees for {z} teeth "
+            f"thinned by {spec.thinning:g} mm, got {spec.tooth_angle_deg}"
         )
 
     def on_line(p: np.ndarray) -> float:
@@ -106,6 +124,7 @@ def triangular_tooth(spec: ToothSpec) -> TriangularTooth:
     # ---- root end of the lower flank
     t_v = c / v_sin  # where the flank meets the space axis
     root_segs: list[Segment] = []
+    root_flat_half = 0.0
 
     def v_round() -> tuple[np.ndarray, float]:
         # rounding tangent to both flanks of the space, centred on the space axis
@@ -133,12 +152,15 @@ def triangular_tooth(spec: ToothSpec) -> TriangularTooth:
             a_q = math.atan2(on_root[1], on_root[0])
             if a_q > -half_space + 1e-12:
                 root_segs.append(_arc(rf, -half_space, a_q))
+                root_flat_half = a_q + half_space
             root_segs.append(_arc3(q, rho_f, on_root, flank_lo))
     else:
         root_actual = rf
         lam = math.sqrt(rf * rf - c * c)
         flank_lo = c * n + lam * d
-        root_segs.append(_arc(rf, -half_space, math.atan2(flank_lo[1], flank_lo[0])))
+        a_lo = math.atan2(flank_lo[1], flank_lo[0])
+        root_segs.append(_arc(rf, -half_space, a_lo))
+        root_flat_half = a_lo + half_space
 
     # ---- tip end of the lower flank
     tip_segs: list[Segment] = []
@@ -207,6 +229,9 @@ def triangular_tooth(spec: ToothSpec) -> TriangularTooth:
         tip_rounded=tip_rounded and not pointed,
         half_angle_rad=gam,
         tip_flat_half_rad=flat_half,
+        root_flat_half_rad=root_flat_half,
+        flank_offset=c,
+        v_radius=t_v,
         segments=tuple(chain),
     )
 
