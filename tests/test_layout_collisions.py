@@ -12,12 +12,12 @@ from wheelgen.layout import layout_findings
 DATA = Path(__file__).parent / "data" / "layout"
 DEMO = Path(__file__).parent.parent / "designs" / "harbour_tide_clock.toml"
 
-# Tip radii at m = 1, x = 0, addendum 1.0 m: r_a = m (z / 2 + 1).
+# Tip radii at m = 1, x = 0: r_a = m (z / 2 + h_a).
 # Involute: ISO 21771:2007 d_a = d + 2 m (h_aP* + x) with h_aP* = 1 (ISO 53 basic rack,
-# check-values.md s9). Triangular: the tooth is cut off by the tip circle 1.0 m above the
-# pitch circle (train format's addendum; a 60 deg tooth is still 0.63 m thick there,
-# derived: pi/2 m - 2 tan 30 deg x 1 m). So 30 and 20 teeth: 16 + 11 = 27 mm.
-TIP_SUM = 16.0 + 11.0
+# check-values.md s9): 30 and 20 teeth give 16 + 11 = 27 mm. Triangular: the tooth is
+# cut off by the tip circle 0.6 m above the pitch circle (the format's default
+# addendum for triangular teeth), so 15.6 + 10.6 = 26.2 mm.
+TIP_SUMS = {"involute": 16.0 + 11.0, "triangular": 15.6 + 10.6}
 
 
 def pair(form: str, distance: float):
@@ -34,12 +34,13 @@ def pair(form: str, distance: float):
 
 @pytest.mark.parametrize("form", ["involute", "triangular"])
 def test_wheels_0_1_mm_apart_pass(form):
-    assert not [f for f in pair(form, TIP_SUM + 0.1) if f.level == "error"]
+    assert not [f for f in pair(form, TIP_SUMS[form] + 0.1) if f.level == "error"]
 
 
 @pytest.mark.parametrize("form", ["involute", "triangular"])
 def test_wheels_overlapping_by_0_1_mm_fail_naming_both(form):
-    (f,) = [f for f in pair(form, TIP_SUM - 0.1) if f.check == "layout.wheel_collision"]
+    near = TIP_SUMS[form] - 0.1
+    (f,) = [f for f in pair(form, near) if f.check == "layout.wheel_collision"]
     assert f.level == "error"
     assert f.subject == "wheel wa / wheel wb"
     assert float(f.measured.split()[0]) == pytest.approx(0.1, abs=2e-3)

@@ -12,6 +12,7 @@ from .checks.engine import Analysis as Analysis  # noqa: E402  (after __version_
 from .checks.engine import analyse as analyse  # noqa: E402
 from .checks.engine import run_checks as run_checks  # noqa: E402
 from .checks.findings import Finding as Finding  # noqa: E402
+from .checks.least_play import settle_play as settle_play  # noqa: E402
 from .design import Design as Design  # noqa: E402
 from .design import DesignError as DesignError  # noqa: E402
 from .design import load_design as load_design  # noqa: E402
@@ -23,6 +24,7 @@ from .teeth.gear_data import gear_data as gear_data  # noqa: E402
 from .teeth.mesh_data import mesh_data as mesh_data  # noqa: E402
 from .teeth.spec import ToothSpec as ToothSpec  # noqa: E402
 from .teeth.spec import outline_for as outline_for  # noqa: E402
+from .teeth.triangular_data import triangular_data as triangular_data  # noqa: E402
 from .workshop.indexing import indexing_plan as indexing_plan  # noqa: E402
 
 __all__ = [
@@ -31,6 +33,7 @@ __all__ = [
     "analyse",
     "run_checks",
     "Finding",
+    "settle_play",
     "Design",
     "DesignError",
     "load_design",
@@ -42,5 +45,6 @@ __all__ = [
     "mesh_data",
     "ToothSpec",
     "outline_for",
+    "triangular_data",
     "indexing_plan",
 ]

@@ -133,7 +133,14 @@ def gather_consequences(design: Design, findings: list[Finding]) -> list[Finding
 
 def analyse(design: Design) -> Analysis:
     """Solve the train and run every registered check, worst findings first, each
-    consequence under its cause."""
+    consequence under its cause.
+
+    ``least_play`` requests are settled first (:func:`wheelgen.checks.least_play.
+    settle_play`); ``Analysis.design`` is the design as checked.
+    """
+    from .least_play import settle_play
+
+    design = settle_play(design)
     run = _run(design)
     findings = gather_consequences(design, run.findings)
     return Analysis(design, run.solution, run.targets, sort_findings(findings))

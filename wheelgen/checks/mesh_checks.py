@@ -40,7 +40,8 @@ from ..teeth.mesh_data import (
 from ..teeth.outline import WheelOutline
 from ..teeth.spec import ToothSpec, outline_for
 from .findings import Change, Finding, Level
-from .mesh_sim import MeshSimulation, simulate_mesh
+from .least_play import MAX_ADVISED_PLAY, least_play_findings, running_advice
+from .mesh_sim import CHECK_STEPS, MeshSimulation, simulate_mesh
 
 __all__ = [
     "InvoluteMesh",
@@ -54,9 +55,6 @@ __all__ = [
 #: Simulated transmission error (degrees) of an involute pair above which something is
 #: wrong with the flanks: far above the simulator's resolution (about 1e-3 degrees).
 INVOLUTE_TE_LIMIT_DEG = 0.01
-#: Steps per pitch when the checks run the simulator (enough for a verdict; the
-#: benchmark and tests use finer steps).
-CHECK_STEPS = 60
 
 
 @dataclass(frozen=True, slots=True)
@@ -213,16 +211,8 @@ def _mismatch(spec1: ToothSpec, spec2: ToothSpec, subject: str) -> list[Finding]
                 f"{spec2.pressure_angle_deg:g} deg",
             )
         )
-    if spec1.form == spec2.form == "triangular" and not math.isclose(
-        spec1.tooth_angle_deg, spec2.tooth_angle_deg, rel_tol=1e-12
-    ):
-        problems.append(
-            (
-                "tooth angles",
-                f"{spec1.tooth_angle_deg:g} deg",
-                f"{spec2.tooth_angle_deg:g} deg",
-            )
-        )
+    # Triangular wheels of different tooth angles can mesh (the default angle follows
+    # the tooth count); the simulator judges them, and a jam's advice names the angle.
     return [
         Finding(
             "error",
@@ -490,12 +480,6 @@ def _involute_findings(
     return out
 
 
-#: Most play (x the circular pitch) the advice ever asks of 'backlash'; a pair that
-#: needs more is in the wrong place or has the wrong teeth (common practice, no source:
-#: thinning a tooth by more than an eighth of a pitch on each flank spoils it).
-MAX_ADVISED_PLAY = 0.25
-
-
 def _set_text(changes: tuple[Change, ...], otherwise: str) -> str:
     if not changes:
         return otherwise
@@ -586,6 +570,27 @@ def _simulation_findings(
     names: tuple[str, str] = ("wheel 1", "wheel 2"),
 ) -> list[Finding]:
     out: list[Finding] = []
+    need = min_backlash(process or Process())
+    triangular = spec1.form == "triangular"
+    if sim.jams and triangular:
+        advice, changes = running_advice(spec1, spec2, sim.centre_distance, need, names)
+        overlap = _jam_backlash(sim, spec2)
+        out.append(
+            Finding(
+                "error",
+                "mesh.jam",
+                subject,
+                f"{subject}: turned through a tooth pitch, the outlines overlap by "
+                f"{_mm(overlap)} on the driven pitch circle: the pair jams",
+                measured=f"play {sim.min_play_deg:.4f} deg at the driven wheel",
+                limit="0 deg",
+                advice=advice
+                or "more than thinner or shorter teeth can give: the arbors are too "
+                "close for these teeth; move them apart",
+                changes=changes,
+            )
+        )
+        return out
     if sim.jams:
 
         def frees(b: float) -> bool:
@@ -662,6 +667,26 @@ def _simulation_findings(
                 advice="" if level == "note" else "use more teeth or involute teeth",
             )
         )
+        if short_of(sim.backlash_mm, need):
+            kind = "mill" if process is None else process.kind
+            advice, changes = running_advice(
+                spec1, spec2, sim.centre_distance, need, names
+            )
+            out.append(
+                Finding(
+                    "warning",
+                    "mesh.backlash",
+                    subject,
+                    f"{subject}: the pair runs with only {_mm(sim.backlash_mm)} of "
+                    f"play at its tightest, less than the {kind} process holds; it "
+                    "may bind",
+                    measured=f"least play {_mm(sim.backlash_mm)} on the pitch circle",
+                    limit=_mm(need),
+                    advice=advice
+                    or "more play than thinner teeth can give: move the arbors apart",
+                    changes=changes,
+                )
+            )
     return out
 
 
@@ -715,7 +740,7 @@ def design_mesh_checks(
             names=(w1.name, w2.name),  # outlines: outline_for's, shared with pairs
             judge_centres=False,
         )
-    return findings
+    return findings + least_play_findings(design)
 
 
 def layout_distances(design: Design) -> dict[int, float]:

@@ -35,13 +35,17 @@ def fail(message: str, code: int = EXIT_INPUT) -> NoReturn:
 
 
 def load_or_exit(path: str | Path | None) -> Design:
-    """Load a design; on any problem print every message and exit 2 (no traceback)."""
+    """Load a design and settle its ``least_play`` requests; on any problem print every
+    message and exit 2 (no traceback)."""
+    from ..checks.least_play import settle_play
+
     target = Path(path) if path is not None else DEFAULT_DESIGN
     try:
-        return load_design(target)
+        design = load_design(target)
     except DesignError as exc:
         click.echo(str(exc), err=True)
         sys.exit(EXIT_INPUT)
+    return settle_play(design)
 
 
 def echo_json(data: Any) -> None:

@@ -45,8 +45,8 @@ from .names import (
     name_problem,
 )
 from .periods import UNIT_SECONDS, PeriodError, parse_number, parse_period
-from .process_limits import default_backlash
 from .screws import SCREWS
+from .tooth_defaults import milled_root_radius, tooth_defaults
 
 __all__ = [
     "load_design",
@@ -222,16 +222,15 @@ WHEEL_KEYS: dict[str, tuple[Any, str, _Check | None]] = {
     "module": (1.0, "number", _bounded("module")),
     "form": ("involute", "string", _choice("involute", "triangular")),
     "pressure_angle": (20.0, "number", _bounded("pressure_angle")),
-    "tooth_angle": (60.0, "number", _bounded("tooth_angle")),
+    # None: by form, tooth count and process (design/tooth_defaults.py)
+    "tooth_angle": (None, "number", _bounded("tooth_angle")),
     "face_width": (3.0, "number", _bounded("size")),
     "shift": (0.0, "number", _bounded("shift")),
-    # None: by process, see process_limits.default_backlash
     "backlash": (None, "number", _bounded("play")),
-    "addendum": (1.0, "number", _bounded("addendum")),
-    "dedendum": (1.25, "number", _bounded("dedendum")),
-    # None: by form, see ROOT_RADIUS_BY_FORM
+    "addendum": (None, "number", _bounded("addendum")),
+    "dedendum": (None, "number", _bounded("dedendum")),
     "root_radius": (None, "number", _bounded("root_radius")),
-    "tip_radius": (0.0, "number", _bounded("tip_radius")),
+    "tip_radius": (None, "number", _bounded("tip_radius")),
     "bore": (None, "number", _bounded("size")),
     "seat": ("round", "string", _choice("round", "square", "hex", "pinned")),
     "spokes": (0, "integer", _bounded("spokes")),
@@ -239,11 +238,14 @@ WHEEL_KEYS: dict[str, tuple[Any, str, _Check | None]] = {
     "hub_diameter": (0.0, "number", _bounded("size_or_zero")),
     "hub_length": (0.0, "number", _bounded("size_or_zero")),
 }
-#: Root rounding (x module) when neither the wheel nor [defaults] sets one: the ISO 53
-#: type A rack tip radius for involute teeth; for triangular teeth a small rounding,
-#: because 0.38 m does not fit the narrow V of a 60-degree space (derived: the V's
-#: inscribed circle at the root line).
-ROOT_RADIUS_BY_FORM = {"involute": 0.38, "triangular": 0.1}
+#: Root rounding (x module) by form when neither the wheel nor [defaults] sets one and
+#: the process is not milling (design/tooth_defaults.py).
+ROOT_RADIUS_BY_FORM = {
+    "involute": tooth_defaults("involute", 20, 1.0, Process())["root_radius"],
+    "triangular": tooth_defaults("triangular", 20, 1.0, Process("hand"))["root_radius"],
+}
+#: What ``least_play`` (in [[mesh]] and [defaults]) accepts; "none" turns it off.
+LEAST_PLAY_CHOICES = ("backlash", "addendum", "none")
 # Wheel field names that differ from the file's keys.
 _WHEEL_FIELD = {
     "pressure_angle": "pressure_angle_deg",
@@ -647,7 +649,7 @@ class _Loader:
         frame = self.frame_table(doc)
         arbors = self.arbors(doc)
         wheels = self.wheels(doc, defaults, proc)
-        meshes = self.meshes(doc)
+        meshes = self.meshes(doc, defaults)
         pinslots = self.pinslots(doc)
         drive = self.drive_table(doc)
         targets = self.targets(doc)
@@ -772,9 +774,12 @@ class _Loader:
         if t is None:
             return out
         ctx = ("defaults", 0, "[defaults]")
-        self.unknown_keys(t, tuple(WHEEL_KEYS), ctx)
+        self.unknown_keys(t, (*WHEEL_KEYS, "least_play"), ctx)
         for key, (default, kind, check) in WHEEL_KEYS.items():
             out[key] = self.value(t, key, kind, ctx, default=default, check=check)
+        out["least_play"] = self.value(
+            t, "least_play", "string", ctx, check=_choice(*LEAST_PLAY_CHOICES)
+        )
         return out
 
     def process_table(self, doc: dict[str, Any], kind: str) -> Process:
@@ -1120,26 +1125,22 @@ class _Loader:
                 field_name = _WHEEL_FIELD.get(key, key)
                 if fields[field_name] is None and default is not None:
                     fields[field_name] = default
+            given = fields["root_radius"]
+            by_form = tooth_defaults(fields["form"], teeth, fields["module"], proc)
+            for field_name, value in by_form.items():
+                if fields[field_name] is None:
+                    fields[field_name] = value
             if fields["form"] == "triangular" and proc.kind == "mill":
                 # The end mill leaves its own radius in the V: the root rounding may not
                 # be smaller than the cutter's radius.
-                least = proc.cutter / 2 / fields["module"]
-                given = fields["root_radius"]
-                if given is None:
-                    fields["root_radius"] = max(
-                        ROOT_RADIUS_BY_FORM["triangular"], least
-                    )
-                elif given < least - 1e-12:
+                least = milled_root_radius(proc, fields["module"])
+                if given is not None and given < least - 1e-12:
                     self.problem(
                         self.where("wheel", i, item, "root_radius"),
                         f"root_radius = {given:g} modules ({given * fields['module']:g} mm)",
                         f"at least the cutter radius, {least:.4g} modules ({proc.cutter / 2:g} mm), "
                         "when the process is milling",
                     )
-            if fields["root_radius"] is None:
-                fields["root_radius"] = ROOT_RADIUS_BY_FORM.get(fields["form"], 0.38)
-            if fields["backlash"] is None:
-                fields["backlash"] = default_backlash(proc)
             if not self.wheel_fits(fields, teeth, ("wheel", i, item)):
                 self.broken["wheel"].add(name)
                 continue
@@ -1175,12 +1176,14 @@ class _Loader:
         )
         return False
 
-    def meshes(self, doc: dict[str, Any]) -> list[Mesh]:
+    def meshes(self, doc: dict[str, Any], defaults: dict[str, Any]) -> list[Mesh]:
         out = []
         for i, t in enumerate(self.tables(doc, "mesh")):
             item = f"the {_ordinal(i + 1)} [[mesh]]"
             ctx = ("mesh", i, item)
-            self.unknown_keys(t, ("pair", "bearing"), ctx, required=("pair",))
+            self.unknown_keys(
+                t, ("pair", "bearing", "least_play"), ctx, required=("pair",)
+            )
             pair = t.get("pair")
             if pair is None:
                 self.problem(
@@ -1210,8 +1213,22 @@ class _Loader:
                 )
                 continue
             bearing = self.value(t, "bearing", "number", ctx, check=_bounded("bearing"))
+            least = self.value(
+                t,
+                "least_play",
+                "string",
+                ctx,
+                default=defaults.get("least_play"),
+                check=_choice(*LEAST_PLAY_CHOICES),
+            )
             out.append(
-                Mesh((pair[0], pair[1]), bearing, i + 1, self.where("mesh", i, item))
+                Mesh(
+                    (pair[0], pair[1]),
+                    bearing,
+                    i + 1,
+                    self.where("mesh", i, item),
+                    least_play=None if least in (None, "none") else least,
+                )
             )
         return out
 

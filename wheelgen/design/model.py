@@ -40,6 +40,7 @@ __all__ = [
     "HandSeat",
     "Graduations",
     "HAND_SEAT_BY_PROCESS",
+    "LeastPlay",
 ]
 
 ProcessKind = Literal["print", "mill", "hand"]
@@ -63,6 +64,8 @@ HAND_SEAT_BY_PROCESS: dict[str, HandSeat] = {
     "print": "flat",
     "hand": "collet",
 }
+#: Which proportion a ``least_play`` request may change.
+LeastPlay = Literal["backlash", "addendum"]
 
 
 @dataclass(frozen=True, slots=True)
@@ -225,6 +228,10 @@ class Mesh:
     bearing_deg: float | None = None
     index: int = 0  # 1-based position among the [[mesh]] tables
     where: Where | None = field(default=None, compare=False, repr=False)
+    #: asks for the least play that runs, reached by changing this proportion
+    least_play: LeastPlay | None = None
+    #: what was chosen for ``least_play``, in words (empty until it is settled)
+    chosen: str = ""
 
     @property
     def label(self) -> str:

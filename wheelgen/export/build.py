@@ -580,7 +580,9 @@ def build_design(
         The output cannot be written (a read-only place, a full disk).
     """
     from ..checks.findings import has_errors
+    from ..checks.least_play import settle_play
 
+    design = settle_play(design)
     notes: list[str] = []
     remade: set[str] = set()
 

@@ -70,10 +70,15 @@ def part_location(part: Part) -> cq.Location:
 
 
 def design_parts(design: Any) -> dict[str, tuple[cq.Shape, cq.Location]]:
-    """Every part of a loaded design: name -> (solid in its own frame, placement)."""
+    """Every part of a loaded design: name -> (solid in its own frame, placement).
+
+    ``least_play`` requests are settled first, as the checks and the build do.
+    """
+    from ..checks.least_play import settle_play
     from ..frame import plan_parts
 
-    return {p.name: (make_part(p), part_location(p)) for p in plan_parts(design)}
+    parts = plan_parts(settle_play(design))
+    return {p.name: (make_part(p), part_location(p)) for p in parts}
 
 
 def design_assembly(design: Any) -> cq.Assembly:
