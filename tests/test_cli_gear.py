@@ -92,11 +92,14 @@ def test_svg_file_written(tmp_path):
 
 def test_triangular_form():
     result = _run("-z", "40", "-m", "1", "--form", "triangular", "--tooth-angle", "50",
-                  "--root-radius", "0.05", "--json")  # fmt: skip
+                  "--root-radius", "0.05", "--addendum", "1.0", "--dedendum", "1.25",
+                  "--json")  # fmt: skip
     assert result.exit_code == 0, result.output
     data = json.loads(result.output)
     assert data["form"] == "triangular"
-    assert data["span_width"] is None and data["base_diameter"] is None
+    # involute-only quantities are not there at all (the triangular sheet has its own)
+    assert "span_width" not in data and "base_diameter" not in data
+    # derived: tip and root circles m z / 2 +- addendum / dedendum x m
     assert data["tip_diameter"] == pytest.approx(42.0)
     assert data["root_diameter"] == pytest.approx(37.5)
 

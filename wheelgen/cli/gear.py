@@ -1,4 +1,10 @@
-"""``wheelgen gear``: the data sheet of one wheel (and of its mesh with a mate)."""
+"""``wheelgen gear``: the data sheet of one wheel (and of its mesh with a mate).
+
+Each form has its own sheet: involute wheels the ISO 21771 quantities (base circle,
+span, over pins, working pressure angle, contact ratio); triangular wheels the angles
+and widths of straight flanks, the cutter, and for a pair the play and transmission
+error that the mesh simulator measures over one pitch.
+"""
 
 from __future__ import annotations
 
@@ -8,12 +14,15 @@ from typing import Any
 
 import click
 
+from ..checks.findings import Finding
 from ..checks.mesh_checks import check_mesh, check_wheel
-from ..design.loader import ROOT_RADIUS_BY_FORM
+from ..design.model import Process
+from ..design.tooth_defaults import tooth_defaults
 from ..teeth.drawing import outline_svg
 from ..teeth.gear_data import GearData, gear_data
 from ..teeth.mesh_data import MeshData, mesh_data
 from ..teeth.spec import ToothSpec, outline_for, thinning_for
+from ..teeth.triangular_data import TriangularData, triangular_data
 from ._common import EXIT_OK, echo_json, fail
 from ._options import Bounded
 
@@ -26,12 +35,8 @@ def _mm(value: float | None, places: int = 4) -> str:
 
 def _sheet(data: GearData, name: str) -> list[str]:
     lines = [
-        f"{name}: {data.teeth} teeth, module {data.module:g} mm, {data.form}"
-        + (
-            f", {data.pressure_angle_deg:g} deg pressure angle, shift {data.shift:+g}"
-            if data.form == "involute"
-            else f", {2 * data.pressure_angle_deg:g} deg tooth angle"
-        ),
+        f"{name}: {data.teeth} teeth, module {data.module:g} mm, involute, "
+        f"{data.pressure_angle_deg:g} deg pressure angle, shift {data.shift:+g}",
         f"  pitch diameter        {_mm(data.pitch_diameter)}",
     ]
     if data.base_diameter is not None:
@@ -119,6 +124,129 @@ def _mesh_lines(mesh: MeshData) -> list[str]:
             f"{'TIP INTERFERENCE' if i else 'no tip interference'}"
         )
     lines += [f"  {v}" for v in verdict]
+    lines += [f"  warning: {w}" for w in mesh.warnings]
+    return lines
+
+
+def _triangular_sheet(data: TriangularData, name: str) -> list[str]:
+    lines = [
+        f"{name}: {data.teeth} teeth, module {data.module:g} mm, triangular",
+        f"  tooth angle           {data.tooth_angle_deg:.4f} deg (included, as cut; "
+        f"{data.basic_angle_deg:g} before the backlash)",
+        f"  space angle           {data.space_angle_deg:.4f} deg (included, between "
+        "neighbouring flanks)",
+        f"  flank angle           {data.flank_angle_deg:.4f} deg to the radius at the "
+        "pitch circle",
+        f"  pitch diameter        {_mm(data.pitch_diameter)}",
+        f"  tip diameter          {_mm(data.tip_diameter)}",
+        f"  root diameter         {_mm(data.root_diameter)}",
+        f"  circular pitch        {_mm(data.circular_pitch)}",
+        f"  backlash allowance    {_mm(2 * data.thinning)} (the tooth is "
+        f"{_mm(data.thinning)} thinner than half the pitch)",
+        f"  tooth at pitch circle {_mm(data.pitch_thickness_arc)} (arc), "
+        f"{_mm(data.pitch_thickness_chord)} (chord)",
+    ]
+    if data.pointed:
+        lines.append(
+            "  tooth at tip          POINTED: the flanks meet below the tip circle"
+        )
+    else:
+        lines.append(
+            f"  tooth at tip          {_mm(data.tip_width)} across the flanks, "
+            f"{_mm(data.tip_land)} flat after {_mm(data.tip_rounding)} rounding"
+        )
+    if data.v_root:
+        lines.append(
+            "  space at root         none: the flanks meet in a V above the root "
+            f"circle, rounded {_mm(data.root_rounding)}"
+        )
+    else:
+        lines.append(
+            f"  space at root         {_mm(data.root_width)} across the flanks, "
+            f"{_mm(data.root_land)} flat after {_mm(data.root_rounding)} rounding"
+        )
+    lines += [
+        f"  cutter                {data.cutter_angle_deg:.4f} deg included, "
+        f"{_mm(data.cutter_depth)} deep, {_mm(data.cutter_tip_width)} across the "
+        f"tip, tip radius {_mm(data.cutter_tip_radius)}",
+        f"  blank diameter        {_mm(data.blank_diameter)}",
+    ]
+    lines += [f"  warning: {w}" for w in data.warnings]
+    return lines
+
+
+def _triangular_pair(
+    spec: ToothSpec, mate: ToothSpec, centre_distance: float | None
+) -> dict[str, Any]:
+    """The pair's numbers: clearance from the outlines, play and transmission error
+    from the mesh simulator turned through one pitch of the wheel, as the checks do."""
+    from ..checks.mesh_sim import CHECK_STEPS, simulate_mesh
+
+    mesh = mesh_data(spec, mate, centre_distance)
+    a = mesh.centre_distance
+    sim = simulate_mesh(outline_for(spec), outline_for(mate), a, steps=CHECK_STEPS)
+    r2 = mate.module * mate.teeth / 2
+    pitch2 = 360.0 / mate.teeth
+    te = sim.te_peak_to_peak_deg
+    return {
+        "standard_centre_distance": mesh.standard_centre_distance,
+        "centre_distance": a,
+        "clearance": mesh.clearance,
+        "least_play": math.radians(sim.min_play_deg) * r2,
+        "least_play_deg": sim.min_play_deg,
+        "most_play": math.radians(sim.backlash_max_deg) * r2,
+        "most_play_deg": sim.backlash_max_deg,
+        "te_peak_to_peak_deg": te,
+        "te_peak_to_peak": math.radians(te) * r2,
+        "te_share_of_pitch": te / pitch2,
+        "runs": not sim.jams and not sim.contact_lost,
+        "jams": sim.jams,
+        "contact_lost": sim.contact_lost,
+        "te_curve": {
+            "wheel_deg": [round(float(v), 6) for v in sim.driver_deg],
+            "te_deg": [
+                None if not math.isfinite(v) else round(float(v), 6) for v in sim.te_deg
+            ],
+        },
+        "mesh_warnings": [w for w in mesh.warnings if "constant ratio" not in w],
+    }
+
+
+def _triangular_pair_lines(pair: dict[str, Any], mate_teeth: int) -> list[str]:
+    lines = [
+        "mesh:",
+        f"  centre distance       {_mm(pair['centre_distance'])} "
+        f"(standard {pair['standard_centre_distance']:.4f} mm)",
+        f"  tip-root clearance    {_mm(pair['clearance'])}",
+    ]
+    if pair["jams"]:
+        lines.append(
+            f"  verdict               JAMS: the outlines overlap by "
+            f"{_mm(-pair['least_play'])} on the pitch circle"
+        )
+        return lines
+    if pair["contact_lost"]:
+        lines.append(
+            "  verdict               LOSES CONTACT: at some positions no tooth drives"
+        )
+        return lines
+    lines += [
+        f"  play                  {pair['least_play']:.4f} to {pair['most_play']:.4f} "
+        f"mm on the pitch circle ({pair['least_play_deg']:.4f} to "
+        f"{pair['most_play_deg']:.4f} deg at the mate)",
+        f"  transmission error    {pair['te_peak_to_peak_deg']:.4f} deg peak to peak "
+        f"at the mate over one pitch ({_mm(pair['te_peak_to_peak'])} on its pitch "
+        f"circle, {100 * pair['te_share_of_pitch']:.1f} % of its pitch)",
+        "  verdict               runs",
+        "  transmission error over one pitch of the wheel (deg at the mate):",
+    ]
+    curve = pair["te_curve"]
+    n = len(curve["wheel_deg"]) - 1
+    for k in range(0, 11):
+        i = round(k * n / 10)
+        te = curve["te_deg"][i]
+        lines.append(f"    {k / 10:.1f} pitch   {'-' if te is None else f'{te:+.4f}'}")
+    lines += [f"  warning: {w}" for w in pair["mesh_warnings"]]
     return lines
 
 
@@ -188,47 +316,53 @@ def _clean(values: dict[str, Any]) -> dict[str, Any]:
     show_default=True,
 )
 @click.option(
+    "--process",
+    type=click.Choice(["print", "mill", "hand"]),
+    default="mill",
+    show_default=True,
+    help="How the wheels are made; triangular teeth take the defaults of a design "
+    "file with this process.",
+)
+@click.option(
     "--tooth-angle",
     type=Bounded("tooth_angle"),
-    default=60.0,
-    show_default=True,
-    help="Triangular teeth: included tooth angle, degrees.",
+    default=None,
+    help="Triangular teeth: included tooth angle, degrees.  [default: 60 - 180/z, "
+    "flanks at 30 deg to the radius at the pitch circle]",
 )
 @click.option(
     "--addendum",
     type=Bounded("addendum"),
-    default=1.0,
-    show_default=True,
-    help="x module.",
+    default=None,
+    help="x module.  [default: 1.0 involute, 0.6 triangular]",
 )
 @click.option(
     "--dedendum",
     type=Bounded("dedendum"),
-    default=1.25,
-    show_default=True,
-    help="x module.",
+    default=None,
+    help="x module.  [default: 1.25 involute, 0.85 triangular]",
 )
 @click.option(
     "--root-radius",
     type=Bounded("root_radius"),
     default=None,
     help="Rack tip radius (involute) or root rounding (triangular), x module.  "
-    "[default: 0.38 involute, 0.1 triangular]",
+    "[default: 0.38 involute; 0.1 triangular, and at least the 0.5 mm radius of "
+    "a 1 mm end mill with --process mill]",
 )
 @click.option(
     "--tip-radius",
     type=Bounded("tip_radius"),
-    default=0.0,
-    show_default=True,
-    help="Tip rounding of triangular teeth, x module.",
+    default=None,
+    help="Tip rounding of triangular teeth, x module.  [default: 0.25 triangular]",
 )
 @click.option(
     "--backlash",
     type=Bounded("play"),
-    default=0.0,
-    show_default=True,
+    default=None,
     help="Backlash each wheel asks of its meshes, mm (as the train file's "
-    "'backlash'): half of it comes off each wheel's teeth.",
+    "'backlash'): half of it comes off each wheel's teeth.  [default: 0 involute; "
+    "triangular 3 m/z plus the process's smallest backlash, by each wheel's teeth]",
 )
 @click.option(
     "--pin", "pin", type=Bounded("size"), default=None, help="Pin diameter, mm."
@@ -257,12 +391,13 @@ def _gear(
     pressure_angle: float,
     shift: float,
     form: str,
-    tooth_angle: float,
-    addendum: float,
-    dedendum: float,
+    process: str,
+    tooth_angle: float | None,
+    addendum: float | None,
+    dedendum: float | None,
     root_radius: float | None,
-    tip_radius: float,
-    backlash: float,
+    tip_radius: float | None,
+    backlash: float | None,
     pin: float | None,
     mate: int | None,
     mate_shift: float,
@@ -272,50 +407,67 @@ def _gear(
 ) -> None:
     """Data sheet of one wheel; with --mate, of the pair in mesh too.
 
-    Sizes, tooth thickness, span W_k, measurement over pins, form-cutter number and
-    undercut limit; for a pair the working centre distance and pressure angle,
-    contact ratio, clearance, backlash and interference.
+    Involute: sizes, tooth thickness, span W_k, measurement over pins, form-cutter
+    number and undercut limit; for a pair the working centre distance and pressure
+    angle, contact ratio, clearance, backlash and interference.
+
+    Triangular: tooth, space and flank angles, thickness at the pitch circle, tip and
+    root widths and the cutter that cuts one space; for a pair the clearance, the play
+    and the transmission error over one pitch, turned in the mesh simulator.
     """
-    # as in a train file: each wheel gives half the play it asks of its meshes
-    thinning = thinning_for(backlash)
-    if root_radius is None:
-        root_radius = ROOT_RADIUS_BY_FORM[form]
-    common: dict[str, Any] = {
-        "module": module,
-        "form": form,
-        "pressure_angle_deg": pressure_angle,
+    if centre_distance is not None and mate is None:
+        fail("'--centre-distance' needs '--mate'")
+    given = {
         "tooth_angle_deg": tooth_angle,
         "addendum": addendum,
         "dedendum": dedendum,
         "root_radius": root_radius,
         "tip_radius": tip_radius,
-        "thinning": thinning,
     }
+    make = Process(kind=process)  # type: ignore[arg-type]  # checked by click.Choice
+
+    def spec_for(z: int, x: float) -> ToothSpec:
+        values = tooth_defaults(form, z, module, make)
+        values.update({k: v for k, v in given.items() if v is not None})
+        # as in a train file: each wheel gives half the play it asks of its meshes
+        usual = values.pop("backlash") if form == "triangular" else 0.0
+        thinning = thinning_for(usual if backlash is None else backlash)
+        return ToothSpec(
+            teeth=z,
+            module=module,
+            form=form,
+            pressure_angle_deg=pressure_angle,
+            shift=x,
+            thinning=thinning,
+            **values,
+        )
+
     try:
-        spec = ToothSpec(teeth=teeth, shift=shift, **common)
-        data = gear_data(spec, pin_diameter=pin)
-        mate_data = mesh = None
+        spec = spec_for(teeth, shift)
+        mate_spec = spec_for(mate, mate_shift) if mate is not None else None
+        svg_text = None
+        if svg_path is not None:
+            svg_text = outline_svg(
+                outline_for(spec), title=f"{teeth} teeth, module {module:g} mm, {form}"
+            )
         # the verdicts are the checks' own, so 'gear' and 'check' always agree
         verdicts = check_wheel(spec, "wheel")
-        if mate is not None:
-            mate_spec = ToothSpec(teeth=mate, shift=mate_shift, **common)
-            mate_data = gear_data(mate_spec, pin_diameter=pin)
-            mesh = mesh_data(spec, mate_spec, centre_distance)
+        if mate_spec is not None:
             verdicts += check_wheel(mate_spec, "mate")
             verdicts += check_mesh(
                 spec,
                 mate_spec,
                 "mesh",
                 centre_distance=centre_distance,
+                process=make,
                 names=("wheel", "mate"),
             )
-        elif centre_distance is not None:
-            fail("'--centre-distance' needs '--mate'")
-        svg_text = None
-        if svg_path is not None:
-            svg_text = outline_svg(
-                outline_for(spec), title=f"{teeth} teeth, module {module:g} mm, {form}"
-            )
+        if form == "triangular":
+            out, lines = _triangular_output(spec, mate_spec, centre_distance, verdicts)
+        else:
+            out, lines = _involute_output(spec, mate_spec, centre_distance, pin)
+            # the wheels' verdicts are on their sheets; the pair's as 'check' gives them
+            lines += _pair_verdicts(verdicts)
     except ValueError as exc:
         fail(_in_option_words(str(exc)))
     if svg_path is not None and svg_text is not None:
@@ -324,29 +476,72 @@ def _gear(
         except OSError as exc:
             fail(f"cannot write {svg_path}: {exc.strerror}")
     if as_json:
-        out = _clean(data.as_dict())
-        if mesh is not None and mate_data is not None:
-            mesh_values = _clean(mesh.as_dict())
-            mesh_values["working_pressure_angle"] = mesh_values.pop(
-                "working_pressure_angle_deg"
-            )
-            mesh_values["mesh_warnings"] = mesh_values.pop("warnings")
-            out.update(mesh_values)
-            out["mate"] = _clean(mate_data.as_dict())
         if svg_path is not None:
             out["svg"] = svg_path
         out["findings"] = [f.as_dict() for f in verdicts]
         echo_json(out)
         raise SystemExit(EXIT_OK)
-    lines = _sheet(data, "wheel")
-    if mesh is not None and mate_data is not None:
-        lines += [""] + _sheet(mate_data, "mate") + [""] + _mesh_lines(mesh)
-    # the wheels' verdicts are on their sheets; the pair's as 'check' gives them
-    pair = [f for f in verdicts if f.subject == "mesh"]
-    lines += [f"  {f.level}: {f.message.removeprefix('mesh: ')}" for f in pair]
     if svg_path is not None:
         lines += ["", f"1:1 drawing written to {svg_path}"]
     click.echo("\n".join(lines))
+
+
+def _involute_output(
+    spec: ToothSpec,
+    mate_spec: ToothSpec | None,
+    centre_distance: float | None,
+    pin: float | None,
+) -> tuple[dict[str, Any], list[str]]:
+    data = gear_data(spec, pin_diameter=pin)
+    out = _clean(data.as_dict())
+    lines = _sheet(data, "wheel")
+    if mate_spec is not None:
+        mate_data = gear_data(mate_spec, pin_diameter=pin)
+        mesh = mesh_data(spec, mate_spec, centre_distance)
+        mesh_values = _clean(mesh.as_dict())
+        mesh_values["working_pressure_angle"] = mesh_values.pop(
+            "working_pressure_angle_deg"
+        )
+        mesh_values["mesh_warnings"] = mesh_values.pop("warnings")
+        out.update(mesh_values)
+        out["mate"] = _clean(mate_data.as_dict())
+        lines += [""] + _sheet(mate_data, "mate") + [""] + _mesh_lines(mesh)
+    return out, lines
+
+
+def _pair_verdicts(verdicts: list[Finding], skip: tuple[str, ...] = ()) -> list[str]:
+    lines = []
+    for f in verdicts:
+        if f.subject == "mesh" and f.check not in skip:
+            lines.append(f"  {f.level}: {f.message.removeprefix('mesh: ')}")
+            if f.advice:
+                lines.append(f"    change: {f.advice}")
+    return lines
+
+
+def _triangular_output(
+    spec: ToothSpec,
+    mate_spec: ToothSpec | None,
+    centre_distance: float | None,
+    verdicts: list[Finding],
+) -> tuple[dict[str, Any], list[str]]:
+    data = triangular_data(spec)
+    out = {"form": "triangular", **_clean(data.as_dict())}
+    lines = _triangular_sheet(data, "wheel")
+    if mate_spec is not None:
+        mate_data = triangular_data(mate_spec)
+        pair = _triangular_pair(spec, mate_spec, centre_distance)
+        out.update(_clean(pair))
+        out["mate"] = {"form": "triangular", **_clean(mate_data.as_dict())}
+        lines += (
+            [""]
+            + _triangular_sheet(mate_data, "mate")
+            + [""]
+            + _triangular_pair_lines(pair, mate_spec.teeth)
+            # the sheet shows the transmission error itself
+            + _pair_verdicts(verdicts, skip=("mesh.transmission_error",))
+        )
+    return out, lines
 
 
 gear_command = click.command("gear")(_gear)

@@ -238,12 +238,6 @@ WHEEL_KEYS: dict[str, tuple[Any, str, _Check | None]] = {
     "hub_diameter": (0.0, "number", _bounded("size_or_zero")),
     "hub_length": (0.0, "number", _bounded("size_or_zero")),
 }
-#: Root rounding (x module) by form when neither the wheel nor [defaults] sets one and
-#: the process is not milling (design/tooth_defaults.py).
-ROOT_RADIUS_BY_FORM = {
-    "involute": tooth_defaults("involute", 20, 1.0, Process())["root_radius"],
-    "triangular": tooth_defaults("triangular", 20, 1.0, Process("hand"))["root_radius"],
-}
 #: What ``least_play`` (in [[mesh]] and [defaults]) accepts; "none" turns it off.
 LEAST_PLAY_CHOICES = ("backlash", "addendum", "none")
 # Wheel field names that differ from the file's keys.
