@@ -2,10 +2,11 @@
 
 A pair runs when the mesh simulator (:mod:`wheelgen.checks.mesh_sim`), turned through a
 pitch exactly as the checks turn it, finds neither overlap nor a position where no tooth
-drives. Its least play (mm on the pitch circles, which roll on each other) grows almost
-one for one with the backlash and falls as the teeth get taller, so both searches are
-short: a secant search on the backlash, a bisection on the addendum. The value found is
-then given the process's margin (``[process] min_backlash``) and checked again.
+drives. Its least play (mm on the pitch circles, which roll on each other) grows one for
+one with the backlash (the backlash turns the flanks about the centre) and falls as the
+teeth get taller, so both searches are short: a secant search on the backlash, a
+bracketed secant search on the addendum. Each aims at the process's margin
+(``[process] min_backlash``), rounds to the running side and checks the result again.
 
 :func:`settle_play` applies ``least_play`` requests of a design's meshes: it returns the
 design with the chosen backlash or addendum on the wheels and, on each such mesh, what
@@ -28,6 +29,7 @@ from .findings import Change, Finding
 from .mesh_sim import CHECK_STEPS, MeshSimulation, simulate_mesh
 
 __all__ = [
+    "FLANK_MISMATCH_DEG",
     "PlayFit",
     "least_addendum",
     "least_backlash",
@@ -48,8 +50,8 @@ _ROUND_COEFF = 0.001
 #: The smallest addendum the search tries, x module (the loader's lower bound).
 _MIN_ADDENDUM = 0.1
 #: Flanks whose angles to the radius at the pitch circle differ by more than this
-#: (degrees) get advice to match them (derived: 0.5 deg leaves the corner of a 0.6 m
-#: tall flank about 0.005 m off a matched one).
+#: (degrees) get advice to match them (derived: 0.5 deg turns the end of a flank 0.6 m
+#: tall, 0.69 m long at 30 degrees, about 0.006 m off a matched one).
 FLANK_MISMATCH_DEG = 0.5
 #: How ``Mesh.chosen`` starts when no value runs.
 _NOTHING_RUNS = "nothing found"

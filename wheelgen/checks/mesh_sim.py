@@ -54,6 +54,9 @@ JAM_TOLERANCE_DEG = 1e-4
 CHECK_STEPS = 60
 #: Extra turns of the swapped sweep to where the contact was found (see simulate_mesh).
 REFINE_PASSES = 2
+#: A swapped bound that interpolation or a pass of refining moves by less than this
+#: (radians, 1e-5 degrees, ten times finer than the simulator resolves) is settled.
+_SETTLED_RAD = math.radians(1e-5)
 
 
 @dataclass(frozen=True, slots=True, eq=False)
@@ -370,10 +373,14 @@ def simulate_mesh(
     # second lands within a hair of the step even beside a kink.
     xs_hi, ys_hi, xs_lo, ys_lo = [ideal1], [hi_b], [ideal1], [lo_b]
     direct_hi, direct_lo = _limit(hi_a, far), _limit(lo_a, far)
+    # a bound needs it only where the interpolation has not settled: where the
+    # swapped samples and every other one of them disagree (a kink nearby)
+    rough_hi = _unsettled(ideal1, hi_b, k, theta1, p1, far)
+    rough_lo = _unsettled(ideal1, lo_b, k, theta1, p1, far)
     for _ in range(REFINE_PASSES):
         # only where the swapped bound is the one that holds
-        ok_hi = (np.abs(hi) < p2) & (hi < direct_hi - 1e-12)
-        ok_lo = (np.abs(lo) < p2) & (lo > direct_lo + 1e-12)
+        ok_hi = rough_hi & (np.abs(hi) < p2) & (hi < direct_hi - 1e-12)
+        ok_lo = rough_lo & (np.abs(lo) < p2) & (lo > direct_lo + 1e-12)
         m_hi = int(ok_hi.sum())
         t2_r = np.concatenate((ideal2[ok_hi] + hi[ok_hi], ideal2[ok_lo] + lo[ok_lo]))
         if not len(t2_r):
@@ -386,14 +393,18 @@ def simulate_mesh(
         ys_hi.append(hi_r[:m_hi])
         xs_lo.append(ideal1_r[m_hi:])
         ys_lo.append(lo_r[m_hi:])
-        hi = np.minimum(
+        new_hi = np.minimum(
             direct_hi,
             _regrid(np.concatenate(xs_hi), np.concatenate(ys_hi), k, theta1, p1, far),
         )
-        lo = np.maximum(
+        new_lo = np.maximum(
             direct_lo,
             _regrid(np.concatenate(xs_lo), np.concatenate(ys_lo), k, theta1, p1, far),
         )
+        # the next pass only where this one still moved the bound
+        rough_hi &= np.abs(new_hi - hi) > _SETTLED_RAD
+        rough_lo &= np.abs(new_lo - lo) > _SETTLED_RAD
+        hi, lo = new_hi, new_lo
     # no finite bound can exceed one pitch: beyond it no tooth touches on that side
     hi = np.where(hi > p2, np.inf, hi)
     lo = np.where(lo < -p2, -np.inf, lo)
@@ -444,6 +455,22 @@ def _outer_radius(outline: WheelOutline) -> float:
         return float(outline.radii["tip"])
     pts = outline.tooth_polyline(0.01)
     return float(np.hypot(pts[:, 0], pts[:, 1]).max())
+
+
+def _unsettled(
+    ideal: np.ndarray,
+    off: np.ndarray,
+    k: float,
+    at: np.ndarray,
+    period: float,
+    far: float,
+) -> np.ndarray:
+    """Where interpolating the swapped bound from all samples and from every other one
+    differ by more than ``_SETTLED_RAD``: a kink lies near (a smooth stretch differs by
+    a quarter of the curvature's chord error only)."""
+    full = _regrid(ideal, off, k, at, period, far)
+    half = _regrid(ideal[::2], off[::2], k, at, period, far)
+    return np.asarray(np.abs(full - half) > _SETTLED_RAD)
 
 
 def _limit(values: np.ndarray, far: float) -> np.ndarray:
