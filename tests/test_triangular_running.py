@@ -158,6 +158,22 @@ def test_the_six_pairs_run_with_every_default(z1, z2, process):
     assert least_play_mm(design) >= Process(kind=process).backlash_minimum
 
 
+@pytest.mark.parametrize(
+    ("process", "module", "cutter"),
+    [("hand", 0.5, None), ("print", 3.0, None), ("mill", 0.5, 0.5)],
+)
+def test_the_six_pairs_run_at_other_modules(process, module, cutter):
+    # derived: every proportion is in modules, so the geometry scales; the process's
+    # margin (mm) is added on top of the default backlash and stays to spare. A milled
+    # root takes the cutter's radius, which scales too while the cutter is no wider
+    # than the module (docs/format.md)
+    extra = "" if cutter is None else f"[process]\ncutter = {cutter}\n\n"
+    for z1, z2 in SIX_PAIRS:
+        text = pair_toml(z1, z2, process, module=module)
+        design = load(text.replace("[defaults]", extra + "[defaults]"))
+        assert serious(design) == [], (z1, z2)
+
+
 def _grid_check(counts: tuple[int, ...], process: str) -> list[tuple[int, int, str]]:
     bad = []
     for z1 in counts:
