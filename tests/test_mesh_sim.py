@@ -10,6 +10,7 @@ import math
 
 import numpy as np
 import pytest
+from _contact import rot, touch_angles
 
 from wheelgen.checks.mesh_sim import MeshSimulation, simulate_mesh, tooth_table
 from wheelgen.teeth.outline import Segment, WheelOutline
@@ -84,67 +85,26 @@ def triangle_wheel(
     return WheelOutline(z, tuple(_lines(pts)), radii)
 
 
-def _rot(v: np.ndarray, a: float) -> np.ndarray:
-    c, s = math.cos(a), math.sin(a)
-    return np.array([c * v[0] - s * v[1], s * v[0] + c * v[1]])
-
-
 def _wrap(a: float) -> float:
     return (a + math.pi) % (2 * math.pi) - math.pi
 
 
 def _touch_angles(w1: tuple, w2: tuple, a: float, th1: float) -> list[float]:
-    """Every driven angle at which a corner of one wheel lies on an edge of the other.
-
-    Driver at the origin turned by ``th1``; driven at (a, 0). Derived by hand: a corner
-    at polar (rho, beta) about the driven centre lies on the edge line n.x = c (normal
-    angle nu, driven frame) turned by t2 when rho cos(beta - nu - t2) = c, so
-    t2 = beta - nu -+ acos(c / rho); a driven corner (|w|, beta_w) on the driver's
-    turned edge line n'.x = c' when n'.C + |w| cos(beta_w + t2 - nu') = c'. A root is
-    kept only if the touching point lies within the edge.
-    """
-    centre = np.array([a, 0.0])
-    out: list[float] = []
+    """Every driven angle at which a corner of one wheel lies on an edge of the other
+    (the closed form of tests/_contact.py), for two wheels of sharp triangles."""
 
     def corners_edges(spec: tuple) -> tuple[list[np.ndarray], list[tuple]]:
         z = spec[0]
         vs, es = [], []
         for k in range(z):
-            pts = [_rot(q, 2 * math.pi * k / z) for q in _tri_points(*spec)]
+            pts = [rot(q, 2 * math.pi * k / z) for q in _tri_points(*spec)]
             vs += pts[:-1]
             es += list(zip(pts[:-1], pts[1:], strict=True))
         return vs, es
 
     v1, e1 = corners_edges(w1)
     v2, e2 = corners_edges(w2)
-    for v in v1:
-        vv = _rot(v, th1) - centre
-        rho, beta = math.hypot(*vv), math.atan2(vv[1], vv[0])
-        for p0, p1 in e2:
-            d = p1 - p0
-            n = np.array([d[1], -d[0]]) / math.hypot(*d)
-            c, nu = float(n @ p0), math.atan2(n[1], n[0])
-            if abs(c) <= rho:
-                for sg in (1.0, -1.0):
-                    t2 = beta - nu - sg * math.acos(c / rho)
-                    t = float((_rot(vv, -t2) - p0) @ d / (d @ d))
-                    if -1e-12 <= t <= 1 + 1e-12:
-                        out.append(t2)
-    for w in v2:
-        rw, bw = math.hypot(*w), math.atan2(w[1], w[0])
-        for p0, p1 in e1:
-            q0, q1 = _rot(p0, th1), _rot(p1, th1)
-            d = q1 - q0
-            n = np.array([d[1], -d[0]]) / math.hypot(*d)
-            c, nu = float(n @ q0), math.atan2(n[1], n[0])
-            q = (c - float(n @ centre)) / rw
-            if abs(q) <= 1:
-                for sg in (1.0, -1.0):
-                    t2 = nu - bw + sg * math.acos(q)
-                    t = float((centre + _rot(w, t2) - q0) @ d / (d @ d))
-                    if -1e-12 <= t <= 1 + 1e-12:
-                        out.append(t2)
-    return out
+    return touch_angles(v1, e1, v2, e2, a, th1)
 
 
 # --- the involute property ---------------------------------------------------------

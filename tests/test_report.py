@@ -10,15 +10,14 @@ that test is skipped.
 from __future__ import annotations
 
 import re
-import shutil
 import subprocess
 import sys
-import tempfile
 import xml.etree.ElementTree as ET
 from html.parser import HTMLParser
 from pathlib import Path
 
 import pytest
+from _browser import screenshot
 
 from wheelgen.checks import analyse
 from wheelgen.checks.findings import Finding
@@ -187,37 +186,15 @@ def test_workshop_never_starts_the_cad_kernel() -> None:
     subprocess.run([sys.executable, "-c", code], check=True, timeout=120)
 
 
-def _chromium() -> str | None:
-    for name in ("chromium", "chromium-browser", "google-chrome", "chrome"):
-        path = shutil.which(name)
-        if path:
-            return path
-    return None
-
-
 def test_report_renders_in_headless_chromium(tmp_path: Path, demo) -> None:
-    browser = _chromium()
-    if browser is None:
-        pytest.skip("Chromium is not installed")
-    from PIL import Image
-
     page = tmp_path / "report.html"
     page.write_text(demo[3], encoding="utf-8")
     shot = tmp_path / "shot.png"
-    with tempfile.TemporaryDirectory() as profile:
-        cmd = [
-            browser, "--headless", "--no-sandbox", "--disable-gpu", "--disable-quic",
-            "--no-first-run", "--disable-background-networking",
-            "--disable-component-update", "--disable-sync",
-            f"--user-data-dir={profile}", "--window-size=1000,1400",
-            "--hide-scrollbars", f"--screenshot={shot}", page.as_uri(),
-        ]  # fmt: skip
-        try:
-            subprocess.run(cmd, capture_output=True, timeout=90, check=False)
-        except subprocess.TimeoutExpired:
-            pytest.skip("Chromium did not finish within 90 s")
-    if not shot.exists():
-        pytest.skip("Chromium ran but wrote no screenshot (no usable display stack)")
+    why = screenshot(page, shot)
+    if why:
+        pytest.skip(why)
+    from PIL import Image
+
     img = Image.open(shot).convert("L")
     hist = img.histogram()
     total = sum(hist)

@@ -11,14 +11,12 @@ Chromium when it is installed.
 from __future__ import annotations
 
 import re
-import shutil
-import subprocess
-import tempfile
 import xml.etree.ElementTree as ET
 from pathlib import Path
 
 import numpy as np
 import pytest
+from _browser import screenshot
 
 from wheelgen.checks import analyse
 from wheelgen.design import load_design
@@ -104,33 +102,16 @@ def test_plots_are_the_same_bytes_every_time(two_forms):
 
 
 def test_the_plots_render_in_headless_chromium(tmp_path: Path, two_forms) -> None:
-    browser = next(
-        (p for n in ("chromium", "chromium-browser", "google-chrome")
-         if (p := shutil.which(n))),
-        None,
-    )  # fmt: skip
-    if browser is None:
-        pytest.skip("Chromium is not installed")
-    from PIL import Image
-
     _, page = two_forms
     head = page[: page.index("<body>") + len("<body>")]
     only = tmp_path / "te.html"
     only.write_text(head + _section(page) + "</section></body></html>", "utf-8")
     shot = tmp_path / "te.png"
-    with tempfile.TemporaryDirectory() as profile:
-        cmd = [
-            browser, "--headless", "--no-sandbox", "--disable-gpu", "--no-first-run",
-            "--disable-background-networking", "--disable-component-update",
-            f"--user-data-dir={profile}", "--window-size=1000,1000",
-            "--hide-scrollbars", f"--screenshot={shot}", only.as_uri(),
-        ]  # fmt: skip
-        try:
-            subprocess.run(cmd, capture_output=True, timeout=90, check=False)
-        except subprocess.TimeoutExpired:
-            pytest.skip("Chromium did not finish within 90 s")
-    if not shot.exists():
-        pytest.skip("Chromium ran but wrote no screenshot (no usable display stack)")
+    why = screenshot(only, shot, "1000,1000")
+    if why:
+        pytest.skip(why)
+    from PIL import Image
+
     img = np.asarray(Image.open(shot).convert("RGB")).astype(int)
     # the triangular curve is drawn in its own colour (#b5562d), the involute one in
     # #1f5f8b: both must show on the page

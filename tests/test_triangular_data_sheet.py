@@ -26,6 +26,7 @@ import math
 
 import numpy as np
 import pytest
+from _contact import rot, touch_angles
 from click.testing import CliRunner
 
 from wheelgen.cli import main
@@ -60,11 +61,6 @@ def _json(*args: str) -> dict:
     result = _gear(*args, "--json")
     assert result.exit_code == 0, result.output
     return json.loads(result.output)
-
-
-def _rot(v: np.ndarray, a: float) -> np.ndarray:
-    c, s = math.cos(a), math.sin(a)
-    return np.array([c * v[0] - s * v[1], s * v[0] + c * v[1]])
 
 
 def _flanks(spec: ToothSpec) -> tuple[np.ndarray, np.ndarray, np.ndarray, np.ndarray]:
@@ -126,7 +122,7 @@ def test_every_quantity_against_the_outline_and_a_hand_derivation(
     # space angle: measured between this tooth's upper flank and the next tooth's
     # lower flank; derived b + thinning / r + 360 / z (module docstring)
     pitch = 2 * math.pi / z
-    d_next = _rot(d_lo, pitch)
+    d_next = rot(d_lo, pitch)
     space = cut + 360.0 / z
     assert _angle(d_hi, d_next) == pytest.approx(space, abs=1e-9)
     assert data["space_angle_deg"] == pytest.approx(space, abs=1e-9)
@@ -169,7 +165,7 @@ def test_every_quantity_against_the_outline_and_a_hand_derivation(
     # measured from this tooth's upper flank to the next tooth's lower flank
     rf = r - ded * m
     a_hi = _inward(hi0, -d_hi, rf)
-    a_nx = _inward(_rot(lo1, pitch), -d_next, rf)
+    a_nx = _inward(rot(lo1, pitch), -d_next, rf)
     if data["v_root"]:
         # the flanks meet above the root circle: they cross before reaching it
         assert data["root_width"] == 0.0
@@ -218,54 +214,18 @@ def _teeth(spec: ToothSpec, near: float, span: int = 3) -> tuple[list, list]:
     corners, flanks = [], []
     for k in range(k0 - span, k0 + span + 1):
         a = k * pitch
-        corners += [_rot(lo1, a), _rot(hi0, a)]
-        flanks += [(_rot(lo0, a), _rot(lo1, a)), (_rot(hi1, a), _rot(hi0, a))]
+        corners += [rot(lo1, a), rot(hi0, a)]
+        flanks += [(rot(lo0, a), rot(lo1, a)), (rot(hi1, a), rot(hi0, a))]
     return corners, flanks
 
 
 def _touch_offsets(s1, s2, a, th1, ideal):
     """Every offset of the driven wheel from its ideal angle at which a sharp tip
-    corner of one wheel lies on a straight flank of the other, driver turned ``th1``.
-
-    Derived by hand: a corner at polar (rho, beta) about the driven centre lies on the
-    driven flank n.x = c (normal angle nu, driven frame) turned by t2 when
-    rho cos(beta - nu - t2) = c, so t2 = beta - nu -+ acos(c / rho). A driven corner
-    (|w|, beta_w) lies on the driver's turned flank n'.x = c' when
-    n'.C + |w| cos(beta_w + t2 - nu') = c'. A solution counts only if the touching
-    point lies on the flank's straight part.
-    """
-    centre = np.array([a, 0.0])
-    out = []
+    corner of one wheel lies on a straight flank of the other, driver turned ``th1``
+    (the closed form of tests/_contact.py)."""
     c1, f1 = _teeth(s1, -th1)  # driver teeth facing the driven wheel
     c2, f2 = _teeth(s2, math.pi - ideal)  # driven teeth facing the driver
-    for v in c1:
-        q = _rot(v, th1) - centre
-        rho, beta = math.hypot(*q), math.atan2(q[1], q[0])
-        for p0, p1 in f2:
-            d = p1 - p0
-            n = np.array([d[1], -d[0]]) / math.hypot(*d)
-            c, nu = float(n @ p0), math.atan2(n[1], n[0])
-            if abs(c) <= rho:
-                for sg in (1.0, -1.0):
-                    t2 = beta - nu - sg * math.acos(c / rho)
-                    t = float((_rot(q, -t2) - p0) @ d / (d @ d))
-                    if -1e-12 <= t <= 1 + 1e-12:
-                        out.append(_wrap(t2 - ideal))
-    for w in c2:
-        rw, bw = math.hypot(*w), math.atan2(w[1], w[0])
-        for p0, p1 in f1:
-            q0, q1 = _rot(p0, th1), _rot(p1, th1)
-            d = q1 - q0
-            n = np.array([d[1], -d[0]]) / math.hypot(*d)
-            c, nu = float(n @ q0), math.atan2(n[1], n[0])
-            h = (c - float(n @ centre)) / rw
-            if abs(h) <= 1:
-                for sg in (1.0, -1.0):
-                    t2 = nu - bw + sg * math.acos(h)
-                    t = float((centre + _rot(w, t2) - q0) @ d / (d @ d))
-                    if -1e-12 <= t <= 1 + 1e-12:
-                        out.append(_wrap(t2 - ideal))
-    return out
+    return [_wrap(t2 - ideal) for t2 in touch_angles(c1, f1, c2, f2, a, th1)]
 
 
 @pytest.mark.parametrize(("z1", "z2", "backlash"), [(20, 30, 0.6), (12, 40, 0.8)])
