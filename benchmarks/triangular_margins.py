@@ -26,6 +26,7 @@ import time
 
 from wheelgen.checks.mesh_sim import CHECK_STEPS, simulate_mesh
 from wheelgen.design.model import Process
+from wheelgen.design.process_limits import min_backlash
 from wheelgen.design.tooth_defaults import (
     TRIANGULAR_BACKLASH_FACTOR,
     tooth_defaults,
@@ -48,7 +49,7 @@ def spec(z: int, process: Process, thinned: bool) -> ToothSpec:
 
 def measure(counts: tuple[int, ...], kind: str) -> None:
     process = Process(kind=kind)  # type: ignore[arg-type]
-    margin = process.backlash_minimum
+    margin = min_backlash(process)
     bare = {z: outline_for(spec(z, process, False)) for z in counts}
     dressed = {z: outline_for(spec(z, process, True)) for z in counts}
     k_max, k_at = 0.0, (0, 0)

@@ -17,10 +17,12 @@ import pytest
 from click.testing import CliRunner
 
 from wheelgen.checks import analyse
+from wheelgen.checks.findings import format_value
 from wheelgen.checks.least_play import pair_play, settle_play
 from wheelgen.cli import main
 from wheelgen.design import DesignError, loads_design
 from wheelgen.design.model import Design, Process
+from wheelgen.design.process_limits import min_backlash
 from wheelgen.design.tooth_defaults import (
     TRIANGULAR_BACKLASH_FACTOR,
     default_tooth_angle_deg,
@@ -155,7 +157,7 @@ def test_the_six_pairs_run_with_every_default(z1, z2, process):
     design = load(pair_toml(z1, z2, process))
     assert serious(design) == []
     # and with the process's smallest backlash to spare (mm on the pitch circle)
-    assert least_play_mm(design) >= Process(kind=process).backlash_minimum
+    assert least_play_mm(design) >= min_backlash(Process(kind=process))
 
 
 @pytest.mark.parametrize(
@@ -229,37 +231,26 @@ def test_user_values_are_kept():
 
 # --- advice that clears a jam -------------------------------------------------------
 
-_OPTION_PATTERNS = (
-    (
-        re.compile(
-            r"^tooth_angle = ([\d.]+) on (\w+) with backlash = ([\d.]+) on both$"
-        ),
-        lambda m: {m[2]: f"tooth_angle = {m[1]}", "both": f"backlash = {m[3]}"},
-    ),
-    (
-        re.compile(r"^backlash = ([\d.]+) on both \w+ and \w+$"),
-        lambda m: {"both": f"backlash = {m[1]}"},
-    ),
-    (
-        re.compile(r"^addendum = ([\d.]+) on both$"),
-        lambda m: {"both": f"addendum = {m[1]}"},
-    ),
-)
+_SETTING = re.compile(r'(\w+) = ([\d.]+) on wheel "(\w+)"')
 
 
-def _options(advice: str) -> list[dict[str, str]]:
-    """Each alternative of the advice as the keys it sets, per wheel (or both)."""
-    head = advice.split(". ", 1)[0]
+def _options(finding) -> list[dict[str, list[str]]]:
+    """Each alternative of the advice as the settings it makes, per wheel name; the
+    first is the finding's own structured change."""
+    advice = finding.advice
+    head = advice.split(". Each leaves", 1)[0]
     assert head.startswith("set ")
     out = []
     for text in head[4:].split("; or "):
-        for pattern, keys in _OPTION_PATTERNS:
-            m = pattern.search(text)
-            if m:
-                out.append(keys(m))
-                break
-        else:
-            raise AssertionError(f"advice option not understood: {text!r}")
+        keys: dict[str, list[str]] = {}
+        for key, value, wheel in _SETTING.findall(text):
+            keys.setdefault(wheel, []).append(f"{key} = {value}")
+        assert keys, f"advice option not understood: {text!r}"
+        out.append(keys)
+    first = {}
+    for c in finding.changes:
+        first.setdefault(c.name, []).append(f"{c.key} = {format_value(c.value)}")
+    assert first == out[0]
     return out
 
 
@@ -271,12 +262,11 @@ def _merge(table: str, *settings: str) -> str:
 
 
 def _apply(z1, z2, process, defaults, wheel1, wheel2, keys):
-    both = keys.get("both", "")
     return load(
         pair_toml(
             z1, z2, process, defaults=defaults,
-            wheel1=_merge(wheel1, keys.get("w1", ""), both),
-            wheel2=_merge(wheel2, keys.get("w2", ""), both),
+            wheel1=_merge(wheel1, *keys.get("w1", [])),
+            wheel2=_merge(wheel2, *keys.get("w2", [])),
         )
     )  # fmt: skip
 
@@ -297,7 +287,7 @@ def test_jam_advice_names_what_to_change_and_applying_it_clears_the_jam(
     design = load(pair_toml(z1, z2, process, defaults=defaults, wheel1=wheel1,
                             wheel2=wheel2))  # fmt: skip
     (jam,) = [f for f in analyse(design).findings if f.check == "mesh.jam"]
-    options = _options(jam.advice)
+    options = _options(jam)
     assert options
     for keys in options:
         fixed = _apply(z1, z2, process, defaults, wheel1, wheel2, keys)
@@ -317,7 +307,7 @@ def test_a_pair_that_runs_too_tight_is_warned_with_advice_that_works():
     design = load(pair_toml(100, 150, "hand", defaults="backlash = 0.04"))
     (tight,) = [f for f in serious(design) if f.check == "mesh.backlash"]
     assert tight.level == "warning"
-    for keys in _options(tight.advice):
+    for keys in _options(tight):
         fixed = _apply(100, 150, "hand", "backlash = 0.04", "", "", keys)
         assert serious(fixed) == [], keys
 
@@ -431,16 +421,33 @@ def test_check_reports_the_choice(tmp_path):
     ]
 
 
-@pytest.mark.parametrize(("z1", "z2"), [(20, 127), (12, 12)])
-def test_gear_and_check_agree_on_a_default_pair(z1, z2):
-    design = load(pair_toml(z1, z2, "print"))
+@pytest.mark.parametrize(
+    ("z1", "z2", "extra", "flags"),
+    [
+        (20, 127, "", []),
+        (12, 12, "", []),
+        (12, 30, "tooth_angle = 60.0\nbacklash = 0.05",
+         ["--tooth-angle", "60", "--backlash", "0.05"]),
+        (100, 150, "backlash = 0.03", ["--backlash", "0.03"]),
+    ],
+)  # fmt: skip
+def test_gear_and_check_agree_on_a_pair(z1, z2, extra, flags):
+    design = load(pair_toml(z1, z2, "print", defaults=extra))
     args = ["gear", "--form", "triangular", "-z", str(z1), "-m", "1", "--mate",
-            str(z2), "--process", "print", "--json"]  # fmt: skip
+            str(z2), "--process", "print", "--json", *flags]  # fmt: skip
     result = CliRunner().invoke(main, args)
     assert result.exit_code == 0, result.output
     sheet = json.loads(result.output)
-    assert sheet["runs"]
     assert sheet["least_play"] == pytest.approx(least_play_mm(design), abs=1e-12)
     w1, w2 = design.wheels
     assert sheet["thinning"] == pytest.approx(w1.backlash / 2)
     assert sheet["mate"]["thinning"] == pytest.approx(w2.backlash / 2)
+    # the same verdicts, and the same advice, from both commands
+    names = {"wheel": "w1", "mate": "w2", "mesh": "mesh w1-w2"}
+    gear = {(names[f["subject"]], f["check"], f["level"]) for f in sheet["findings"]}
+    check = {
+        (f.subject.removeprefix("wheel "), f.check, f.level)
+        for f in analyse(design).findings
+        if f.check.startswith(("mesh.", "wheel."))
+    }
+    assert gear == check

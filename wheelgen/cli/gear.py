@@ -431,6 +431,7 @@ def _gear(
         values.update({k: v for k, v in given.items() if v is not None})
         # as in a train file: each wheel gives half the play it asks of its meshes
         usual = values.pop("backlash") if form == "triangular" else 0.0
+        values.pop("backlash", None)
         thinning = thinning_for(usual if backlash is None else backlash)
         return ToothSpec(
             teeth=z,
