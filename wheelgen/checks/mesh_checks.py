@@ -572,40 +572,31 @@ def _simulation_findings(
     out: list[Finding] = []
     need = min_backlash(process or Process())
     triangular = spec1.form == "triangular"
-    if sim.jams and triangular:
-        advice, changes = running_advice(spec1, spec2, sim.centre_distance, need, names)
-        overlap = _jam_backlash(sim, spec2)
-        out.append(
-            Finding(
-                "error",
-                "mesh.jam",
-                subject,
-                f"{subject}: turned through a tooth pitch, the outlines overlap by "
-                f"{_mm(overlap)} on the driven pitch circle: the pair jams",
-                measured=f"play {sim.min_play_deg:.4f} deg at the driven wheel",
-                limit="0 deg",
-                advice=advice
-                or "more than thinner or shorter teeth can give: the arbors are too "
-                "close for these teeth; move them apart",
-                changes=changes,
-            )
-        )
-        return out
     if sim.jams:
-
-        def frees(b: float) -> bool:
-            s1, s2 = (replace(x, thinning=b / 2) for x in (spec1, spec2))
-            o1, o2 = outline_for(s1), outline_for(s2)
-            again = simulate_mesh(o1, o2, sim.centre_distance, steps=CHECK_STEPS)
-            return not again.jams
-
         overlap = _jam_backlash(sim, spec2)
-        changes = _backlash_changes(spec1, spec2, names, overlap, frees)
-        advice = _set_text(
-            changes,
-            "more than thinner teeth can take: the arbors are too close for these "
-            "teeth; move them apart or shorten the teeth ('addendum')",
-        )
+        if triangular:
+            # straight flanks: the matching tooth angle, the backlash or shorter teeth
+            advice, changes = running_advice(
+                spec1, spec2, sim.centre_distance, need, names
+            )
+            advice = advice or (
+                "more than thinner or shorter teeth can give: the arbors are too "
+                "close for these teeth; move them apart"
+            )
+        else:
+
+            def frees(b: float) -> bool:
+                s1, s2 = (replace(x, thinning=b / 2) for x in (spec1, spec2))
+                o1, o2 = outline_for(s1), outline_for(s2)
+                again = simulate_mesh(o1, o2, sim.centre_distance, steps=CHECK_STEPS)
+                return not again.jams
+
+            changes = _backlash_changes(spec1, spec2, names, overlap, frees)
+            advice = _set_text(
+                changes,
+                "more than thinner teeth can take: the arbors are too close for these "
+                "teeth; move them apart or shorten the teeth ('addendum')",
+            )
         out.append(
             Finding(
                 "error",
