@@ -61,7 +61,7 @@ def name_problem(name: object) -> str | None:
         return "empty"
     if len(name) > _NAME_LENGTH.high:
         return f"{len(name)} characters long"
-    if name.startswith("-"):
+    if name.startswith("-") and _NAME.fullmatch("_" + name[1:]):
         return "starts with '-'"
     return "not a safe file name"
 
