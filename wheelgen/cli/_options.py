@@ -16,8 +16,9 @@ from typing import Any
 import click
 
 from ..design.bounds import BOUNDS, Bound
+from ..design.units import LENGTH_FORMS, LengthError, parse_length
 
-__all__ = ["Bounded"]
+__all__ = ["Bounded", "Length"]
 
 # A plain decimal number with an optional power of ten; anything longer than this many
 # characters is no number a person types (and int() refuses past 4300 digits).
@@ -76,3 +77,37 @@ class Bounded(click.ParamType):
             param,
             ctx,
         )
+
+
+class Length(Bounded):
+    """A length option: a number of millimetres, or text with its unit (``"0.108in"``,
+    ``"1/8 in"``), read exactly and checked in mm against the bound ``name``."""
+
+    def get_metavar(
+        self, param: click.Parameter, *args: Any, **kwargs: Any
+    ) -> str | None:
+        return None if isinstance(param, click.Argument) else "LENGTH"
+
+    def convert(
+        self, value: Any, param: click.Parameter | None, ctx: click.Context | None
+    ) -> Any:
+        text = value.strip() if isinstance(value, str) else ""
+        if not text or _is_float(text):  # a plain number: mm, as Bounded reads it
+            return super().convert(value, param, ctx)
+        if len(text) > _LONGEST:
+            self.fail(
+                f"{text[: _LONGEST - 3]!r}... is too long to be a length", param, ctx
+            )
+        try:
+            mm = float(parse_length(text))
+        except LengthError as exc:
+            self.fail(f"{exc}; write mm as a number, or {LENGTH_FORMS}", param, ctx)
+        return self._checked(mm, f"{text} ({mm:g} mm)", param, ctx)
+
+
+def _is_float(text: str) -> bool:
+    try:
+        float(text)
+    except ValueError:
+        return False
+    return True

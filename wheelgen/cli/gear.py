@@ -16,26 +16,43 @@ import click
 
 from ..checks.findings import Finding
 from ..checks.mesh_checks import check_mesh, check_wheel
+from ..design.diametral_pitch import inch_rack, module_of_dp
 from ..design.model import Process
 from ..design.tooth_defaults import tooth_defaults
+from ..design.units import MM, UNITS, Lengths
 from ..teeth.drawing import outline_svg
 from ..teeth.gear_data import GearData, gear_data
 from ..teeth.mesh_data import MeshData, mesh_data
 from ..teeth.spec import ToothSpec, outline_for, thinning_for
 from ..teeth.triangular_data import TriangularData, triangular_data
 from ._common import EXIT_OK, echo_json, fail
-from ._options import Bounded
+from ._options import Bounded, Length
 
 __all__ = ["gear_command"]
 
 
-def _mm(value: float | None, places: int = 4) -> str:
-    return "-" if value is None else f"{value:.{places}f} mm"
+def _pitch_words(module: float, diametral_pitch: float | None) -> str:
+    """``module 1 mm`` or ``32 diametral pitch (module 0.79375 mm)``."""
+    if diametral_pitch is None:
+        return f"module {module:g} mm"
+    return f"{diametral_pitch:g} diametral pitch (module {module:g} mm)"
 
 
-def _sheet(data: GearData, name: str) -> list[str]:
+def _sizes(lengths: Lengths) -> Any:
+    """The writer of one size on a sheet: ``"31.7500 mm"``, or in inches
+    ``"1.2500 in (31.7500 mm)"``; ``"-"`` for none."""
+
+    def size(value: float | None) -> str:
+        return "-" if value is None else lengths.both(value)
+
+    return size
+
+
+def _sheet(data: GearData, name: str, lengths: Lengths = MM) -> list[str]:
+    _mm = _sizes(lengths)
+    pitch = _pitch_words(data.module, data.diametral_pitch)
     lines = [
-        f"{name}: {data.teeth} teeth, module {data.module:g} mm, involute, "
+        f"{name}: {data.teeth} teeth, {pitch}, involute, "
         f"{data.pressure_angle_deg:g} deg pressure angle, shift {data.shift:+g}",
         f"  pitch diameter        {_mm(data.pitch_diameter)}",
     ]
@@ -63,12 +80,17 @@ def _sheet(data: GearData, name: str) -> list[str]:
         kind = "balls" if data.teeth % 2 else "pins"
         lines.append(
             f"  over two {kind:<5}        {_mm(data.over_pins)} "
-            f"with {data.pin_diameter:g} mm {kind}"
+            f"with {lengths.text(data.pin_diameter)} {kind}"
         )
     if data.form == "involute":
+        set_of = (
+            f" of a {data.diametral_pitch:g} DP set"
+            if data.diametral_pitch is not None
+            else ""
+        )
         cutter = (
-            f"No. {data.cutter_number} ({data.cutter_range}, diametral-pitch set "
-            "numbering)"
+            f"No. {data.cutter_number}{set_of} ({data.cutter_range}, diametral-pitch "
+            "set numbering)"
             if data.cutter_number is not None
             else "none: fewer than 12 teeth, generate or shift instead"
         )
@@ -86,12 +108,13 @@ def _sheet(data: GearData, name: str) -> list[str]:
     return lines
 
 
-def _mesh_lines(mesh: MeshData) -> list[str]:
+def _mesh_lines(mesh: MeshData, lengths: Lengths = MM) -> list[str]:
+    _mm = _sizes(lengths)
     lines = [
         "mesh:",
         (
             f"  centre distance       {_mm(mesh.centre_distance)} "
-            f"(standard {mesh.standard_centre_distance:.4f} mm)"
+            f"(standard {lengths.fixed(mesh.standard_centre_distance)})"
         ),
     ]
     if mesh.working_pressure_angle_deg is not None:
@@ -105,7 +128,7 @@ def _mesh_lines(mesh: MeshData) -> list[str]:
         lines.append(
             f"  backlash              {_mm(mesh.backlash)} "
             "on the working pitch circle, "
-            f"{mesh.normal_backlash:.4f} mm normal"
+            f"{lengths.fixed(mesh.normal_backlash)} normal"
         )
     if mesh.tip_shortening is not None and mesh.tip_shortening > 1e-6:
         lines.append(
@@ -128,9 +151,16 @@ def _mesh_lines(mesh: MeshData) -> list[str]:
     return lines
 
 
-def _triangular_sheet(data: TriangularData, name: str) -> list[str]:
+def _triangular_sheet(
+    data: TriangularData,
+    name: str,
+    lengths: Lengths = MM,
+    diametral_pitch: float | None = None,
+) -> list[str]:
+    _mm = _sizes(lengths)
+    pitch = _pitch_words(data.module, diametral_pitch)
     lines = [
-        f"{name}: {data.teeth} teeth, module {data.module:g} mm, triangular",
+        f"{name}: {data.teeth} teeth, {pitch}, triangular",
         f"  tooth angle           {data.tooth_angle_deg:.4f} deg (included, as cut; "
         f"{data.basic_angle_deg:g} before the backlash)",
         f"  space angle           {data.space_angle_deg:.4f} deg (included, between "
@@ -212,11 +242,14 @@ def _triangular_pair(
     }
 
 
-def _triangular_pair_lines(pair: dict[str, Any], mate_teeth: int) -> list[str]:
+def _triangular_pair_lines(
+    pair: dict[str, Any], mate_teeth: int, lengths: Lengths = MM
+) -> list[str]:
+    _mm = _sizes(lengths)
     lines = [
         "mesh:",
         f"  centre distance       {_mm(pair['centre_distance'])} "
-        f"(standard {pair['standard_centre_distance']:.4f} mm)",
+        f"(standard {lengths.fixed(pair['standard_centre_distance'])})",
         f"  tip-root clearance    {_mm(pair['clearance'])}",
     ]
     if pair["jams"]:
@@ -231,8 +264,9 @@ def _triangular_pair_lines(pair: dict[str, Any], mate_teeth: int) -> list[str]:
         )
         return lines
     lines += [
-        f"  play                  {pair['least_play']:.4f} to {pair['most_play']:.4f} "
-        f"mm on the pitch circle ({pair['least_play_deg']:.4f} to "
+        f"  play                  {lengths.num(pair['least_play'], 4)} to "
+        f"{lengths.fixed(pair['most_play'])} on the pitch circle "
+        f"({pair['least_play_deg']:.4f} to "
         f"{pair['most_play_deg']:.4f} deg at the mate)",
         f"  transmission error    {pair['te_peak_to_peak_deg']:.4f} deg peak to peak "
         f"at the mate over one pitch ({_mm(pair['te_peak_to_peak'])} on its pitch "
@@ -254,6 +288,7 @@ def _triangular_pair_lines(pair: dict[str, Any], mate_teeth: int) -> list[str]:
 _OPTION_OF = {
     "'teeth'": "'--teeth'",
     "'module'": "'--module'",
+    "'diametral_pitch'": "'--dp'",
     "'pressure_angle_deg'": "'--pressure-angle'",
     "'tooth_angle_deg'": "'--tooth-angle'",
     "'shift'": "'--shift'",
@@ -292,8 +327,24 @@ def _clean(values: dict[str, Any]) -> dict[str, Any]:
     "-m",
     "module",
     type=Bounded("module"),
-    required=True,
-    help="Module, mm.",
+    default=None,
+    help="Module, mm (or give --dp).",
+)
+@click.option(
+    "--dp",
+    "dp",
+    type=Bounded("diametral_pitch"),
+    default=None,
+    help="Diametral pitch, teeth per inch of pitch diameter, instead of --module: "
+    "the module is 25.4/DP mm and involute teeth take the inch standard's "
+    "proportions (see docs/format.md). Sizes are then printed in inches.",
+)
+@click.option(
+    "--units",
+    type=click.Choice(UNITS),
+    default=None,
+    help="Units of the sizes printed (the JSON stays in mm).  [default: in with "
+    "--dp, else mm]",
 )
 @click.option(
     "--pressure-angle",
@@ -340,14 +391,15 @@ def _clean(values: dict[str, Any]) -> dict[str, Any]:
     "--dedendum",
     type=Bounded("dedendum"),
     default=None,
-    help="x module.  [default: 1.25 involute, 0.85 triangular]",
+    help="x module.  [default: 1.25 involute (with --dp the inch standard's), "
+    "0.85 triangular]",
 )
 @click.option(
     "--root-radius",
     type=Bounded("root_radius"),
     default=None,
     help="Rack tip radius (involute) or root rounding (triangular), x module.  "
-    "[default: 0.38 involute; 0.1 triangular, and at least the 0.5 mm radius of "
+    "[default: 0.38 involute (0.3 with --dp); 0.1 triangular, and at least the 0.5 mm radius of "
     "a 1 mm end mill with --process mill]",
 )
 @click.option(
@@ -358,14 +410,19 @@ def _clean(values: dict[str, Any]) -> dict[str, Any]:
 )
 @click.option(
     "--backlash",
-    type=Bounded("play"),
+    type=Length("play"),
     default=None,
-    help="Backlash each wheel asks of its meshes, mm (as the train file's "
+    help="Backlash each wheel asks of its meshes, mm or with a unit ('0.002in'; as "
+    "the train file's "
     "'backlash'): half of it comes off each wheel's teeth.  [default: 0 involute; "
     "triangular 3 m/z plus the process's smallest backlash, by each wheel's teeth]",
 )
 @click.option(
-    "--pin", "pin", type=Bounded("size"), default=None, help="Pin diameter, mm."
+    "--pin",
+    "pin",
+    type=Length("size"),
+    default=None,
+    help="Pin diameter, mm or with a unit ('0.054in').",
 )
 @click.option(
     "--mate", type=Bounded("teeth"), default=None, help="Teeth of the mating wheel."
@@ -373,9 +430,9 @@ def _clean(values: dict[str, Any]) -> dict[str, Any]:
 @click.option("--mate-shift", type=Bounded("shift"), default=0.0, show_default=True)
 @click.option(
     "--centre-distance",
-    type=Bounded("size"),
+    type=Length("size"),
     default=None,
-    help="Mesh at this distance, mm.",
+    help="Mesh at this distance, mm or with a unit ('1.25in').",
 )
 @click.option("--json", "as_json", is_flag=True, help="Print one JSON object.")
 @click.option(
@@ -387,7 +444,9 @@ def _clean(values: dict[str, Any]) -> dict[str, Any]:
 )
 def _gear(
     teeth: int,
-    module: float,
+    module: float | None,
+    dp: float | None,
+    units: str | None,
     pressure_angle: float,
     shift: float,
     form: str,
@@ -414,7 +473,14 @@ def _gear(
     Triangular: tooth, space and flank angles, thickness at the pitch circle, tip and
     root widths and the cutter that cuts one space; for a pair the clearance, the play
     and the transmission error over one pitch, turned in the mesh simulator.
+
+    Give the tooth size as --module (mm) or --dp (diametral pitch, with the inch
+    tooth proportions). Lengths on the command line are mm, or text with a unit
+    ('0.054in', '1/8in').
     """
+    if (module is None) == (dp is None):
+        fail("give the tooth size as '--module' (mm) or as '--dp' (diametral pitch)")
+    lengths = Lengths("in" if units is None and dp is not None else units or "mm")  # type: ignore[arg-type]  # checked by click.Choice
     if centre_distance is not None and mate is None:
         fail("'--centre-distance' needs '--mate'")
     given = {
@@ -425,9 +491,18 @@ def _gear(
         "tip_radius": tip_radius,
     }
     make = Process(kind=process)  # type: ignore[arg-type]  # checked by click.Choice
+    if dp is not None:
+        module = module_of_dp(dp)
+        if form == "involute":
+            rack = inch_rack(dp, pressure_angle)
+            for key in ("dedendum", "root_radius"):
+                if given[key] is None:
+                    given[key] = getattr(rack, key)
+    assert module is not None
+    size = module
 
     def spec_for(z: int, x: float) -> ToothSpec:
-        values = tooth_defaults(form, z, module, make)
+        values = tooth_defaults(form, z, size, make)
         values.update({k: v for k, v in given.items() if v is not None})
         # as in a train file: each wheel gives half the play it asks of its meshes
         usual = values.pop("backlash") if form == "triangular" else 0.0
@@ -435,11 +510,12 @@ def _gear(
         thinning = thinning_for(usual if backlash is None else backlash)
         return ToothSpec(
             teeth=z,
-            module=module,
+            module=size,
             form=form,
             pressure_angle_deg=pressure_angle,
             shift=x,
             thinning=thinning,
+            diametral_pitch=dp,
             **values,
         )
 
@@ -449,7 +525,8 @@ def _gear(
         svg_text = None
         if svg_path is not None:
             svg_text = outline_svg(
-                outline_for(spec), title=f"{teeth} teeth, module {module:g} mm, {form}"
+                outline_for(spec),
+                title=f"{teeth} teeth, {_pitch_words(size, dp)}, {form}",
             )
         # the verdicts are the checks' own, so 'gear' and 'check' always agree
         verdicts = check_wheel(spec, "wheel")
@@ -464,9 +541,13 @@ def _gear(
                 names=("wheel", "mate"),
             )
         if form == "triangular":
-            out, lines = _triangular_output(spec, mate_spec, centre_distance, verdicts)
+            out, lines = _triangular_output(
+                spec, mate_spec, centre_distance, verdicts, lengths
+            )
         else:
-            out, lines = _involute_output(spec, mate_spec, centre_distance, pin)
+            out, lines = _involute_output(
+                spec, mate_spec, centre_distance, pin, lengths
+            )
             # the wheels' verdicts are on their sheets; the pair's as 'check' gives them
             lines += _pair_verdicts(verdicts)
     except ValueError as exc:
@@ -492,10 +573,11 @@ def _involute_output(
     mate_spec: ToothSpec | None,
     centre_distance: float | None,
     pin: float | None,
+    lengths: Lengths = MM,
 ) -> tuple[dict[str, Any], list[str]]:
     data = gear_data(spec, pin_diameter=pin)
     out = _clean(data.as_dict())
-    lines = _sheet(data, "wheel")
+    lines = _sheet(data, "wheel", lengths)
     if mate_spec is not None:
         mate_data = gear_data(mate_spec, pin_diameter=pin)
         mesh = mesh_data(spec, mate_spec, centre_distance)
@@ -506,7 +588,12 @@ def _involute_output(
         mesh_values["mesh_warnings"] = mesh_values.pop("warnings")
         out.update(mesh_values)
         out["mate"] = _clean(mate_data.as_dict())
-        lines += [""] + _sheet(mate_data, "mate") + [""] + _mesh_lines(mesh)
+        lines += (
+            [""]
+            + _sheet(mate_data, "mate", lengths)
+            + [""]
+            + _mesh_lines(mesh, lengths)
+        )
     return out, lines
 
 
@@ -525,20 +612,26 @@ def _triangular_output(
     mate_spec: ToothSpec | None,
     centre_distance: float | None,
     verdicts: list[Finding],
+    lengths: Lengths = MM,
 ) -> tuple[dict[str, Any], list[str]]:
+    dp = spec.diametral_pitch
     data = triangular_data(spec)
-    out = {"form": "triangular", **_clean(data.as_dict())}
-    lines = _triangular_sheet(data, "wheel")
+    out = {"form": "triangular", **_clean(data.as_dict()), "diametral_pitch": dp}
+    lines = _triangular_sheet(data, "wheel", lengths, dp)
     if mate_spec is not None:
         mate_data = triangular_data(mate_spec)
         pair = _triangular_pair(spec, mate_spec, centre_distance)
         out.update(_clean(pair))
-        out["mate"] = {"form": "triangular", **_clean(mate_data.as_dict())}
+        out["mate"] = {
+            "form": "triangular",
+            **_clean(mate_data.as_dict()),
+            "diametral_pitch": dp,
+        }
         lines += (
             [""]
-            + _triangular_sheet(mate_data, "mate")
+            + _triangular_sheet(mate_data, "mate", lengths, dp)
             + [""]
-            + _triangular_pair_lines(pair, mate_spec.teeth)
+            + _triangular_pair_lines(pair, mate_spec.teeth, lengths)
             # the sheet shows the transmission error itself
             + _pair_verdicts(verdicts, skip=("mesh.transmission_error",))
         )

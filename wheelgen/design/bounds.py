@@ -118,6 +118,11 @@ BOUNDS: dict[str, Bound] = {
         "sampled in millimetres, so larger wheels only cost work (common practice, "
         "no source)",
     ),
+    # the module's bound in teeth per inch of pitch diameter (derived: 25.4 / m)
+    "diametral_pitch": Bound(
+        Fraction(127, 250), 508, "teeth per inch", "the same wheels as a module of "
+        "0.05 to 50 mm (diametral pitch = 25.4 / module)",
+    ),
     "teeth": Bound(
         3, 2000, "", "fewer than 3 teeth cannot turn a mate; 2000 teeth is more than "
         "the largest count a dividing head or a printer reproduces usefully",

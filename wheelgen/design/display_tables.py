@@ -15,7 +15,7 @@ from __future__ import annotations
 import difflib
 from typing import Any
 
-from .loader import _axis, _bounded, _choice, _Loader, _ordinal
+from .loader import _axis, _bounded, _choice, _length, _Loader, _ordinal
 from .model import Design, Dial, Display, DriveInput, Hand, Where
 
 __all__ = [
@@ -89,18 +89,18 @@ def _hands(ld: _Loader, doc: dict[str, Any]) -> tuple[Hand, ...]:
         ctx = ("hand", i, item)
         ld.unknown_keys(t, _HAND_KEYS, ctx, required=("arbor",))
         arbor = ld.value(t, "arbor", "string", ctx, required=True)
-        length = ld.value(t, "length", "number", ctx, check=_bounded("size"))
-        tail = ld.value(t, "tail", "number", ctx, check=_bounded("size_or_zero"))
+        length = ld.value(t, "length", "length", ctx, check=_length("size"))
+        tail = ld.value(t, "tail", "length", ctx, check=_length("size_or_zero"))
         weight = ld.value(
             t,
             "counterweight",
-            "number",
+            "length",
             ctx,
             default=0.0,
-            check=_bounded("size_or_zero"),
+            check=_length("size_or_zero"),
         )
-        width = ld.value(t, "width", "number", ctx, check=_bounded("size"))
-        thickness = ld.value(t, "thickness", "number", ctx, check=_bounded("size"))
+        width = ld.value(t, "width", "length", ctx, check=_length("size"))
+        thickness = ld.value(t, "thickness", "length", ctx, check=_length("size"))
         seat = ld.value(
             t, "seat", "string", ctx, check=_choice("square", "flat", "collet")
         )
@@ -135,7 +135,7 @@ def _dials(ld: _Loader, doc: dict[str, Any]) -> tuple[Dial, ...]:
         ctx = ("dial", i, item)
         ld.unknown_keys(t, _DIAL_KEYS, ctx, required=("arbor",))
         arbor = ld.value(t, "arbor", "string", ctx, required=True)
-        radius = ld.value(t, "radius", "number", ctx, check=_bounded("size"))
+        radius = ld.value(t, "radius", "length", ctx, check=_length("size"))
         kind = ld.value(t, "graduations", "string", ctx, check=_choice(*GRADUATIONS))
         labels = _labels(ld, t, ctx)
         zero = ld.value(
@@ -213,12 +213,12 @@ def _display(ld: _Loader, doc: dict[str, Any]) -> Display:
         default=base.readings,
         check=_choice("targets", "none"),
     )
-    dial_gap = ld.value(t, "dial_gap", "number", ctx, check=_bounded("size"))
+    dial_gap = ld.value(t, "dial_gap", "length", ctx, check=_length("size"))
     hand_gap = ld.value(
-        t, "hand_gap", "number", ctx, default=base.hand_gap, check=_bounded("size")
+        t, "hand_gap", "length", ctx, default=base.hand_gap, check=_length("size")
     )
-    dial_t = ld.value(t, "dial_thickness", "number", ctx, check=_bounded("size"))
-    hand_t = ld.value(t, "hand_thickness", "number", ctx, check=_bounded("size"))
+    dial_t = ld.value(t, "dial_thickness", "length", ctx, check=_length("size"))
+    hand_t = ld.value(t, "hand_thickness", "length", ctx, check=_length("size"))
     return Display(readings, dial_gap, hand_gap, dial_t, hand_t)
 
 
@@ -232,8 +232,8 @@ def _input(ld: _Loader, doc: dict[str, Any]) -> DriveInput:
         t, "kind", "string", ctx, default="knob", check=_choice("knob", "crank", "none")
     )
     side = ld.value(t, "side", "string", ctx, check=_choice("front", "back"))
-    diameter = ld.value(t, "diameter", "number", ctx, check=_bounded("size"))
-    throw = ld.value(t, "throw", "number", ctx, check=_bounded("size"))
+    diameter = ld.value(t, "diameter", "length", ctx, check=_length("size"))
+    throw = ld.value(t, "throw", "length", ctx, check=_length("size"))
     if throw is not None and kind != "crank":
         ld.problem(
             ld.where("input", 0, "[input]", "throw"),

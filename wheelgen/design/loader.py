@@ -20,6 +20,7 @@ from pathlib import Path
 from typing import Any, Callable
 
 from .bounds import BOUNDS, Bound
+from .diametral_pitch import inch_rack, module_of_dp
 from .errors import DesignError, Problem
 from .model import (
     Arbor,
@@ -47,6 +48,7 @@ from .names import (
 from .periods import UNIT_SECONDS, PeriodError, parse_number, parse_period
 from .screws import SCREWS
 from .tooth_defaults import milled_root_radius, tooth_defaults
+from .units import LENGTH_FORMS, UNITS, LengthError, Units, parse_length
 
 __all__ = [
     "load_design",
@@ -98,17 +100,27 @@ _Check = Callable[[Any], str | None]
 
 class _Bounded:
     """A key's check from :data:`~wheelgen.design.bounds.BOUNDS`; keeps the bound for
-    its reason."""
+    its reason. A length's check also names the ways to write a length with a unit
+    (the bound is in mm whatever unit the file used)."""
 
-    def __init__(self, name: str) -> None:
+    def __init__(self, name: str, length: bool = False) -> None:
         self.bound: Bound = BOUNDS[name]
+        self.length = length
 
     def __call__(self, v: Any) -> str | None:
-        return self.bound.problem(v)
+        problem = self.bound.problem(v)
+        if problem is None or not self.length:
+            return problem
+        return f"{problem}, or the length as text with its unit: {LENGTH_FORMS}"
 
 
 def _bounded(name: str) -> _Check:
     return _Bounded(name)
+
+
+def _length(name: str) -> _Check:
+    """The check of a length key: its bound in mm, numbers or text with a unit."""
+    return _Bounded(name, length=True)
 
 
 def _title(v: Any) -> str | None:
@@ -160,6 +172,25 @@ def _choice(*options: str) -> _Check:
 
 def _finite_number(v: Any) -> bool:
     return isinstance(v, (int, float)) and not isinstance(v, bool) and math.isfinite(v)
+
+
+def _position(v: Any) -> float | None:
+    """A coordinate of a list (``at``, ``plates``, ``rectangle``, ``polygon``) in mm: a
+    number, or text with a unit; ``None`` when it is neither or out of bounds."""
+    if isinstance(v, str):
+        try:
+            v = float(parse_length(v))
+        except LengthError:
+            return None
+    if not _finite_number(v) or not BOUNDS["position"].holds(v):
+        return None
+    return float(v)
+
+
+#: How the coordinates of a list may be written, for messages.
+_COORDINATE = (
+    "each a number (mm) or text with its unit, " + BOUNDS["position"].allowed()
+)
 
 
 def _signed_area(pts: tuple[tuple[float, float], ...]) -> float:
@@ -224,22 +255,29 @@ WHEEL_KEYS: dict[str, tuple[Any, str, _Check | None]] = {
     "pressure_angle": (20.0, "number", _bounded("pressure_angle")),
     # None: by form, tooth count and process (design/tooth_defaults.py)
     "tooth_angle": (None, "number", _bounded("tooth_angle")),
-    "face_width": (3.0, "number", _bounded("size")),
+    "face_width": (3.0, "length", _length("size")),
     "shift": (0.0, "number", _bounded("shift")),
-    "backlash": (None, "number", _bounded("play")),
+    "backlash": (None, "length", _length("play")),
     "addendum": (None, "number", _bounded("addendum")),
     "dedendum": (None, "number", _bounded("dedendum")),
     "root_radius": (None, "number", _bounded("root_radius")),
     "tip_radius": (None, "number", _bounded("tip_radius")),
-    "bore": (None, "number", _bounded("size")),
+    "bore": (None, "length", _length("size")),
     "seat": ("round", "string", _choice("round", "square", "hex", "pinned")),
     "spokes": (0, "integer", _bounded("spokes")),
-    "rim": (None, "number", _bounded("size")),
-    "hub_diameter": (0.0, "number", _bounded("size_or_zero")),
-    "hub_length": (0.0, "number", _bounded("size_or_zero")),
+    "rim": (None, "length", _length("size")),
+    "hub_diameter": (0.0, "length", _length("size_or_zero")),
+    "hub_length": (0.0, "length", _length("size_or_zero")),
+    # None: a module wheel; a number makes the wheel a diametral-pitch wheel
+    "diametral_pitch": (None, "number", _bounded("diametral_pitch")),
 }
 #: What ``least_play`` (in [[mesh]] and [defaults]) accepts; "none" turns it off.
 LEAST_PLAY_CHOICES = ("backlash", "addendum", "none")
+#: What a wheel may give for the size of its teeth, for messages.
+_ONE_PITCH = (
+    "one of them: a module in mm, or a diametral pitch in teeth per inch (the "
+    "module is then 25.4 / diametral_pitch)"
+)
 # Wheel field names that differ from the file's keys.
 _WHEEL_FIELD = {
     "pressure_angle": "pressure_angle_deg",
@@ -261,15 +299,15 @@ FRAME_KEYS = (
 )
 
 PROCESS_KEYS: dict[str, tuple[str, _Check | None]] = {
-    "nozzle": ("number", _bounded("nozzle")),
-    "layer": ("number", _bounded("layer")),
-    "clearance": ("number", _bounded("play")),
-    "cutter": ("number", _bounded("cutter")),
+    "nozzle": ("length", _length("nozzle")),
+    "layer": ("length", _length("layer")),
+    "clearance": ("length", _length("play")),
+    "cutter": ("length", _length("cutter")),
     "fit": ("string", None),
-    "min_wall": ("number", _bounded("size")),
+    "min_wall": ("length", _length("size")),
     "min_module_hand": ("number", _bounded("module")),
-    "min_backlash": ("number", _bounded("play")),
-    "centre_tolerance": ("number", _bounded("centre_tolerance")),
+    "min_backlash": ("length", _length("play")),
+    "centre_tolerance": ("length", _length("centre_tolerance")),
     "min_layers": ("integer", _bounded("min_layers")),
 }
 
@@ -328,6 +366,7 @@ def _type_name(v: Any) -> str:
 
 _KIND_PHRASE = {
     "number": "a number",
+    "length": f"a number (mm) or text with its unit: {LENGTH_FORMS}",
     "integer": "a whole number",
     "string": "text in quotes",
     "bool": "true or false",
@@ -392,6 +431,13 @@ class _Lines:
         return block[0] if block else None
 
 
+def _pitch_words(wheel: Wheel) -> str:
+    """``wheel "a" (module 1 mm)`` or ``wheel "b" (32 diametral pitch)``."""
+    if wheel.diametral_pitch is None:
+        return f"wheel {_show(wheel.name)} (module {wheel.module:g} mm)"
+    return f"wheel {_show(wheel.name)} ({wheel.diametral_pitch:g} diametral pitch)"
+
+
 def _axis(by_arbor: dict[str, Arbor], name: str) -> str:
     """The innermost member of the coaxial group of arbor ``name`` (no cycles left)."""
     return axis_root_of(by_arbor, name)
@@ -411,6 +457,7 @@ class _Loader:
             "pinslot": set(),
         }
         self.arbor_tables = 0  # how many [[arbor]] tables the file has, broken or not
+        self.units: Units = "mm"  # [design] units: what the sheets are written in
         self.left_out = 0  # problems found after the first _PROBLEMS_SHOWN
 
     # -- reporting -------------------------------------------------------------------
@@ -473,8 +520,20 @@ class _Loader:
             return default
         v = data[key]
         w = self.where(table, index, item, key)
+        shown = f"{key} = {_show(v)}"
+        if kind == "length" and isinstance(v, str):
+            try:
+                mm = parse_length(v)
+            except LengthError as exc:
+                self.problem(w, f"{shown}: {exc}", _expected(kind, check))
+                return default
+            # read exactly, then the nearest float: "1/8 in" and 3.175 are one number
+            v = float(mm)
+            shown += f" ({v:g} mm)"
+            kind = "number"
         ok = {
             "number": isinstance(v, (int, float)) and not isinstance(v, bool),
+            "length": isinstance(v, (int, float)) and not isinstance(v, bool),
             "integer": isinstance(v, int) and not isinstance(v, bool),
             "string": isinstance(v, str),
             "bool": isinstance(v, bool),
@@ -486,7 +545,7 @@ class _Loader:
                 w, f"{key} = {_show(v)} ({_type_name(v)})", _expected(kind, check)
             )
             return default
-        if kind == "number":
+        if kind in ("number", "length"):
             try:
                 v = float(v)
             except OverflowError:  # an integer of hundreds of digits
@@ -504,7 +563,7 @@ class _Loader:
         if check is not None:
             allowed = check(v)
             if allowed:
-                self.problem(w, f"{key} = {_show(v)}", allowed, _reason(check))
+                self.problem(w, shown, allowed, _reason(check))
                 return default
         return v
 
@@ -676,6 +735,7 @@ class _Loader:
             drive_input=drive_input,
             source=self.file,
             sha256=hashlib.sha256(self.text.encode("utf-8")).hexdigest(),
+            units=self.units,
         )
         check_display_references(self, design)
         if self.problems:
@@ -748,7 +808,7 @@ class _Loader:
         if t is None:
             return "", "mill"
         ctx = ("design", 0, "[design]")
-        self.unknown_keys(t, ("title", "process"), ctx, required=("title",))
+        self.unknown_keys(t, ("title", "process", "units"), ctx, required=("title",))
         title = self.value(
             t, "title", "string", ctx, required=True, default="", check=_title
         )
@@ -759,6 +819,9 @@ class _Loader:
             ctx,
             default="mill",
             check=_choice("print", "mill", "hand"),
+        )
+        self.units = self.value(
+            t, "units", "string", ctx, default="mm", check=_choice(*UNITS)
         )
         return title, process
 
@@ -774,6 +837,12 @@ class _Loader:
         out["least_play"] = self.value(
             t, "least_play", "string", ctx, check=_choice(*LEAST_PLAY_CHOICES)
         )
+        if {"module", "diametral_pitch"} <= set(t):
+            self.problem(
+                self.where("defaults", 0, "[defaults]", "diametral_pitch"),
+                "both 'module' and 'diametral_pitch'",
+                _ONE_PITCH,
+            )
         return out
 
     def process_table(self, doc: dict[str, Any], kind: str) -> Process:
@@ -813,20 +882,20 @@ class _Loader:
                 "[back, front] with front > back (mm)",
             )
         thickness = self.value(
-            t, "thickness", "number", ctx, default=2.0, check=_bounded("size")
+            t, "thickness", "length", ctx, default=2.0, check=_length("size")
         )
-        margin = self.value(t, "margin", "number", ctx, check=_bounded("size_or_zero"))
+        margin = self.value(t, "margin", "length", ctx, check=_length("size_or_zero"))
         clearance = self.value(
-            t, "clearance", "number", ctx, check=_bounded("size_or_zero")
+            t, "clearance", "length", ctx, check=_length("size_or_zero")
         )
         corner = self.value(
-            t, "corner", "number", ctx, default=3.0, check=_bounded("size_or_zero")
+            t, "corner", "length", ctx, default=3.0, check=_length("size_or_zero")
         )
         pillars = self.value(
             t, "pillars", "integer", ctx, default=4, check=_bounded("pillars")
         )
         pillar_d = self.value(
-            t, "pillar_diameter", "number", ctx, check=_bounded("size")
+            t, "pillar_diameter", "length", ctx, check=_length("size")
         )
         screw = self.value(
             t, "screw", "string", ctx, default="M3", check=_choice(*SCREWS)
@@ -860,19 +929,15 @@ class _Loader:
             return None
         v = t["rectangle"]
         allowed = (
-            "four numbers [x0, y0, x1, y1] (mm) with x1 > x0 and y1 > y0, each "
-            + BOUNDS["position"].allowed()
+            "four lengths [x0, y0, x1, y1] with x1 > x0 and y1 > y0, " + _COORDINATE
         )
-        if not (
-            isinstance(v, list)
-            and len(v) == 4
-            and all(_finite_number(x) and BOUNDS["position"].holds(x) for x in v)
-        ):
+        values = [_position(x) for x in v] if isinstance(v, list) else []
+        if len(values) != 4 or None in values:
             self.problem(
                 self.where(*ctx, "rectangle"), f"rectangle = {_show(v)}", allowed
             )
             return None
-        x0, y0, x1, y1 = (float(x) for x in v)
+        x0, y0, x1, y1 = (float(x) for x in values if x is not None)
         if x1 <= x0 or y1 <= y0:
             self.problem(
                 self.where(*ctx, "rectangle"), f"rectangle = {_show(v)}", allowed
@@ -886,26 +951,21 @@ class _Loader:
         if "polygon" not in t:
             return None
         v = t["polygon"]
-        corners, position = BOUNDS["frame_corners"], BOUNDS["position"]
+        corners = BOUNDS["frame_corners"]
         allowed = (
             f"a list of at least {int(corners.low)} corners [[x, y], ...] (at most "
-            f"{int(corners.high)}; mm, each {position.allowed()}) that do not cross, "
-            "such as"
+            f"{int(corners.high)}; {_COORDINATE}) that do not cross, such as"
             " [[-50, -40], [60, -40], [60, 50], [-50, 50]]"
         )
-        if not (
-            isinstance(v, list)
-            and corners.holds(len(v))
-            and all(
-                isinstance(p, list)
-                and len(p) == 2
-                and all(_finite_number(x) and position.holds(x) for x in p)
-                for p in v
-            )
-        ):
+        points = (
+            [[_position(x) for x in p] if isinstance(p, list) else [None] for p in v]
+            if isinstance(v, list) and corners.holds(len(v))
+            else [[None]]
+        )
+        if not all(len(p) == 2 and None not in p for p in points):
             self.problem(self.where(*ctx, "polygon"), f"polygon = {_show(v)}", allowed)
             return None
-        pts = tuple((float(p[0]), float(p[1])) for p in v)
+        pts = tuple((float(p[0] or 0.0), float(p[1] or 0.0)) for p in points)
         if _crosses_itself(pts) or abs(_signed_area(pts)) < 1e-9:
             self.problem(
                 self.where(*ctx, "polygon"),
@@ -957,23 +1017,19 @@ class _Loader:
         if key not in t:
             return default
         v = t[key]
-        position = BOUNDS["position"]
-        if (
-            not isinstance(v, list)
-            or len(v) != 2
-            or not all(isinstance(x, (int, float)) and position.holds(x) for x in v)
-        ):
+        values = [_position(x) for x in v] if isinstance(v, list) else []
+        if len(values) != 2 or None in values:
             self.problem(
                 self.where(ctx[0], ctx[1], ctx[2], key),
                 f"{key} = {_show(v)}",
-                "two numbers in brackets, such as [0.0, 40.0], each "
-                + position.allowed(),
+                'two lengths in brackets, such as [0.0, 40.0] or ["0 in", "1.5 in"], '
+                + _COORDINATE,
                 _reason(_bounded("position"))
                 if isinstance(v, list) and len(v) == 2
                 else "",
             )
             return default
-        return (float(v[0]), float(v[1]))
+        return (float(values[0] or 0.0), float(values[1] or 0.0))
 
     def drive_table(self, doc: dict[str, Any]) -> Drive | None:
         t = self.table(doc, "drive", required=True)
@@ -1033,7 +1089,7 @@ class _Loader:
             self.unknown_keys(t, known, ctx, required=("name",))
             at = self.pair_of_numbers(t, "at", ctx)
             diameter = self.value(
-                t, "diameter", "number", ctx, default=3.0, check=_bounded("size")
+                t, "diameter", "length", ctx, default=3.0, check=_length("size")
             )
             around = self.value(t, "around", "string", ctx)
             fixed = self.value(t, "fixed", "bool", ctx, default=False)
@@ -1104,7 +1160,7 @@ class _Loader:
                 ),
             )
             height = self.value(
-                t, "height", "number", ctx, default=0.0, check=_bounded("position")
+                t, "height", "length", ctx, default=0.0, check=_length("position")
             )
             fields: dict[str, Any] = {}
             for key, (_, kind, check) in WHEEL_KEYS.items():
@@ -1120,6 +1176,7 @@ class _Loader:
                 if fields[field_name] is None and default is not None:
                     fields[field_name] = default
             given = fields["root_radius"]
+            self.pitch(t, fields, ctx)
             by_form = tooth_defaults(fields["form"], teeth, fields["module"], proc)
             for field_name, value in by_form.items():
                 if fields[field_name] is None:
@@ -1149,6 +1206,36 @@ class _Loader:
                 )
             )
         return out
+
+    def pitch(
+        self, t: dict[str, Any], fields: dict[str, Any], ctx: tuple[str, int, str]
+    ) -> None:
+        """Settle a wheel's module or diametral pitch, and a DP wheel's proportions.
+
+        The wheel's own ``module`` or ``diametral_pitch`` wins over ``[defaults]``'s.
+        A diametral pitch P gives the module 25.4 / P mm and, for involute teeth, the
+        inch standard's dedendum and rack tip radius where neither the wheel nor
+        ``[defaults]`` sets them (:func:`~wheelgen.design.diametral_pitch.inch_rack`).
+        """
+        own = [k for k in ("module", "diametral_pitch") if k in t]
+        if len(own) == 2:
+            self.problem(
+                self.where(*ctx, "diametral_pitch"),
+                "both 'module' and 'diametral_pitch'",
+                _ONE_PITCH,
+            )
+        if own[:1] == ["module"]:
+            fields["diametral_pitch"] = None
+        dp = fields["diametral_pitch"]
+        if dp is None:
+            return
+        fields["module"] = module_of_dp(dp)
+        if fields["form"] != "involute":
+            return
+        rack = inch_rack(dp, fields["pressure_angle_deg"])
+        for key in ("dedendum", "root_radius"):
+            if fields[key] is None:  # set by neither the wheel nor [defaults]
+                fields[key] = getattr(rack, key)
 
     def wheel_fits(
         self, fields: dict[str, Any], teeth: int, ctx: tuple[str, int, str]
@@ -1247,21 +1334,21 @@ class _Loader:
             pin = self.value(t, "pin", "string", ctx, required=True)
             slot = self.value(t, "slot", "string", ctx, required=True)
             radius = self.value(
-                t, "radius", "number", ctx, required=True, check=_bounded("size")
+                t, "radius", "length", ctx, required=True, check=_length("size")
             )
             offset = self.value(
                 t,
                 "offset",
-                "number",
+                "length",
                 ctx,
                 required=True,
-                check=_bounded("size_or_zero"),
+                check=_length("size_or_zero"),
             )
             bearing = self.value(
                 t, "bearing", "number", ctx, default=0.0, check=_bounded("bearing")
             )
             pin_d = self.value(
-                t, "pin_diameter", "number", ctx, default=1.0, check=_bounded("size")
+                t, "pin_diameter", "length", ctx, default=1.0, check=_length("size")
             )
             part = self.value(
                 t,
@@ -1429,12 +1516,12 @@ class _Loader:
                 check=_choice("tube", "bush", "bearing"),
             )
             outside = self.value(
-                t, "outside", "number", ctx, required=True, check=_bounded("size")
+                t, "outside", "length", ctx, required=True, check=_length("size")
             )
             inside = self.value(
-                t, "inside", "number", ctx, required=True, check=_bounded("size")
+                t, "inside", "length", ctx, required=True, check=_length("size")
             )
-            width = self.value(t, "width", "number", ctx, check=_bounded("size"))
+            width = self.value(t, "width", "length", ctx, check=_length("size"))
             if kind in ("bush", "bearing") and width is None and "width" not in t:
                 self.problem(
                     self.where("stock", i, item, "width"),
@@ -1631,6 +1718,15 @@ class _Loader:
                     self.at_key(m.where, "pair"),
                     f'arbors "{arbor_a}" and "{arbor_b}" share one axis (one is a sleeve around the other)',
                     "wheels on arbors with different axes",
+                )
+        for m in meshes:
+            wa, wb = (by_wheel[n] for n in m.pair)
+            if (wa.diametral_pitch is None) != (wb.diametral_pitch is None):
+                self.problem(
+                    self.at_key(m.where, "pair"),
+                    f"{_pitch_words(wa)} meshes with {_pitch_words(wb)}",
+                    "two wheels of one system: both cut to a module or both to a "
+                    "diametral pitch (their tooth proportions differ)",
                 )
         for p in pinslots:
             if by_wheel[p.pin].arbor == by_wheel[p.slot].arbor:

@@ -12,6 +12,8 @@ from dataclasses import dataclass, field
 from fractions import Fraction
 from typing import Literal
 
+from .units import Units
+
 __all__ = [
     "Where",
     "Process",
@@ -186,7 +188,11 @@ def axis_root_of(arbors: Mapping[str, Arbor], name: str) -> str:
 
 @dataclass(frozen=True, slots=True)
 class Wheel:
-    """One wheel on one arbor; module and face width in mm, angles in degrees."""
+    """One wheel on one arbor; module and face width in mm, angles in degrees.
+
+    A wheel cut to a diametral pitch keeps it in ``diametral_pitch`` (teeth per inch);
+    its ``module`` is then 25.4 / that, and its proportions the inch standard's.
+    """
 
     name: str
     arbor: str
@@ -214,6 +220,9 @@ class Wheel:
     hub_diameter: float = 0.0  # 0 = no hub boss
     hub_length: float = 0.0
     where: Where | None = field(default=None, compare=False, repr=False)
+    # teeth per inch when the wheel is cut to a diametral pitch (module = 25.4 / it,
+    # inch tooth proportions); None for a module wheel
+    diametral_pitch: float | None = None
 
     @property
     def pitch_diameter(self) -> float:
@@ -398,6 +407,7 @@ class Design:
     drive_input: DriveInput = DriveInput()
     source: str = ""  # path of the file it came from
     sha256: str = ""  # of the file's bytes
+    units: Units = "mm"  # what the sheets and drawings are written in
     # Look-ups by name, made once: every layer asks for arbors and wheels by name, and
     # a linear search per question made large trains quadratic.
     _by: _Lookup = field(init=False, repr=False, compare=False)

@@ -87,6 +87,7 @@ class GearData:
     blank_diameter: float
     depth_of_cut: float
     warnings: tuple[str, ...]
+    diametral_pitch: float | None = None  # teeth per inch, for a DP wheel
 
     def as_dict(self) -> dict[str, object]:
         """Plain dict (for JSON)."""
@@ -295,6 +296,7 @@ def gear_data(spec: ToothSpec, pin_diameter: float | None = None) -> GearData:
         blank_diameter=2 * gen.blank_tip_radius,
         depth_of_cut=gen.blank_tip_radius - gen.root_radius,
         warnings=tuple(warnings),
+        diametral_pitch=spec.diametral_pitch,
     )
 
 
@@ -331,4 +333,5 @@ def _triangular_data(spec: ToothSpec) -> GearData:
         blank_diameter=tri.blank_diameter,
         depth_of_cut=tri.cutter_depth,
         warnings=tri.warnings,
+        diametral_pitch=spec.diametral_pitch,
     )

@@ -38,6 +38,9 @@ class ToothSpec:
     root_radius: float = 0.38  # x module: rack tip radius (involute) / root rounding
     tip_radius: float = 0.0  # x module: tip rounding (triangular)
     thinning: float = 0.0  # mm: tooth thickness removed at the reference circle
+    # teeth per inch when the wheel is cut to a diametral pitch (the module is then
+    # 25.4 / it); None for a module wheel. It names the cutter; the shape is the rest.
+    diametral_pitch: float | None = None
 
     def __post_init__(self) -> None:
         if isinstance(self.teeth, bool) or int(self.teeth) != self.teeth:
@@ -75,6 +78,14 @@ class ToothSpec:
             )
         if not (math.isfinite(self.thinning) and self.thinning >= 0):
             raise ValueError(f"'thinning' must be >= 0 mm, got {self.thinning}")
+        dp = self.diametral_pitch
+        if dp is not None and not (
+            math.isfinite(dp) and dp > 0 and math.isclose(self.module * dp, 25.4)
+        ):
+            raise ValueError(
+                f"'diametral_pitch' {dp} does not give module {self.module} mm "
+                "(module = 25.4 / diametral pitch)"
+            )
 
     @property
     def reference_diameter(self) -> float:
