@@ -12,7 +12,9 @@ from pathlib import Path
 import click
 
 from ..checks import analyse
+from ..design.diametral_pitch import module_of_dp
 from ..design.loader import MAX_TEETH, MIN_TEETH, loads_design
+from ..design.units import MM, UNITS, Lengths
 from ..kinematics.continued_fraction import prime_factors
 from ..kinematics.ratio_search import (
     MAX_HEAD_RATIO,
@@ -43,6 +45,7 @@ from ..layout.train_fit import TrainFit, fit_train, shift_reach
 from ..workshop.indexing import crank_settings
 from ..workshop.plates import PLATE_SETS, plate_set
 from ._common import EXIT_FINDINGS, EXIT_OK, echo_json, fail
+from ._options import Bounded, Length
 
 __all__ = ["ratio_command", "DEFAULT_TOLERANCE_PPM", "parse_teeth"]
 
@@ -189,7 +192,12 @@ def _candidate(
 
 
 def _advice(
-    rel: list[Relaxation], limits: Limits, module: float, diameter_bound: bool
+    rel: list[Relaxation],
+    limits: Limits,
+    module: float,
+    diameter_bound: bool,
+    size: str = "",
+    lengths: Lengths = MM,
 ) -> list[str]:
     lines = []
     for r in rel:
@@ -210,7 +218,9 @@ def _advice(
             )
             if diameter_bound and isinstance(r.value, int):
                 need = module * (r.value + 2)
-                hint += f"; at module {module:g} that needs --max-diameter {need:g} mm"
+                at = size or f"module {module:g}"
+                bound = f"{lengths.short(need)}in" if lengths.inches else f"{need:g} mm"
+                hint += f"; at {at} that needs --max-diameter {bound}"
             lines.append(hint)
         elif r.limit == "max_teeth_total":
             lines.append(f"raise the tooth total to {r.value} (--max-total {r.value})")
@@ -340,10 +350,24 @@ def _too_large(exc: SearchTooLarge, limits: Limits) -> str:
 @click.option(
     "--module",
     type=float,
-    default=1.0,
-    show_default=True,
+    default=None,
     help=f"Module in mm ({MIN_MODULE:g} to {MAX_MODULE:g}), for --max-diameter, the "
-    "layout and --write.",
+    "layout and --write.  [default: 1]",
+)
+@click.option(
+    "--dp",
+    "dp",
+    type=Bounded("diametral_pitch"),
+    default=None,
+    help="Diametral pitch (teeth per inch) instead of --module, for every stage: "
+    "the module is 25.4/DP, the teeth take the inch proportions, --write writes "
+    "'diametral_pitch' and a design in inches, and sizes are shown in inches.",
+)
+@click.option(
+    "--units",
+    type=click.Choice(UNITS),
+    default=None,
+    help="Units of the sizes shown.  [default: in with --dp, else mm]",
 )
 @click.option(
     "--stage-module",
@@ -355,9 +379,10 @@ def _too_large(exc: SearchTooLarge, limits: Limits) -> str:
 )
 @click.option(
     "--max-diameter",
-    type=float,
+    type=Length("wheel_diameter"),
     default=None,
-    help="Largest tip diameter m(z+2) in mm; limits the tooth counts.",
+    help="Largest tip diameter m(z+2), mm or with a unit ('2.5in'); limits the tooth "
+    "counts.",
 )
 @click.option(
     "--max-total",
@@ -410,7 +435,9 @@ def ratio_command(
     stages: int | None,
     coaxial: bool,
     max_shift: float,
-    module: float,
+    module: float | None,
+    dp: float | None,
+    units: str | None,
     stage_modules: tuple[float, ...],
     max_diameter: float | None,
     max_total: int | None,
@@ -450,8 +477,15 @@ def ratio_command(
         goal = parse_target(" ".join(target))
     except ValueError as exc:
         fail(str(exc))
+    if dp is not None and (module is not None or stage_modules):
+        fail(
+            "give the tooth size as --module (and --stage-module) or as --dp, not both"
+        )
+    lengths = Lengths("in" if units is None and dp is not None else units or "mm")
+    size = "" if dp is None else f"{dp:g} DP"
+    module = module_of_dp(dp) if dp is not None else module
     try:
-        module = _module(module, "--module")
+        module = _module(1.0 if module is None else module, "--module")
         modules_in = tuple(_module(m, "--stage-module") for m in stage_modules)
         if not (math.isfinite(max_shift) and 0 <= max_shift <= MAX_SHIFT_SUM):
             raise click.BadParameter(
@@ -549,14 +583,18 @@ def ratio_command(
     # only trains within the tolerance are offered when there are any, and of those
     # the ones that can be built as laid out come first
     found = [t for t in found if within(t)] or found
-    fits = {id(t): fit_train(t, modules[: len(t.stages)]) for t in found}
+    fits = {
+        id(t): fit_train(t, modules[: len(t.stages)], diametral_pitch=dp) for t in found
+    }
     found.sort(key=lambda t: (not within(t), not fits[id(t)].fits))
     pool_sorted, found = found, found[:top]
     ok = bool(found) and within(found[0])
     if as_json:
         echo_json([_candidate(t, fits[id(t)], goal, tol_ppm) for t in found])
     else:
-        _print_table(goal, limits, found, exact, fits, tol_ppm, filters, modules)
+        _print_table(
+            goal, limits, found, exact, fits, tol_ppm, filters, modules, size, lengths
+        )
     if not found:
         click.echo(
             "wheelgen: no train fits these limits at all (check --max-total and "
@@ -565,7 +603,10 @@ def ratio_command(
         )
         sys.exit(EXIT_FINDINGS)
     if not ok:
-        _report_miss(goal, limits, found[0], tol, tol_ppm, module, filters, max_shift)
+        _report_miss(
+            goal, limits, found[0], tol, tol_ppm, module, filters, max_shift,
+            size, lengths, dp,
+        )  # fmt: skip
         if write_path is not None:
             click.echo(
                 f"wheelgen: {write_path} not written (nothing within tolerance)",
@@ -588,6 +629,9 @@ def _report_miss(
     module: float,
     filters: list[str],
     max_shift: float,
+    size: str = "",
+    lengths: Lengths = MM,
+    dp: float | None = None,
 ) -> None:
     click.echo(
         f"wheelgen: nothing within {float(tol_ppm):g} ppm; the closest is "
@@ -608,10 +652,15 @@ def _report_miss(
         except (ValueError, IndexError):
             train = None
         if train is not None and abs(train.error) <= tol and train.spread > 0:
-            fit = fit_train(train, tuple(float(m) for m in limits.coaxial.modules))
+            fit = fit_train(
+                train,
+                tuple(float(m) for m in limits.coaxial.modules),
+                diametral_pitch=dp,
+            )
             need = math.ceil(sum(x for _, x in fit.shifts) * 100) / 100
             rel.append(Relaxation("shift", f"{need:g}", train))
-    for line in _advice(rel, limits, module, any("max-diameter" in f for f in filters)):
+    diameter_bound = any("max-diameter" in f for f in filters)
+    for line in _advice(rel, limits, module, diameter_bound, size, lengths):
         click.echo(f"  - {line}", err=True)
     click.echo(
         f"  - or accept the closest: --tolerance {abs(best.error_ppm):.4g}ppm",
@@ -679,6 +728,8 @@ def _print_table(
     tol_ppm: Fraction,
     filters: list[str],
     modules: tuple[float, ...],
+    size: str = "",
+    lengths: Lengths = MM,
 ) -> None:
     kind = "exact" if goal.exact else "measured"
     click.echo(
@@ -698,7 +749,7 @@ def _print_table(
         shape = f"1 to {limits.stages} stages"
     mods = " / ".join(f"{m:g}" for m in dict.fromkeys(modules))
     click.echo(
-        f"{teeth}; {shape}, module {mods} mm, sense {limits.sense}, "
+        f"{teeth}; {shape}, {size or f'module {mods} mm'}, sense {limits.sense}, "
         f"tolerance {float(tol_ppm):g} ppm"
     )
     if goal.exact:
@@ -714,19 +765,26 @@ def _print_table(
     head = f"{'#':>3}  {'stages (driver/driven)':<36} {'ratio':>22} {'error ppm':>12}"
     if drift:
         head += f" {'deg/yr':>10}"
-    click.echo(head + f" {'wheels':>6} {'teeth':>6} {'tip dia':>8}  layout")
+    tip = f"tip {lengths.unit}" if lengths.inches else "tip dia"
+    click.echo(head + f" {'wheels':>6} {'teeth':>6} {tip:>8}  layout")
     for n, t in enumerate(found, 1):
         fit = fits[id(t)]
         line = f"{n:>3}  {_stages_text(t):<36} {str(t.ratio):>22} {t.error_ppm:>+12.5g}"
         if drift:
             line += f" {goal.drift_deg_per_yr(t.ratio):>+10.4g}"
-        line += f" {t.wheels:>6} {t.teeth_total:>6} {fit.largest_diameter:>8.4g}"
+        tip = (
+            lengths.num(fit.largest_diameter)
+            if lengths.inches
+            else f"{fit.largest_diameter:.4g}"
+        )
+        line += f" {t.wheels:>6} {t.teeth_total:>6} {tip:>8}"
         click.echo(line + f"  {_problem_text(fit)}")
         if fit.shifts:
             shifts = ", ".join(f"{w} {x:+g}" for w, x in fit.shifts)
             assert t.centre is not None
             click.echo(
-                f"{'':5}profile shift {shifts}: both stages at {float(t.centre):g} mm"
+                f"{'':5}profile shift {shifts}: both stages at "
+                f"{lengths.text(float(t.centre)) if lengths.inches else f'{float(t.centre):g} mm'}"
             )
 
 

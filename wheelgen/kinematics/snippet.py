@@ -69,7 +69,9 @@ class TrainPlan:
     """Everything the snippet says about where the parts go (mm and degrees).
 
     ``module`` goes into ``[defaults]`` (wheels whose module differs carry their own);
-    ``plates`` are the inner faces of the back and front plate.
+    ``plates`` are the inner faces of the back and front plate. A train cut to a
+    ``diametral_pitch`` (teeth per inch) has it in ``[defaults]`` instead of the
+    module (which is then 25.4 / it for every wheel), and lengths written in inches.
     """
 
     module: float
@@ -78,6 +80,7 @@ class TrainPlan:
     arbors: tuple[PlannedArbor, ...]
     wheels: tuple[PlannedWheel, ...]
     meshes: tuple[PlannedMesh, ...]
+    diametral_pitch: float | None = None
 
 
 def arbor_names(train: Train) -> list[str]:
@@ -149,9 +152,14 @@ def train_snippet(
         "",
         "[design]",
         f"title = {_toml_string(title)}",
+        *(['units = "in"'] if plan.diametral_pitch is not None else []),
         "",
         "[defaults]",
-        f"module = {_number(plan.module)}",
+        (
+            f"module = {_number(plan.module)}"
+            if plan.diametral_pitch is None
+            else f"diametral_pitch = {_number(plan.diametral_pitch)}"
+        ),
         f"face_width = {_number(plan.face_width)}",
         "",
         "[frame]",

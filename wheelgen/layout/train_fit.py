@@ -35,6 +35,7 @@ from functools import lru_cache
 import numpy as np
 
 from ..checks.findings import Finding
+from ..design.diametral_pitch import module_of_dp
 from ..design.loader import loads_design
 from ..design.model import Design
 from ..kinematics.ratio_search import Train
@@ -158,12 +159,16 @@ def plan_train(
     train: Train,
     modules: tuple[float, ...] | float = 1.0,
     face_width: float = FACE_WIDTH,
+    diametral_pitch: float | None = None,
 ) -> TrainPlan:
     """Heights, modules, profile shifts, arbors and mesh bearings of ``train``.
 
     ``modules`` in mm: one for every stage, or a tuple with one per stage (the idler
-    takes the last stage's). See the module docstring for the rules.
+    takes the last stage's). A train cut to a ``diametral_pitch`` (teeth per inch)
+    has the module 25.4 / it on every stage. See the module docstring for the rules.
     """
+    if diametral_pitch is not None:
+        modules = module_of_dp(diametral_pitch)
     k = len(train.stages)
     if isinstance(modules, (int, float)):
         modules = (float(modules),) * k
@@ -204,7 +209,13 @@ def plan_train(
         )
         meshes = _bearings(train, wheels)
     return TrainPlan(
-        float(modules[0]), face_width, (0.0, front), arbors, wheels, meshes
+        float(modules[0]),
+        face_width,
+        (0.0, front),
+        arbors,
+        wheels,
+        meshes,
+        diametral_pitch,
     )
 
 
@@ -322,9 +333,10 @@ def fit_train(
     train: Train,
     modules: tuple[float, ...] | float = 1.0,
     face_width: float = FACE_WIDTH,
+    diametral_pitch: float | None = None,
 ) -> TrainFit:
     """Lay ``train`` out (:func:`plan_train`) and run the layout check on it."""
-    plan = plan_train(train, modules, face_width)
+    plan = plan_train(train, modules, face_width, diametral_pitch)
     design = design_of(plan)
     problems = tuple(f for f in layout_findings(design, None) if f.level == "error")
     layout = plan_layout(design)
