@@ -6,6 +6,7 @@ module (and ``wheelgen --help``) starts without cadquery.
 
 from __future__ import annotations
 
+import dataclasses
 import errno
 import signal
 import sys
@@ -14,6 +15,7 @@ from typing import Any
 
 import click
 
+from ..design.units import UNITS
 from ..export.build import DXF_CURVES
 from ._common import (
     DEFAULT_DESIGN,
@@ -92,6 +94,13 @@ def _parse_formats(text: str) -> tuple[str, ...]:
     "--tolerance, for laser and router programs that cannot read splines).",
 )
 @click.option(
+    "--units",
+    type=click.Choice(UNITS),
+    default=None,
+    help="Units of the sheets, the drawings' labels and the DXF files (the parts are "
+    "the same size either way).  [default: the design's [design] units, else mm]",
+)
+@click.option(
     "--no-cache",
     is_flag=True,
     help="Rebuild every part; do not read or write the part cache.",
@@ -110,6 +119,7 @@ def build_command(
     force: bool,
     tolerance: float,
     dxf_curves: str,
+    units: str | None,
     no_cache: bool,
     as_json: bool,
 ) -> None:
@@ -130,7 +140,9 @@ def build_command(
     with drawings, findings, motion, an animated preview and the size of every
     file), and manifest.json with the SHA-256 and size of each file. DXF files hold
     the outline, bore, windows, slots, pin holes and holes for carried arbors as cut
-    lines, and the marks of pins and hub bosses, each on its own layer.
+    lines, and the marks of pins and hub bosses, each on its own layer. The sheets,
+    the labels of the drawings and the DXF files are in the design's units
+    ([design] units, or --units): millimetres, or inches.
     Everything is written to a staging folder first and moved into place only when
     all of it succeeded. The output folder is replaced only if wheelgen wrote it (its
     .wheelgen-build marker and manifest.json list every file in it, unchanged); a
@@ -154,6 +166,8 @@ def build_command(
 
     fmt = _parse_formats(formats)
     d = load_or_exit(design)
+    if units is not None and units != d.units:
+        d = dataclasses.replace(d, units=units)  # the sheets follow --units too
     options = BuildOptions(
         formats=fmt,
         jobs=jobs,
@@ -161,6 +175,7 @@ def build_command(
         use_cache=not no_cache,
         mesh_tolerance=tolerance,
         dxf_curves=dxf_curves,
+        units=units,
     )
     out_dir = Path(output) if output else None
     stopped, previous = _stop_on_sigterm()

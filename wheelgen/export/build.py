@@ -36,6 +36,7 @@ from typing import Any
 from .. import __version__
 from ..design.bounds import BOUNDS
 from ..design.names import name_key
+from ..design.units import UNITS
 from ..layout.part_plan import BOUGHT_KINDS, DISPLAY_KINDS, FLAT_KINDS
 from . import sheets
 from .cache import CacheUnusable, DamagedEntry, PartCache, cache_root_for, part_key
@@ -96,7 +97,9 @@ class BuildOptions:
     """How to build: formats, jobs, force past errors, cache, mesh tolerance (mm).
 
     ``dxf_curves`` says how DXF files draw curves: ``"splines"`` (control and fit
-    points) or ``"arcs"`` (lines and arcs only, within ``mesh_tolerance``).
+    points) or ``"arcs"`` (lines and arcs only, within ``mesh_tolerance``). ``units``
+    is what the sheets, the drawings' labels and the DXF files are written in
+    (``"mm"`` or ``"in"``); ``None`` takes the design's (``[design] units``).
     """
 
     formats: tuple[str, ...] = FORMATS
@@ -105,6 +108,7 @@ class BuildOptions:
     use_cache: bool = True
     mesh_tolerance: float = 0.01
     dxf_curves: str = "splines"
+    units: str | None = None
 
     def __post_init__(self) -> None:
         bad = [f for f in self.formats if f not in FORMATS]
@@ -124,6 +128,10 @@ class BuildOptions:
                 f"'dxf_curves' must be one of {', '.join(DXF_CURVES)},"
                 f" got {self.dxf_curves!r}"
             )
+        if self.units is not None and self.units not in UNITS:
+            raise ValueError(
+                f"'units' must be one of {', '.join(UNITS)} or None, got {self.units!r}"
+            )
 
     def key_options(self) -> dict[str, Any]:
         """The options that decide a part's bytes (part of its cache key)."""
@@ -132,6 +140,7 @@ class BuildOptions:
             "mesh_tolerance": self.mesh_tolerance,
             "mesh_angle_deg": _MESH_ANGLE_DEG,
             "dxf_curves": self.dxf_curves,
+            "units": self.units or "mm",
         }
 
 
@@ -184,11 +193,16 @@ class _PartWork:
     """One part's solid, mesh and flat profile, each made on first use."""
 
     def __init__(
-        self, part: Any, tolerance: float, dxf_curves: str = "splines"
+        self,
+        part: Any,
+        tolerance: float,
+        dxf_curves: str = "splines",
+        units: str = "mm",
     ) -> None:
         self.part = part
         self.tolerance = tolerance
         self.dxf_curves = dxf_curves
+        self.units = units
         self._solid: Any = None
         self._mesh: Any = None
         self._profile: Any = None
@@ -268,7 +282,7 @@ def _write_dxf(w: _PartWork, path: Path) -> None:
     if w.part.kind == "plate":
         from .dxf import write_plate_dxf
 
-        write_plate_dxf(w.part, path)
+        write_plate_dxf(w.part, path, w.units)
         return
     if w.part.kind in DISPLAY_KINDS:
         from .dxf import write_flat_dxf
@@ -276,7 +290,9 @@ def _write_dxf(w: _PartWork, path: Path) -> None:
         engraving = None
         if w.part.kind == "dial":
             engraving = (w.part.circles, w.part.strokes, w.part.texts)
-        write_flat_dxf(w.profile, path, w.part.name, engraving, w.profile.marks)
+        write_flat_dxf(
+            w.profile, path, w.part.name, engraving, w.profile.marks, w.units
+        )
         return
     from .dxf import write_dxf
 
@@ -289,6 +305,7 @@ def _write_dxf(w: _PartWork, path: Path) -> None:
         tolerance=w.tolerance,
         pins=_face_pins(w.part),
         hub_diameter=hub,
+        units=w.units,
     )
 
 
@@ -296,12 +313,12 @@ def _write_svg(w: _PartWork, path: Path) -> None:
     if w.part.kind == "plate":
         from .svg_template import write_plate_svg
 
-        write_plate_svg(w.part, path, w.profile)
+        write_plate_svg(w.part, path, w.profile, units=w.units)
         return
     if w.part.kind in DISPLAY_KINDS:
         from .face_svg import write_face_svg
 
-        write_face_svg(w.part, w.profile, path)
+        write_face_svg(w.part, w.profile, path, units=w.units)
         return
     from .svg_template import write_svg
 
@@ -312,6 +329,8 @@ def _write_svg(w: _PartWork, path: Path) -> None:
         w.part.tooth.teeth,
         w.part.tooth.module,
         pins=_face_pins(w.part),
+        units=w.units,
+        diametral_pitch=w.part.tooth.diametral_pitch,
     )
 
 
@@ -329,7 +348,9 @@ _BREP = "solid.brep"  # kept in the cache entry only, for the assembly
 def build_part_files(part: Any, options: BuildOptions, dest: Path) -> list[str]:
     """Write every file of ``part`` under ``dest``; returns their relative paths."""
     safe_name(part.name)
-    work = _PartWork(part, options.mesh_tolerance, options.dxf_curves)
+    work = _PartWork(
+        part, options.mesh_tolerance, options.dxf_curves, options.units or "mm"
+    )
     written = []
     for fmt, rel in part_file_names(part, options.formats):
         path = inside(dest, rel)
@@ -583,6 +604,11 @@ def build_design(
     from ..checks.least_play import settle_play
 
     design = settle_play(design)
+    # one unit for the part files and the sheets: the option's, else the design's
+    units = options.units or getattr(design, "units", "mm")
+    options = dataclasses.replace(options, units=units)
+    if getattr(design, "units", units) != units:
+        design = dataclasses.replace(design, units=units)
     notes: list[str] = []
     remade: set[str] = set()
 

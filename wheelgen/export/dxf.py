@@ -19,7 +19,9 @@ flavours (:data:`wheelgen.export.build.DXF_CURVES`, the build option):
 Cut lines and marks lie on separate layers (:data:`LAYERS`), so a CAM program can
 cut the outline, the bore, windows, slots and pin holes in their own passes and
 leave the marks (a pin standing on the face, a hub boss) as scribe or drill lines.
-Drawing units are millimetres ($INSUNITS = 4).
+Drawing units are millimetres ($INSUNITS = 4), or inches ($INSUNITS = 1, every
+coordinate in inches) for a design whose units are inches: the part is drawn in mm and
+scaled by 1/25.4 as a whole when it is saved, so both are the same true size.
 
 ezdxf normally stamps dates and GUIDs; its fixed-metadata switch, on from creating
 the document to saving it, makes them constant. The CLASSES section came out in hash-seed order (ezdxf collects entity types in a
@@ -38,7 +40,9 @@ from typing import Any
 import ezdxf
 import numpy as np
 from ezdxf.enums import TextEntityAlignment
+from ezdxf.math import Matrix44
 
+from ..design.units import MM_PER_INCH, UNITS
 from ..layout.part_plan import PlatePart
 from ..layout.wheel_profile import Hole, PlateProfile
 from ..solids.spline_fit import SplineFit, fit_segments
@@ -264,8 +268,24 @@ def dxf_document(name: str, layers: dict[str, int] = LAYERS) -> Any:
     return doc
 
 
-def save_dxf(doc: Any, path: Path) -> Path:
-    """Save ``doc`` to ``path`` with fixed dates and GUIDs: the same bytes each run."""
+#: $INSUNITS of each unit a drawing may be saved in (the DXF reference's codes).
+_INSUNITS = {"mm": 4, "in": 1}
+
+
+def save_dxf(doc: Any, path: Path, units: str = "mm") -> Path:
+    """Save ``doc`` to ``path`` with fixed dates and GUIDs: the same bytes each run.
+
+    ``doc`` is drawn in mm; with ``units = "in"`` every entity is scaled by 1/25.4 and
+    the drawing's units set to inches first, so it keeps its true size.
+    """
+    if units not in UNITS:
+        raise ValueError(f"'units' must be 'mm' or 'in', got {units!r}")
+    if units == "in":
+        scale = Matrix44.scale(1 / float(MM_PER_INCH))
+        for entity in doc.modelspace():
+            entity.transform(scale)
+        doc.units = _INSUNITS["in"]
+        doc.header["$MEASUREMENT"] = 0  # imperial
     with _fixed_metadata():
         # ezdxf adds a CLASS per entity type in use while saving, iterating a set:
         # the order followed PYTHONHASHSEED. Add them now, sorted; saving adds none.
@@ -283,8 +303,9 @@ def write_dxf(
     tolerance: float = 0.01,
     pins: Sequence[tuple[float, float, float]] = (),
     hub_diameter: float = 0.0,
+    units: str = "mm",
 ) -> Path:
-    """Write the profile as a DXF (R2010, mm); the same input gives the same bytes.
+    """Write the profile as a DXF (R2010, mm or in); the same input gives the same bytes.
 
     Parameters
     ----------
@@ -298,6 +319,8 @@ def write_dxf(
         Pins standing on the face (mm), drawn on PIN_MARK as a circle and a cross.
     hub_diameter : float
         A hub boss on the face (mm, 0 for none), drawn on HUB_MARK as a circle.
+    units : str
+        ``"mm"``, or ``"in"`` for a drawing in inches (see :func:`save_dxf`).
     """
     _check_curves(curves)
     if tolerance <= 0:
@@ -318,7 +341,7 @@ def write_dxf(
     size = max(2.0, 0.6 * (2 * bore.circle[2] if bore and bore.circle else 2.0))
     msp.add_line((-size, 0.0), (size, 0.0), dxfattribs={"layer": "CENTRE"})
     msp.add_line((0.0, -size), (0.0, size), dxfattribs={"layer": "CENTRE"})
-    return save_dxf(doc, path)
+    return save_dxf(doc, path, units)
 
 
 def write_flat_dxf(
@@ -327,8 +350,9 @@ def write_flat_dxf(
     name: str,
     engraving: Engraving | None = None,
     marks: Sequence[tuple[float, float]] = (),
+    units: str = "mm",
 ) -> Path:
-    """Write a hand's, dial's or crank arm's flat profile as a DXF (R2010, mm).
+    """Write a hand's, dial's or crank arm's flat profile as a DXF (R2010, mm or in).
 
     ``profile`` has an ``outline`` of lines and arcs and ``holes``
     (:class:`wheelgen.display.outlines.FlatProfile`); ``engraving`` goes on ENGRAVE,
@@ -359,11 +383,11 @@ def write_flat_dxf(
         for x, y, h, turn, text in texts:
             entity = msp.add_text(text, height=h, rotation=turn, dxfattribs=attrs)
             entity.set_placement((x, y), align=TextEntityAlignment.MIDDLE_CENTER)
-    return save_dxf(doc, path)
+    return save_dxf(doc, path, units)
 
 
-def write_plate_dxf(part: PlatePart, path: Path) -> Path:
-    """Write a plate as a DXF (R2010, mm): outline, holes by layer, centre marks.
+def write_plate_dxf(part: PlatePart, path: Path, units: str = "mm") -> Path:
+    """Write a plate as a DXF (R2010, mm or in): outline, holes by layer, centre marks.
 
     The drawing is in the design's frame (the arbors' ``at``), seen from the front.
     """
@@ -378,4 +402,4 @@ def write_plate_dxf(part: PlatePart, path: Path) -> Path:
         attrs = {"layer": "CENTRES"}
         msp.add_line((h.x - c, h.y), (h.x + c, h.y), dxfattribs=attrs)
         msp.add_line((h.x, h.y - c), (h.x, h.y + c), dxfattribs=attrs)
-    return save_dxf(doc, path)
+    return save_dxf(doc, path, units)

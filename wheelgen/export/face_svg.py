@@ -1,7 +1,8 @@
 """1:1 SVG of the display's flat parts: a dial's printed face, hand and crank templates.
 
 One user unit is one millimetre and the page is sized in millimetres, as for the wheel
-templates (:mod:`wheelgen.export.svg_template`), with the same 50 mm check bar. A dial's
+templates (:mod:`wheelgen.export.svg_template`), with the same check bar (50 mm, or 2 in
+when the design's units are inches). A dial's
 SVG is its face: the graduations and numbers inside the cutting line, to print at actual
 size, cut out and glue onto the disc (or to engrave from). A hand's or crank's SVG is a
 template to glue onto sheet and saw round. Plain text in a fixed order: the same part
@@ -16,6 +17,7 @@ from typing import Any
 
 import numpy as np
 
+from ..design.units import Lengths
 from ..display.outlines import FlatProfile
 from ..layout.part_plan import DialPart
 from .svg_template import _esc, _fmt, _path_d, _scale_bar
@@ -27,8 +29,8 @@ _MIN_HALF_WIDTH = 60.0  # mm: room for the words and the 50 mm bar
 _TEXT_BAND = 30.0
 _WHAT = {
     "dial": "dial face: print at 100 %, cut along the outer line, glue onto the disc",
-    "hand": "hand: glue onto sheet {t:g} mm thick and cut round the outline",
-    "crank": "crank arm: glue onto sheet {t:g} mm thick; the cross marks the handle",
+    "hand": "hand: glue onto sheet {t} thick and cut round the outline",
+    "crank": "crank arm: glue onto sheet {t} thick; the cross marks the handle",
 }
 
 
@@ -72,9 +74,15 @@ def _marks(points: tuple[tuple[float, float], ...], label: str) -> list[str]:
 
 
 def write_face_svg(
-    part: Any, profile: FlatProfile, path: Path, chord_tol: float = 0.005
+    part: Any,
+    profile: FlatProfile,
+    path: Path,
+    chord_tol: float = 0.005,
+    units: str = "mm",
 ) -> Path:
-    """Write the 1:1 SVG of a dial, hand or crank (see the module docstring)."""
+    """Write the 1:1 SVG of a dial, hand or crank (see the module docstring); its
+    words in ``units``."""
+    lengths = Lengths(units)  # type: ignore[arg-type]  # Lengths checks it
     outer = profile.outline.polyline(chord_tol)
     xs, ys = outer[:, 0], outer[:, 1]
     x0, x1 = float(xs.min()) - _MARGIN, float(xs.max()) + _MARGIN
@@ -88,13 +96,14 @@ def write_face_svg(
     d = " ".join(_path_d(loop) for loop in loops)
     cross = min(3.0, float(np.hypot(xs, ys).max()))
     thickness = getattr(part, "thickness", 0.0)
-    what = _WHAT.get(part.kind, part.kind).format(t=thickness)
+    t = lengths.text(thickness) if lengths.inches else f"{thickness:g} mm"
+    what = _WHAT.get(part.kind, part.kind).format(t=t)
     lines = [
         '<?xml version="1.0" encoding="UTF-8"?>',
         f'<svg xmlns="http://www.w3.org/2000/svg" width="{_fmt(x1 - x0)}mm" '
         f'height="{_fmt(height)}mm" viewBox="{_fmt(x0)} {_fmt(top)} {_fmt(x1 - x0)} '
         f'{_fmt(height)}">',
-        f"<title>{_esc(part.name)}: 1:1, millimetres</title>",
+        f"<title>{_esc(part.name)}: 1:1, {lengths.words}</title>",
         '<g id="outline" fill="none" stroke="#000" stroke-width="0.1" fill-rule="evenodd">',
         f'<path d="{d}"/>',
         "</g>",
@@ -115,7 +124,7 @@ def write_face_svg(
         f'<text x="{_fmt(x0 + 5)}" y="{_fmt(y_text)}">{_esc(part.name)}</text>',
         f'<text x="{_fmt(x0 + 5)}" y="{_fmt(y_text + 5)}" font-size="3">{_esc(what)}</text>',
         "</g>",
-        *_scale_bar(cx - 25.0, y_text + 14.0),
+        *_scale_bar(cx - lengths.bar.length / 2, y_text + 14.0, lengths),
         "</svg>",
         "",
     ]

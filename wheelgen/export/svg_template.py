@@ -1,8 +1,9 @@
 """1:1 SVG templates of flat parts, to print on paper and glue onto sheet stock.
 
 The page is sized in millimetres and one user unit is one millimetre, so a printer set
-to "actual size" draws the part full size; the 50 mm scale bar lets the user check the
-printout with a rule before cutting. Everything is plain text written in a fixed order
+to "actual size" draws the part full size; the scale bar (50 mm, or 2 in with quarter
+inch ticks when the design's units are inches) lets the user check the printout with a
+rule before cutting. The labels are written in the design's units. Everything is plain text written in a fixed order
 (no kernel, no dates), so the same profile gives the same bytes.
 """
 
@@ -14,6 +15,7 @@ from pathlib import Path
 import numpy as np
 
 from ..design.names import xml_text
+from ..design.units import MM, Lengths
 from ..layout.part_plan import PlatePart
 from ..layout.wheel_profile import PlateProfile
 
@@ -41,7 +43,9 @@ def _esc(text: str) -> str:
     return xml_text(text, quote=False)
 
 
-def _pin_marks(pins: Sequence[tuple[float, float, float]]) -> list[str]:
+def _pin_marks(
+    pins: Sequence[tuple[float, float, float]], lengths: Lengths = MM
+) -> list[str]:
     if not pins:
         return []
     out = ['<g id="pins" fill="none" stroke="#000" stroke-width="0.08">']
@@ -52,7 +56,7 @@ def _pin_marks(pins: Sequence[tuple[float, float, float]]) -> list[str]:
             f'<path d="M{_fmt(x - c)},{_fmt(-y)} H{_fmt(x + c)} M{_fmt(x)},{_fmt(-y - c)} '
             f'V{_fmt(-y + c)}"/>',
             f'<text x="{_fmt(x + c + 0.5)}" y="{_fmt(-y - 0.5)}" stroke="none" fill="#000" '
-            f'font-family="sans-serif" font-size="2">pin {_fmt(dia)} mm</text>',
+            f'font-family="sans-serif" font-size="2">pin {_size(dia, lengths)}</text>',
         ]
     out.append("</g>")
     return out
@@ -66,13 +70,18 @@ def write_svg(
     module: float,
     chord_tol: float = 0.005,
     pins: Sequence[tuple[float, float, float]] = (),
+    units: str = "mm",
+    diametral_pitch: float | None = None,
 ) -> Path:
     """Write a 1:1 template: outline, holes, centre cross, pitch circle, labels, scale.
 
     ``chord_tol`` (mm) bounds how far the drawn polyline strays from the exact outline.
     ``pins`` are pins standing on the face, ``(x, y, diameter)`` in mm, marked with a
     dashed circle and a cross so their place can be centre-punched from the template.
+    ``units`` (``"mm"`` or ``"in"``) is what the labels are written in; the drawing is
+    1:1 either way. A wheel cut to a ``diametral_pitch`` is labelled with it.
     """
+    lengths = Lengths(units)  # type: ignore[arg-type]  # Lengths checks it
     outer = profile.outline.polyline(chord_tol)
     r_max = float(np.hypot(outer[:, 0], outer[:, 1]).max())
     # wide enough for the label lines even under a small pinion
@@ -84,13 +93,13 @@ def write_svg(
     cross = min(0.15 * r_max + 2.0, r_max)
     y_text = r_max + _MARGIN + 6.0
     bar_y = y_text + 14.0
-    bar_x0 = -SCALE_BAR_MM / 2
+    bar_x0 = -lengths.bar.length / 2
     lines = [
         '<?xml version="1.0" encoding="UTF-8"?>',
         f'<svg xmlns="http://www.w3.org/2000/svg" width="{_fmt(width)}mm" '
         f'height="{_fmt(height)}mm" viewBox="{_fmt(-half_w)} {_fmt(top)} {_fmt(width)} '
         f'{_fmt(height)}">',
-        f"<title>{_esc(name)}: 1:1 template, millimetres</title>",
+        f"<title>{_esc(name)}: 1:1 template, {lengths.words}</title>",
         '<g id="outline" fill="none" stroke="#000" stroke-width="0.1" fill-rule="evenodd">',
         f'<path d="{" ".join(d)}"/>',
         "</g>",
@@ -100,14 +109,14 @@ def write_svg(
         "</g>",
         f'<circle id="pitch" cx="0" cy="0" r="{_fmt(profile.pitch_radius)}" fill="none" '
         'stroke="#06c" stroke-width="0.08" stroke-dasharray="2 1 0.4 1"/>',
-        *_pin_marks(pins),
+        *_pin_marks(pins, lengths),
         '<g id="labels" font-family="sans-serif" font-size="3.5" fill="#000">',
         f'<text x="{_fmt(-half_w + 5)}" y="{_fmt(y_text)}">{_esc(name)}</text>',
         f'<text x="{_fmt(-half_w + 5)}" y="{_fmt(y_text + 5)}" font-size="3">'
-        f"teeth {teeth}, module {_fmt(module)} mm, pitch circle dashed "
-        f"(d = {_fmt(2 * profile.pitch_radius)} mm)</text>",
+        f"teeth {teeth}, {_pitch(module, diametral_pitch)}, pitch circle dashed "
+        f"(d = {_size(2 * profile.pitch_radius, lengths)})</text>",
         "</g>",
-        *_scale_bar(bar_x0, bar_y),
+        *_scale_bar(bar_x0, bar_y, lengths),
         "</svg>",
         "",
     ]
@@ -115,44 +124,71 @@ def write_svg(
     return path
 
 
-def _scale_bar(x0: float, y: float) -> list[str]:
-    """The 50 mm check bar with 10 mm ticks, its left end at (x0, y) (page mm)."""
+def _size(mm: float, lengths: Lengths) -> str:
+    """A size on a template: ``"3.2 mm"`` (to 0.0001 mm), ``"0.126 in"``."""
+    return lengths.text(mm) if lengths.inches else f"{_fmt(mm)} mm"
+
+
+def _sheet(mm: float, lengths: Lengths) -> str:
+    """A sheet's thickness: ``"2 mm"``, ``"0.0938 in (3/32)"``."""
+    return lengths.stock(mm) if lengths.inches else _size(mm, lengths)
+
+
+def _pitch(module: float, diametral_pitch: float | None) -> str:
+    if diametral_pitch is None:
+        return f"module {_fmt(module)} mm"
+    return f"{diametral_pitch:g} diametral pitch"
+
+
+def _scale_bar(x0: float, y: float, lengths: Lengths = MM) -> list[str]:
+    """The check bar (50 mm with 10 mm ticks, or 2 in with 1/4 in ticks), its left
+    end at (x0, y) (page mm)."""
+    bar = lengths.bar
     out = [
         '<g id="scale-bar" stroke="#000" stroke-width="0.2" font-family="sans-serif" '
         'font-size="3">',
-        f'<line x1="{_fmt(x0)}" y1="{_fmt(y)}" x2="{_fmt(x0 + SCALE_BAR_MM)}" '
+        f'<line x1="{_fmt(x0)}" y1="{_fmt(y)}" x2="{_fmt(x0 + bar.length)}" '
         f'y2="{_fmt(y)}"/>',
     ]
-    for k in range(int(SCALE_BAR_MM // 10) + 1):
-        x = x0 + 10.0 * k
+    for k in range(round(bar.length / bar.tick) + 1):
+        x = x0 + bar.tick * k
         out.append(
             f'<line x1="{_fmt(x)}" y1="{_fmt(y - 2)}" x2="{_fmt(x)}" y2="{_fmt(y)}"/>'
         )
     out += [
         f'<text x="{_fmt(x0)}" y="{_fmt(y + 4)}" stroke="none">0</text>',
-        f'<text x="{_fmt(x0 + SCALE_BAR_MM)}" y="{_fmt(y + 4)}" stroke="none" '
-        f'text-anchor="middle">{_fmt(SCALE_BAR_MM)} mm</text>',
-        f'<text x="{_fmt(x0 + SCALE_BAR_MM / 2)}" y="{_fmt(y + 8)}" stroke="none" '
+        f'<text x="{_fmt(x0 + bar.length)}" y="{_fmt(y + 4)}" stroke="none" '
+        f'text-anchor="middle">{bar.label}</text>',
+        f'<text x="{_fmt(x0 + bar.length / 2)}" y="{_fmt(y + 8)}" stroke="none" '
         'text-anchor="middle">print at 100 % (actual size) and check this bar with a rule</text>',
         "</g>",
     ]
     return out
 
 
+def _hole(mm: float, lengths: Lengths) -> str:
+    """A hole's size beside it: ``"3.2"`` (mm, as before), ``"0.126 in"``."""
+    return lengths.text(mm) if lengths.inches else _fmt(mm)
+
+
 _ROLE_COLOUR = {"pillar": "#1f5f8b", "screw": "#1f5f8b", "mounting": "#7a4f9a"}
 
 
 def write_plate_svg(
-    part: PlatePart, path: Path, loop: np.ndarray, title: str = ""
+    part: PlatePart, path: Path, loop: np.ndarray, title: str = "", units: str = "mm"
 ) -> Path:
     """Write a plate's 1:1 template: outline, every hole with a centre cross and its
-    size, and the 50 mm check bar. ``loop`` is the outline as a closed polyline (mm)."""
+    size, and the check bar. ``loop`` is the outline as a closed polyline (mm);
+    ``units`` what the sizes are written in."""
+    lengths = Lengths(units)  # type: ignore[arg-type]  # Lengths checks it
     x0, y0 = loop.min(axis=0)
     x1, y1 = loop.max(axis=0)
     left, top = float(x0) - _MARGIN, -(float(y1) + _MARGIN)
     width = max(float(x1 - x0) + 2 * _MARGIN, 2 * _MIN_HALF_WIDTH)
     height = float(y1 - y0) + 2 * _MARGIN + _TEXT_BAND + 4.0
-    heading = title or f"{part.name}: 1:1 template, millimetres, seen from the front"
+    heading = (
+        title or f"{part.name}: 1:1 template, {lengths.words}, seen from the front"
+    )
     lines = [
         '<?xml version="1.0" encoding="UTF-8"?>',
         f'<svg xmlns="http://www.w3.org/2000/svg" width="{_fmt(width)}mm" '
@@ -184,7 +220,7 @@ def write_plate_svg(
         placed.append((tx, ty))
         lines.append(
             f'<text x="{_fmt(tx)}" y="{_fmt(ty)}">'
-            f"\u00d8{_fmt(h.diameter)} {_esc(h.label)}</text>"
+            f"\u00d8{_hole(h.diameter, lengths)} {_esc(h.label)}</text>"
         )
     lines.append("</g>")
     y_text = float(-y0) + _MARGIN + 5.0
@@ -192,11 +228,11 @@ def write_plate_svg(
         f'<text x="{_fmt(left + 5)}" y="{_fmt(y_text)}" font-family="sans-serif" '
         f'font-size="3.5">{_esc(heading)}</text>',
         f'<text x="{_fmt(left + 5)}" y="{_fmt(y_text + 5)}" font-family="sans-serif" '
-        f'font-size="3">{_fmt(part.thickness)} mm sheet. Centre-punch each cross, drill'
-        " small first, then to size;</text>",
+        f'font-size="3">{_sheet(part.thickness, lengths)} sheet. Centre-punch each'
+        " cross, drill small first, then to size;</text>",
         f'<text x="{_fmt(left + 5)}" y="{_fmt(y_text + 9)}" font-family="sans-serif" '
         'font-size="3">positions and fits: the drilling chart.</text>',
-        *_scale_bar(left + 30, y_text + 17.0),
+        *_scale_bar(left + 30, y_text + 17.0, lengths),
         "</svg>",
         "",
     ]

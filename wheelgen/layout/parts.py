@@ -16,6 +16,7 @@ import math
 from dataclasses import replace
 
 from ..design.model import Design, Wheel
+from ..design.units import MM, Lengths, lengths_of
 from .part_plan import (
     ArborPart,
     Part,
@@ -99,16 +100,23 @@ def wheel_part(layout: Layout, wheel: Wheel) -> WheelPart:
         pin=pin,
         holes=tuple((x, y, d) for _, x, y, d in holes),
         placement=Placement(pos[0], pos[1], wheel.height, phi),
-        bore_fit=_fit_text(bore),
+        bore_fit=_fit_text(bore, lengths_of(design)),
         seat_angle_deg=-phi if wheel.seat != "round" else 0.0,
         spoke_angle_deg=spoke_angle,
     )
 
 
-def _fit_text(bore: Bore) -> str:
+def _fit_text(bore: Bore, u: Lengths = MM) -> str:
+    """What sets a bore, in the design's units: ``"H7/g6 on 3 mm: 3.000 to 3.010 mm"``."""
     if bore.zone:
-        return f"{bore.fit} on {bore.shaft:g} mm: {bore.low:.3f} to {bore.high:.3f} mm"
-    return f"{bore.fit} on {bore.shaft:g} mm"
+        return (
+            f"{bore.fit} on {u.text(bore.shaft)}: {u.num(bore.low)} to "
+            f"{u.num(bore.high)} {u.unit}"
+        )
+    fit = bore.fit
+    if u.inches and not bore.zone and fit.startswith("print clearance"):
+        fit = f"print clearance {u.text(bore.clearance / 2)}"
+    return f"{fit} on {u.text(bore.shaft)}"
 
 
 def plan_parts(design: Design) -> tuple[Part, ...]:

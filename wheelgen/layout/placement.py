@@ -58,6 +58,7 @@ def tooth_spec(wheel: Wheel) -> ToothSpec:
         root_radius=wheel.root_radius,
         tip_radius=wheel.tip_radius,
         thinning=thinning_for(wheel.backlash),
+        diametral_pitch=wheel.diametral_pitch,
     )
 
 

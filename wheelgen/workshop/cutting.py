@@ -5,7 +5,9 @@ One row per wheel part, in the order of the part plan: teeth, module, form, blan
 setting, and the inspection values (span ``W_k`` over ``k`` teeth and the dimension
 over two pins). Every gear value comes from :func:`wheelgen.teeth.gear_data`, so the
 sheet and the gear data sheet cannot disagree; the indexing from
-:func:`wheelgen.workshop.indexing.indexing_plan`. Lengths in mm.
+:func:`wheelgen.workshop.indexing.indexing_plan`. Lengths in mm; the sheet is written
+in the design's units (:class:`wheelgen.design.units.Lengths`), each column naming
+its unit, and its tooth size as the module (mm) or the diametral pitch (inches).
 """
 
 from __future__ import annotations
@@ -16,6 +18,7 @@ from dataclasses import dataclass
 from pathlib import Path
 from typing import Any, Sequence
 
+from ..design.units import MM, Lengths, lengths_of
 from ..layout.part_plan import WheelPart
 from ..teeth.gear_data import gear_data
 from .indexing import IndexPlan, indexing_plan
@@ -24,11 +27,13 @@ __all__ = [
     "CuttingRow",
     "CUTTING_COLUMNS",
     "CUTTING_FILE",
+    "cutting_columns",
     "cutting_rows",
     "indexing_text",
     "cutting_csv",
     "cutting_sheet_writer",
     "holes_text",
+    "pitch_text",
 ]
 
 #: File name of the cutting sheet inside the build output.
@@ -70,30 +75,40 @@ class CuttingRow:
     bore: float = 0.0
     bore_fit: str = ""
     holes: tuple[tuple[float, float, float], ...] = ()
+    diametral_pitch: float | None = None  # teeth per inch, for a DP wheel
 
 
-#: CSV header, in column order; units are in the names.
-CUTTING_COLUMNS: tuple[str, ...] = (
-    "wheel",
-    "teeth",
-    "module_mm",
-    "form",
-    "angle_deg",
-    "shift",
-    "face_width_mm",
-    "blank_diameter_mm",
-    "full_depth_mm",
-    "cutter_number",
-    "indexing",
-    "span_teeth_k",
-    "span_width_mm",
-    "pin_diameter_mm",
-    "over_pins_mm",
-    "bore_mm",
-    "bore_fit",
-    "arbor_holes_mm",
-    "notes",
-)
+def cutting_columns(lengths: Lengths = MM) -> tuple[str, ...]:
+    """The CSV header in ``lengths``' units, in column order; units are in the names.
+
+    In inches the tooth size is the diametral pitch, in millimetres the module.
+    """
+    col = lengths.col
+    return (
+        "wheel",
+        "teeth",
+        "diametral_pitch" if lengths.inches else "module_mm",
+        "form",
+        "angle_deg",
+        "shift",
+        col("face_width"),
+        col("blank_diameter"),
+        col("full_depth"),
+        "cutter_number",
+        "indexing",
+        "span_teeth_k",
+        col("span_width"),
+        col("pin_diameter"),
+        col("over_pins"),
+        col("bore"),
+        "bore_fit",
+        col("arbor_holes"),
+        "notes",
+    )
+
+
+#: CSV header in millimetres, in column order; units are in the names.
+CUTTING_COLUMNS: tuple[str, ...] = cutting_columns()
 
 
 def cutting_rows(parts: Sequence[Any]) -> tuple[CuttingRow, ...]:
@@ -130,6 +145,7 @@ def cutting_rows(parts: Sequence[Any]) -> tuple[CuttingRow, ...]:
                 bore=part.bore,
                 bore_fit=part.bore_fit,
                 holes=part.holes,
+                diametral_pitch=spec.diametral_pitch,
             )
         )
     return tuple(rows)
@@ -176,46 +192,68 @@ def indexing_text(plan: IndexPlan) -> str:
     )
 
 
-def _num(value: float | None, digits: int = 4) -> str:
-    return "" if value is None else f"{value:.{digits}f}"
+def pitch_text(row: CuttingRow, lengths: Lengths = MM) -> str:
+    """The tooth size as the sheet's pitch column gives it: the module in mm, or in
+    inches the diametral pitch (25.4 / module for a module wheel)."""
+    if not lengths.inches:
+        return f"{row.module:g}"
+    dp = row.diametral_pitch
+    return f"{dp:g}" if dp is not None else f"{25.4 / row.module:.4g}"
 
 
-def _csv_row(row: CuttingRow) -> list[str]:
+def _system_note(row: CuttingRow, lengths: Lengths) -> tuple[str, ...]:
+    """Which cutters, when the pitch column does not say it in the cutter's own terms."""
+    if row.diametral_pitch is not None and not lengths.inches:
+        return (
+            f"cut to {row.diametral_pitch:g} diametral pitch (module {row.module:g} "
+            f"mm): a {row.diametral_pitch:g} DP cutter",
+        )
+    if row.diametral_pitch is None and lengths.inches:
+        return (f"cut to module {row.module:g} mm: a module cutter, not a DP one",)
+    return ()
+
+
+def _csv_row(row: CuttingRow, lengths: Lengths) -> list[str]:
+    num = lengths.num
     return [
         row.wheel,
         str(row.teeth),
-        f"{row.module:g}",
+        pitch_text(row, lengths),
         row.form,
         f"{row.angle_deg:g}",
         f"{row.shift:g}",
-        f"{row.face_width:g}",
-        _num(row.blank_diameter, 3),
-        _num(row.full_depth, 3),
+        lengths.short(row.face_width),
+        num(row.blank_diameter, 3),
+        num(row.full_depth, 3),
         "" if row.cutter_number is None else str(row.cutter_number),
         indexing_text(row.indexing),
         "" if row.span_teeth is None else str(row.span_teeth),
-        _num(row.span_width),
-        _num(row.pin_diameter, 3),
-        _num(row.over_pins),
-        _num(row.bore, 3),
+        num(row.span_width, 4),
+        num(row.pin_diameter, 3),
+        num(row.over_pins, 4),
+        num(row.bore, 3),
         row.bore_fit,
-        holes_text(row.holes),
-        "; ".join(row.warnings),
+        holes_text(row.holes, lengths),
+        "; ".join(_system_note(row, lengths) + row.warnings),
     ]
 
 
-def holes_text(holes: Sequence[tuple[float, float, float]]) -> str:
-    """``"2.005 at (30.771, -1.343)"`` for each hole (mm), joined by ``"; "``."""
-    return "; ".join(f"{d:.3f} at ({x:.3f}, {y:.3f})" for x, y, d in holes)
+def holes_text(
+    holes: Sequence[tuple[float, float, float]], lengths: Lengths = MM
+) -> str:
+    """``"2.005 at (30.771, -1.343)"`` for each hole, joined by ``"; "``."""
+    n = lengths.num
+    return "; ".join(f"{n(d)} at ({n(x)}, {n(y)})" for x, y, d in holes)
 
 
-def cutting_csv(rows: Sequence[CuttingRow]) -> str:
-    """The cutting sheet as CSV text (header first, ``\\n`` line ends)."""
+def cutting_csv(rows: Sequence[CuttingRow], lengths: Lengths = MM) -> str:
+    """The cutting sheet as CSV text (header first, ``\\n`` line ends), its lengths
+    in ``lengths``' units."""
     buf = io.StringIO()
     writer = csv.writer(buf, lineterminator="\n")
-    writer.writerow(CUTTING_COLUMNS)
+    writer.writerow(cutting_columns(lengths))
     for row in rows:
-        writer.writerow(_csv_row(row))
+        writer.writerow(_csv_row(row, lengths))
     return buf.getvalue()
 
 
@@ -224,5 +262,6 @@ def cutting_sheet_writer(
 ) -> list[Path]:
     """Sheet writer for ``wheelgen build``: writes ``cutting.csv`` into ``staging_dir``."""
     path = Path(staging_dir) / CUTTING_FILE
-    path.write_text(cutting_csv(cutting_rows(parts)), encoding="utf-8")
+    text = cutting_csv(cutting_rows(parts), lengths_of(design))
+    path.write_text(text, encoding="utf-8")
     return [path]

@@ -7,11 +7,12 @@ held tubes, bushes and bearings, pillar holes and the mounting holes of cocks, e
 its fit and limits, and the tolerance on its position (half the process's centre
 tolerance: two holes together then keep a mesh's centre distance). Lengths in mm,
 printed to 0.1 micrometre so that distances read from the chart keep the working centre
-distances.
+distances; in a design whose units are inches, to 0.0001 in.
 
 :func:`drilling_csv` and :func:`drilling_svg` return text; :func:`drilling_sheet_writer`
 writes ``drilling/<plate>.csv`` and ``drilling/<plate>.svg`` for the build. The SVG is
-1:1 (its width, height and viewBox are millimetres) with a 50 mm check bar; it shows the
+1:1 (its width, height and viewBox are millimetres) with a check bar (50 mm, or 2 in
+in a design in inches); it shows the
 outline, every hole with a centre cross and its number, the cocks' feet, the pitch
 circles of the wheels on axes fixed in the frame and a line for every mesh between
 them, on both plates.
@@ -29,11 +30,12 @@ from typing import Any
 
 from ..checks.findings import has_errors
 from ..design.model import Design
+from ..design.units import lengths_of
 from ..frame.holes import FrameHole
 from ..frame.plan import PLATES, FramePlan, plan_frame
 from ..kinematics.rates import axis_root
 from ..layout.plan import plan_layout
-from ._svg import esc, fmt
+from ._svg import esc
 
 __all__ = [
     "ChartHole",
@@ -42,8 +44,6 @@ __all__ = [
     "drilling_sheet_writer",
     "drilling_svg",
 ]
-
-CHECK_BAR_MM = 50.0
 
 
 @dataclass(frozen=True, slots=True)
@@ -92,18 +92,22 @@ def chart_holes(design: Design, plate: str) -> list[ChartHole]:
 
 
 def drilling_csv(design: Design, plate: str) -> str:
-    """The drilling chart of ``plate`` as CSV text, one hole a row (mm)."""
+    """The drilling chart of ``plate`` as CSV text, one hole a row, in the design's
+    units (the columns name them)."""
+    u = lengths_of(design)
+    col = u.col
     buf = io.StringIO()
     w = csv.writer(buf, lineterminator="\n")
     w.writerow(
-        ["plate", "hole", "member", "x_mm", "y_mm", "diameter_mm", "fit", "low_mm",
-         "high_mm", "role", "position_tolerance_mm"]
+        ["plate", "hole", "member", col("x"), col("y"), col("diameter"), "fit",
+         col("low"), col("high"), "role", col("position_tolerance")]
     )  # fmt: skip
     tol = plan_frame(design).limits.position_tolerance if design.frame else 0.0
+    n = u.num
     for h in chart_holes(design, plate):
         w.writerow(
-            [h.plate, h.number, h.member, f"{h.x:.4f}", f"{h.y:.4f}", f"{h.nominal:.4f}",
-             h.fit, f"{h.low:.4f}", f"{h.high:.4f}", h.role, f"{tol:.4f}"]
+            [h.plate, h.number, h.member, n(h.x, 4), n(h.y, 4), n(h.nominal, 4),
+             h.fit, n(h.low, 4), n(h.high, 4), h.role, n(tol, 4)]
         )  # fmt: skip
     return buf.getvalue()
 
@@ -148,7 +152,9 @@ def _stadium(
 
 
 def drilling_svg(design: Design, plate: str, unchecked: bool = False) -> str:
-    """The drilling chart of ``plate`` as a 1:1 SVG drawing (mm)."""
+    """The drilling chart of ``plate`` as a 1:1 SVG drawing (drawn in mm, labelled in
+    the design's units)."""
+    u = lengths_of(design)
     plan: FramePlan = plan_frame(design)
     holes = chart_holes(design, plate)
     dx, dy = _datum(design)
@@ -173,7 +179,9 @@ def drilling_svg(design: Design, plate: str, unchecked: bool = False) -> str:
 
     tol = plan.limits.position_tolerance
     side = "seen from the front" + (" (its inner face)" if plate == "back" else "")
-    title = f"{design.title}: {plate} plate, {side}, mm, 1:1"
+    title = (
+        f"{design.title}: {plate} plate, {side}, {u.words if u.inches else 'mm'}, 1:1"
+    )
     if unchecked:
         title += " (UNCHECKED: the design has error-level findings)"
     out = [
@@ -187,7 +195,8 @@ def drilling_svg(design: Design, plate: str, unchecked: bool = False) -> str:
         (
             '<text x="2" y="9" font-family="sans-serif" font-size="2.5">datum: axis of'
             f" arbor {esc(design.drive.arbor)}; X right, Y up; every hole's position"
-            f" \u00b1{tol:.3f} mm, its diameter within the limits on the chart</text>"
+            f" \u00b1{u.num(tol)} {u.unit}, its diameter within the limits on the"
+            " chart</text>"
         ),
         (
             f'<path id="{plate}-outline" d="M{" ".join(f"{sx(x)},{sy(y)}" for x, y in loop)}Z"'
@@ -207,7 +216,7 @@ def drilling_svg(design: Design, plate: str, unchecked: bool = False) -> str:
         dist = math.hypot(bx - ax, by - ay)
         out.append(
             f'<line x1="{sx(ax)}" y1="{sy(ay)}" x2="{sx(bx)}" y2="{sy(by)}"><title>'
-            f"{esc(label)}: {dist:.4f} mm</title></line>"
+            f"{esc(label)}: {u.fixed(dist)}</title></line>"
         )
     out.append("</g>")
     out.append(
@@ -246,29 +255,29 @@ def drilling_svg(design: Design, plate: str, unchecked: bool = False) -> str:
     list_x, list_y = sx(max(xs) + margin), 16.0
     out.append(
         f'<text x="{list_x}" y="{list_y:.4f}" font-weight="bold">hole: holds, diameter'
-        " and fit, X, Y (mm)</text>"
+        f" and fit, X, Y ({u.unit})</text>"
     )
     for k, h in enumerate(holes, start=1):
         out.append(
             f'<text x="{list_x}" y="{list_y + 3.2 * k:.4f}">{h.number}: {esc(h.member)}'
-            f" ({esc(h.role)}) \u00d8{h.nominal:.3f} {esc(h.fit)}, {h.x:.4f},"
-            f" {h.y:.4f}</text>"
+            f" ({esc(h.role)}) \u00d8{u.num(h.nominal)} {esc(h.fit)}, {u.num(h.x, 4)},"
+            f" {u.num(h.y, 4)}</text>"
         )
     out.append("</g>")
-    bar_x, bar_y = 5.0, height - 8.0
+    bar_x, bar_y, bar = 5.0, height - 8.0, u.bar
     out.append(
         f'<g id="{plate}-check-bar" stroke="#000" stroke-width="0.25" font-family="sans-serif"'
         f' font-size="2.5"><line x1="{bar_x:.4f}" y1="{bar_y:.4f}"'
-        f' x2="{bar_x + CHECK_BAR_MM:.4f}" y2="{bar_y:.4f}"/>'
+        f' x2="{bar_x + bar.length:.4f}" y2="{bar_y:.4f}"/>'
     )
-    for k in range(int(CHECK_BAR_MM // 10) + 1):
-        x = bar_x + 10.0 * k
+    for k in range(round(bar.length / bar.tick) + 1):
+        x = bar_x + bar.tick * k
         out.append(
             f'<line x1="{x:.4f}" y1="{bar_y - 2:.4f}" x2="{x:.4f}" y2="{bar_y:.4f}"/>'
         )
     out.append(
-        f'<text x="{bar_x + CHECK_BAR_MM + 2:.4f}" y="{bar_y:.4f}" stroke="none">'
-        f"{fmt(CHECK_BAR_MM)} mm: print at 100 % and check with a rule</text></g>"
+        f'<text x="{bar_x + bar.length + 2:.4f}" y="{bar_y:.4f}" stroke="none">'
+        f"{bar.label}: print at 100 % and check with a rule</text></g>"
     )
     out.append("</svg>")
     return "\n".join(out) + "\n"

@@ -13,6 +13,7 @@ import math
 from typing import Mapping
 
 from ..design.model import Design
+from ..design.units import lengths_of
 from ..frame.plan import FramePlan, plan_frame
 from ._svg import colour, esc, fmt, path_d
 
@@ -106,6 +107,7 @@ def layout_svg(design: Design, positions: Mapping[str, Point]) -> str:
     mesh as a line between centres labelled with both tooth counts; a pin-and-slot
     coupling as the pin circle and the offset between the two axes.
     """
+    u = lengths_of(design)
     centres = axis_centres(design, positions)
     ext = drawing_extent(design, centres)
     frame: FramePlan | None = None
@@ -131,17 +133,18 @@ def layout_svg(design: Design, positions: Mapping[str, Point]) -> str:
         f'<svg xmlns="http://www.w3.org/2000/svg" class="drawing layout" '
         f'viewBox="{fmt(x0)} {fmt(-y1)} {fmt(x1 - x0)} {fmt(y1 - y0)}" '
         f'font-family="sans-serif" font-size="{fmt(fs)}">',
-        "<title>Layout seen from the front (mm)</title>",
+        f"<title>Layout seen from the front ({u.unit})</title>",
     ]
     if frame is not None and design.frame is not None:
         out.append(
             f'<path d="{path_d([loop], 2)}" fill="#f4f1ea" stroke="#8a8170" '
             f'stroke-width="{fmt(fs / 8)}"><title>plate outline</title></path>'
         )
-        plates = ", ".join(f"{h:g}" for h in design.frame.plates)
+        plates = ", ".join(u.short(h) for h in design.frame.plates)
         out.append(
             f'<text x="{fmt(ext[0])}" y="{fmt(-ext[3] - fs)}" fill="#6b6354">'
-            f"plates: inner faces at {plates} mm, {design.frame.thickness:g} mm thick;"
+            f"plates: inner faces at {plates} {u.unit}, "
+            f"{u.text(design.frame.thickness)} thick;"
             f" {len(frame.pillars)} pillars"
             + (f", {len(frame.cocks)} cock(s)" if frame.cocks else "")
             + "</text>"
@@ -228,7 +231,8 @@ def layout_svg(design: Design, positions: Mapping[str, Point]) -> str:
         )
         out.append(
             f'<text x="{fmt(px + fs / 2)}" y="{fmt(-py - fs / 2)}" fill="#9a3d5f" '
-            f'font-size="{fmt(0.85 * fs)}">{esc(p.name)} (offset {p.offset:g} mm)</text>'
+            f'font-size="{fmt(0.85 * fs)}">{esc(p.name)} (offset {u.text(p.offset)})'
+            "</text>"
         )
     # arbor centres and names on top
     named: dict[str, list[str]] = {}

@@ -11,7 +11,9 @@ windows, slot and pin hole, from the same profile the solids are extruded from) 
 its face width, plus hub boss and pin boss; a plate's outline area minus its holes,
 times its thickness; a sleeve is a round tube plus its collars (seat flats ignored).
 For printed parts that is the plastic used at 100 % infill. Lengths in mm, volumes in
-mm³.
+mm³; the sheet is written in the design's units (:class:`wheelgen.design.units.Lengths`:
+inches to 0.0001 in and volumes in cubic inches, stock sizes with their inch fraction
+where they are one).
 """
 
 from __future__ import annotations
@@ -25,6 +27,7 @@ from typing import Any, Sequence
 
 import numpy as np
 
+from ..design.units import MM, MM_PER_INCH, Lengths, inch_fraction, lengths_of
 from ..display.outlines import FlatProfile, flat_profile
 from ..frame.outline import edges_polyline
 from ..frame.plan import plan_frame
@@ -51,9 +54,11 @@ __all__ = [
     "PARTS_COLUMNS",
     "PARTS_FILE",
     "bill_rows",
+    "parts_columns",
     "wheel_profile_area",
     "parts_csv",
     "parts_sheet_writer",
+    "volume_text",
 ]
 
 #: File name of the bill of parts inside the build output.
@@ -90,32 +95,59 @@ class BillRow:
     @property
     def stock_text(self) -> str:
         """The stock in words, e.g. ``"sheet 3 mm"``, ``"tube 5 x 3.2 mm"``."""
+        return self.stock_words()
+
+    def stock_words(self, lengths: Lengths = MM) -> str:
+        """The stock in words in ``lengths``' units, with the inch fraction of a size
+        the trade sells by fractions: ``"rod 0.125 in (1/8)"``."""
+        size = lengths.stock
         if self.stock == "sheet":
-            return f"sheet {self.thickness:g} mm"
+            return f"sheet {size(self.thickness or 0.0)}"
         if self.stock == "block":
-            return f"block {self.thickness:g} mm thick"
+            return f"block {size(self.thickness or 0.0)} thick"
         if self.stock == "bought":
             return "bought"
-        if self.stock == "tube":
+        if self.stock == "tube" and not lengths.inches and not _fraction_sized(self):
             return f"tube {self.stock_outside:g} x {self.stock_inside:g} mm"
-        return f"rod {self.stock_outside:g} mm"
+        if self.stock == "tube":
+            return (
+                f"tube {size(self.stock_outside or 0.0)} x "
+                f"{size(self.stock_inside or 0.0)}"
+            )
+        return f"rod {size(self.stock_outside or 0.0)}"
 
 
-#: CSV header, in column order; units are in the names.
-PARTS_COLUMNS: tuple[str, ...] = (
-    "part",
-    "kind",
-    "quantity",
-    "stock",
-    "sheet_thickness_mm",
-    "stock_outside_mm",
-    "stock_inside_mm",
-    "overall_diameter_mm",
-    "overall_length_mm",
-    "volume_mm3",
-    "bore_mm",
-    "note",
-)
+def _fraction_sized(row: BillRow) -> bool:
+    return any(
+        v is not None and inch_fraction(v) is not None
+        for v in (row.stock_outside, row.stock_inside)
+    )
+
+
+def parts_columns(lengths: Lengths = MM) -> tuple[str, ...]:
+    """The CSV header in ``lengths``' units, in column order; units are in the names."""
+    col = lengths.col
+    # inch stock is sold by fractions: the sizes in words, with them, in inches
+    words = ("stock_size",) if lengths.inches else ()
+    return (
+        "part",
+        "kind",
+        "quantity",
+        "stock",
+        *words,
+        col("sheet_thickness"),
+        col("stock_outside"),
+        col("stock_inside"),
+        col("overall_diameter"),
+        col("overall_length"),
+        col("volume") + "3",
+        col("bore"),
+        "note",
+    )
+
+
+#: CSV header in millimetres, in column order; units are in the names.
+PARTS_COLUMNS: tuple[str, ...] = parts_columns()
 
 
 def _loop_area(loop: np.ndarray) -> float:
@@ -136,7 +168,7 @@ def wheel_profile_area(part: WheelPart) -> float:
     return area
 
 
-def _wheel_row(part: WheelPart) -> BillRow:
+def _wheel_row(part: WheelPart, u: Lengths = MM) -> BillRow:
     outline = outline_for(part.tooth)
     tip = float(outline.radii.get("tip", np.hypot(*outline.polyline(0.01).T).max()))
     volume = wheel_profile_area(part) * part.face_width
@@ -145,17 +177,21 @@ def _wheel_row(part: WheelPart) -> BillRow:
     if part.hub_diameter > 0 and part.hub_length > 0:
         volume += math.pi / 4 * (part.hub_diameter**2 - part.bore**2) * part.hub_length
         length += part.hub_length
-        notes.append(f"hub {part.hub_diameter:g} x {part.hub_length:g} mm")
+        notes.append(f"hub {u.short(part.hub_diameter)} x {u.text(part.hub_length)}")
     if part.pin is not None and not part.pin.hole_only:
         volume += math.pi / 4 * part.pin.diameter**2 * part.pin.length
         length = max(length, part.face_width + part.pin.length)
-        notes.append(f"pin boss {part.pin.diameter:g} x {part.pin.length:g} mm")
+        notes.append(
+            f"pin boss {u.short(part.pin.diameter)} x {u.text(part.pin.length)}"
+        )
     if part.spokes:
         notes.append(f"{part.spokes} spokes")
     if part.bore_fit:
         notes.append(f"bore {part.bore_fit}")
     for x, y, d in part.holes:
-        notes.append(f"bore {d:.3f} mm at ({x:.3f}, {y:.3f}) for a carried arbor")
+        notes.append(
+            f"bore {u.num(d)} {u.unit} at ({u.num(x)}, {u.num(y)}) for a carried arbor"
+        )
     return BillRow(
         part=part.name,
         kind="wheel",
@@ -183,7 +219,7 @@ def _tube_note(design: Any, part: SleevePart) -> str:
     return ""
 
 
-def _sleeve_row(design: Any, part: SleevePart) -> BillRow:
+def _sleeve_row(design: Any, part: SleevePart, u: Lengths = MM) -> BillRow:
     ro, ri = part.outside / 2, part.inside / 2
     volume = math.pi * (ro**2 - ri**2) * part.length
     largest = part.outside
@@ -193,7 +229,7 @@ def _sleeve_row(design: Any, part: SleevePart) -> BillRow:
             largest = max(largest, d)
     note = _tube_note(design, part)
     if largest > part.outside:
-        collars = f"collars up to {largest:g} mm: turn from larger stock"
+        collars = f"collars up to {u.text(largest)}: turn from larger stock"
         note = f"{note}; {collars}" if note else collars
     return BillRow(
         part=part.name,
@@ -226,7 +262,7 @@ def _rod_row(part: ArborPart | PinPart) -> BillRow:
     )
 
 
-def _plate_row(part: PlatePart) -> BillRow:
+def _plate_row(part: PlatePart, u: Lengths = MM) -> BillRow:
     loop = edges_polyline(part.outline, _AREA_TOL)
     area = _loop_area(loop) - sum(math.pi / 4 * h.diameter**2 for h in part.holes)
     w = float(loop[:, 0].max() - loop[:, 0].min())
@@ -242,11 +278,11 @@ def _plate_row(part: PlatePart) -> BillRow:
         diameter=max(w, h),
         length=part.thickness,
         volume=area * part.thickness,
-        note=f"{w:.1f} x {h:.1f} mm, {len(part.holes)} holes (drilling chart)",
+        note=f"{_across(w, h, u)}, {len(part.holes)} holes (drilling chart)",
     )
 
 
-def _pillar_row(part: PillarPart) -> BillRow:
+def _pillar_row(part: PillarPart, u: Lengths = MM) -> BillRow:
     r = part.diameter / 2
     volume = math.pi * r**2 * part.length
     length = part.length
@@ -256,8 +292,8 @@ def _pillar_row(part: PillarPart) -> BillRow:
         volume += math.pi / 4 * part.spigot**2 * spigots
         length += spigots
         notes.append(
-            f"turned; spigots {part.spigot:g} mm at each end through the plates; back"
-            " end riveted over"
+            f"turned; spigots {u.text(part.spigot)} at each end through the plates;"
+            " back end riveted over"
         )
     for end, d, depth in (
         ("back", part.back_hole, part.back_depth),
@@ -265,7 +301,9 @@ def _pillar_row(part: PillarPart) -> BillRow:
     ):
         if d > 0 and depth > 0:
             volume -= math.pi / 4 * d**2 * depth
-            notes.append(f"{end} end drilled {d:g} mm x {depth:g} deep and tapped")
+            notes.append(
+                f"{end} end drilled {u.text(d)} x {u.short(depth)} deep and tapped"
+            )
     return BillRow(
         part=part.name,
         kind="pillar",
@@ -293,7 +331,7 @@ def _cock_how(design: Any, part: CockPart) -> str:
     return "screw it on, then ream its pivot hole through the plate's"
 
 
-def _cock_row(design: Any, part: CockPart) -> BillRow:
+def _cock_row(design: Any, part: CockPart, u: Lengths = MM) -> BillRow:
     w = part.width
     bar = (part.length * w + math.pi / 4 * w**2) * part.thickness
     foot = ((part.length - part.foot_from) * w + math.pi / 4 * w**2) * part.foot_height
@@ -312,15 +350,15 @@ def _cock_row(design: Any, part: CockPart) -> BillRow:
         length=height,
         volume=bar + foot - holes,
         note=(
-            f"bar {w:g} mm wide, {part.thickness:g} mm thick, pivot hole"
-            f" {part.pivot_hole:g} mm; foot {part.foot_height:g} mm high with"
-            f" {len(part.screws)} holes {part.screw_hole:g} mm x {part.screw_depth:g}"
-            f" deep, tapped; {_cock_how(design, part)}"
+            f"bar {u.text(w)} wide, {u.text(part.thickness)} thick, pivot hole"
+            f" {u.text(part.pivot_hole)}; foot {u.text(part.foot_height)} high with"
+            f" {len(part.screws)} holes {u.text(part.screw_hole)} x"
+            f" {u.short(part.screw_depth)} deep, tapped; {_cock_how(design, part)}"
         ),
     )
 
 
-def _bought_rows(parts: Sequence[Any]) -> list[BillRow]:
+def _bought_rows(parts: Sequence[Any], u: Lengths = MM) -> list[BillRow]:
     groups: dict[tuple[Any, ...], list[Any]] = {}
     for p in parts:
         if isinstance(p, ScrewPart):
@@ -333,7 +371,7 @@ def _bought_rows(parts: Sequence[Any]) -> list[BillRow]:
     for key, items in groups.items():
         first = items[0]
         if isinstance(first, ScrewPart):
-            name = f"{first.size} x {first.length:g} screw"
+            name = f"{first.size} x {first.length:g} screw"  # metric: mm always
             note = "socket head cap screw, ISO 4762"
             diameter, length = first.head_diameter, first.length + first.head_height
             volume = (
@@ -345,7 +383,12 @@ def _bought_rows(parts: Sequence[Any]) -> list[BillRow]:
                 )
             )
         else:
-            name = f"{first.stock_kind} {first.outside:g} x {first.inside:g} x {first.width:g}"
+            name = (
+                f"{first.stock_kind} {u.trade(first.outside)} x {u.trade(first.inside)}"
+                f" x {u.trade(first.width)}"
+            )
+            if u.inches:
+                name += " in"
             note = "from the design's stock list"
             diameter, length = first.outside, first.width
             volume = math.pi / 4 * (first.outside**2 - first.inside**2) * first.width
@@ -378,7 +421,9 @@ def _flat_area(profile: FlatProfile) -> float:
     return area
 
 
-def _display_row(part: HandPart | DialPart | CrankPart | KnobPart) -> BillRow:
+def _display_row(
+    part: HandPart | DialPart | CrankPart | KnobPart, u: Lengths = MM
+) -> BillRow:
     area = _flat_area(flat_profile(part))
     if isinstance(part, KnobPart):
         return BillRow(
@@ -392,7 +437,9 @@ def _display_row(part: HandPart | DialPart | CrankPart | KnobPart) -> BillRow:
         length = part.thickness + part.collet_length
         if part.collet > 0:
             volume += area_ring(part.collet, part.across) * part.collet_length
-            notes.append(f"collet {part.collet:g} x {part.collet_length:g} mm")
+            notes.append(
+                f"collet {u.short(part.collet)} x {u.text(part.collet_length)}"
+            )
         notes.append(f"{part.seat} seat")
     elif isinstance(part, DialPart):
         diameter = 2 * part.radius
@@ -404,16 +451,18 @@ def _display_row(part: HandPart | DialPart | CrankPart | KnobPart) -> BillRow:
         )
         if feet:
             notes.append(
-                f"{feet} feet {part.foot_diameter:g} x {part.foot_length:g} mm, each"
-                f" with a {part.foot_pin:g} mm pin through the front plate (rivet or"
-                " glue it behind); face printed 1:1 (svg) or engraved (dxf layer"
-                " ENGRAVE)"
+                f"{feet} feet {u.short(part.foot_diameter)} x"
+                f" {u.text(part.foot_length)}, each with a {u.text(part.foot_pin)} pin"
+                " through the front plate (rivet or glue it behind); face printed 1:1"
+                " (svg) or engraved (dxf layer ENGRAVE)"
             )
     else:
         diameter = 2 * (part.throw + part.arm / 2)
         length = part.thickness + part.handle_length
         volume += math.pi / 4 * part.handle_diameter**2 * part.handle_length
-        notes.append(f"handle {part.handle_diameter:g} x {part.handle_length:g} mm")
+        notes.append(
+            f"handle {u.short(part.handle_diameter)} x {u.text(part.handle_length)}"
+        )
     return BillRow(
         part.name, part.kind, "sheet", part.thickness, None, None, 1,
         diameter, length, volume, "; ".join(notes),
@@ -430,37 +479,52 @@ def bill_rows(design: Any, parts: Sequence[Any]) -> tuple[BillRow, ...]:
     of bought part (screws, bushes, bearings) with the count."""
     rows = []
     bought = []
+    u = lengths_of(design)
     for part in parts:
         if isinstance(part, WheelPart):
-            rows.append(_wheel_row(part))
+            rows.append(_wheel_row(part, u))
         elif isinstance(part, SleevePart):
-            rows.append(_sleeve_row(design, part))
+            rows.append(_sleeve_row(design, part, u))
         elif isinstance(part, (ArborPart, PinPart)):
             rows.append(_rod_row(part))
         elif isinstance(part, PlatePart):
-            rows.append(_plate_row(part))
+            rows.append(_plate_row(part, u))
         elif isinstance(part, PillarPart):
-            rows.append(_pillar_row(part))
+            rows.append(_pillar_row(part, u))
         elif isinstance(part, CockPart):
-            rows.append(_cock_row(design, part))
+            rows.append(_cock_row(design, part, u))
         elif isinstance(part, (ScrewPart, BearingPart)):
             bought.append(part)
         elif isinstance(part, (HandPart, DialPart, CrankPart, KnobPart)):
-            rows.append(_display_row(part))
+            rows.append(_display_row(part, u))
         else:
             raise ValueError(f"unknown part kind {type(part).__name__!r}")
-    return tuple(rows + _bought_rows(bought))
+    return tuple(rows + _bought_rows(bought, u))
 
 
-def _num(value: float | None, digits: int = 3) -> str:
-    return "" if value is None else f"{value:.{digits}f}"
+def _across(w: float, h: float, u: Lengths) -> str:
+    """A plate's size: ``"84.0 x 60.5 mm"``, ``"3.3071 x 2.3819 in"``."""
+    if u.inches:
+        return f"{u.num(w)} x {u.num(h)} in"
+    return f"{w:.1f} x {h:.1f} mm"
 
 
-def parts_csv(rows: Sequence[BillRow]) -> str:
-    """The bill of parts as CSV text (header first, ``\\n`` line ends)."""
+def volume_text(mm3: float | None, lengths: Lengths = MM) -> str:
+    """A volume in ``lengths``' cube: mm³ to 0.1, in³ to 0.0001."""
+    if mm3 is None:
+        return ""
+    if lengths.inches:
+        return f"{mm3 / float(MM_PER_INCH) ** 3:.4f}"
+    return f"{mm3:.1f}"
+
+
+def parts_csv(rows: Sequence[BillRow], lengths: Lengths = MM) -> str:
+    """The bill of parts as CSV text (header first, ``\\n`` line ends), its lengths
+    in ``lengths``' units."""
+    num = lengths.num
     buf = io.StringIO()
     writer = csv.writer(buf, lineterminator="\n")
-    writer.writerow(PARTS_COLUMNS)
+    writer.writerow(parts_columns(lengths))
     for r in rows:
         writer.writerow(
             [
@@ -468,13 +532,14 @@ def parts_csv(rows: Sequence[BillRow]) -> str:
                 r.kind,
                 str(r.quantity),
                 r.stock,
-                _num(r.thickness),
-                _num(r.stock_outside),
-                _num(r.stock_inside),
-                _num(r.diameter),
-                _num(r.length),
-                _num(r.volume, 1),
-                _num(r.bore),
+                *([r.stock_words(lengths)] if lengths.inches else []),
+                num(r.thickness),
+                num(r.stock_outside),
+                num(r.stock_inside),
+                num(r.diameter),
+                num(r.length),
+                volume_text(r.volume, lengths),
+                num(r.bore),
                 r.note,
             ]
         )
@@ -486,5 +551,6 @@ def parts_sheet_writer(
 ) -> list[Path]:
     """Sheet writer for ``wheelgen build``: writes ``parts.csv`` into ``staging_dir``."""
     path = Path(staging_dir) / PARTS_FILE
-    path.write_text(parts_csv(bill_rows(design, parts)), encoding="utf-8")
+    text = parts_csv(bill_rows(design, parts), lengths_of(design))
+    path.write_text(text, encoding="utf-8")
     return [path]

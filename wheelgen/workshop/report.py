@@ -23,6 +23,7 @@ from ..checks.findings import Finding, has_errors, sort_findings
 from ..design.model import Design
 from ..design.names import xml_text
 from ..design.periods import format_period
+from ..design.units import MM, Lengths, lengths_of
 from ..frame.plan import plan_frame
 from ..kinematics.rates import TrainSolution, solve_rates
 from ..kinematics.targets import (
@@ -32,14 +33,14 @@ from ..kinematics.targets import (
     evaluate_targets,
 )
 from ..layout.placement import arbor_positions
-from .cutting import CuttingRow, cutting_rows, indexing_text
+from .cutting import CuttingRow, cutting_rows, indexing_text, pitch_text
 from .dial_preview import dials_svg
 from .drilling import chart_holes, drilling_svg
 from .file_sizes import file_format, list_files, part_file, size_summary, size_text
 from .layout_drawing import layout_svg
 from .motion_plot import motion_plot_svg
 from .part_drawing import part_svg
-from .parts_bill import BillRow, bill_rows
+from .parts_bill import BillRow, bill_rows, volume_text
 from .preview import PreviewPlan, preview_plan, preview_svg
 from .te_plot import TeCurve, mesh_te_curves, te_comparison_svg, te_plot_svg
 from .train_diagram import train_diagram_svg
@@ -378,14 +379,23 @@ def _preview(
     )
 
 
-def _parts(parts: Sequence[Any], bill: Sequence[BillRow]) -> str:
+def _parts(parts: Sequence[Any], bill: Sequence[BillRow], u: Lengths = MM) -> str:
     figs = []
     by_name = {r.part: r for r in bill}
     for part in parts:
         row = by_name.get(part.name)
         if row is None:  # a bought part: counted in the bill, not drawn
             continue
-        if row.kind == "wheel":
+        if u.inches:
+            d, t = u.text(row.diameter), u.text(row.length)
+            size = (
+                f"\u00d8{d}, {t} thick"
+                if row.kind == "wheel"
+                else f"{d} across, {t} thick"
+                if row.kind in ("plate", "cock")
+                else f"\u00d8{u.short(row.diameter)} x {t}"
+            )
+        elif row.kind == "wheel":
             size = f"\u00d8{row.diameter:.2f} mm, {row.length:g} mm thick"
         elif row.kind in ("plate", "cock"):
             size = f"{row.diameter:.1f} mm across, {row.length:g} mm thick"
@@ -400,10 +410,10 @@ def _parts(parts: Sequence[Any], bill: Sequence[BillRow]) -> str:
             _e(r.part),
             _e(r.kind),
             _e(r.quantity),
-            _e(r.stock_text),
-            _e(f"{r.diameter:.2f}"),
-            _e(f"{r.length:.2f}"),
-            _e(f"{r.volume / 1000:.3f}"),
+            _e(r.stock_words(u)),
+            _e(u.num(r.diameter, 2)),
+            _e(u.num(r.length, 2)),
+            _e(volume_text(r.volume, u) if u.inches else f"{r.volume / 1000:.3f}"),
             _e(r.note),
         ]
         for r in bill
@@ -414,45 +424,56 @@ def _parts(parts: Sequence[Any], bill: Sequence[BillRow]) -> str:
         "kind",
         "qty",
         "stock",
-        "overall diameter (mm)",
-        "length (mm)",
-        "volume (cm\u00b3)",
+        u.head("overall diameter"),
+        u.head("length"),
+        "volume (in\u00b3)" if u.inches else "volume (cm\u00b3)",
         "note",
     ]
     return (
         f'<div class="parts">{"".join(figs)}</div>'
         "<h3>Bill of parts</h3>"
         + _table(head, rows, {2, 4, 5, 6})
-        + f"<p>Total volume {total:.2f} cm\u00b3 (solid; for printed parts the plastic "
+        + f"<p>Total volume {_total_volume(total, u)} (solid; for printed parts the plastic "
         "at 100 % infill, an estimate from the flat profiles).</p>"
     )
 
 
-def _cutting(rows: Sequence[CuttingRow]) -> str:
+def _total_volume(cm3: float, u: Lengths) -> str:
+    if u.inches:
+        return f"{volume_text(cm3 * 1000, u)} in\u00b3"
+    return f"{cm3:.2f} cm\u00b3"
+
+
+def _cutting(rows: Sequence[CuttingRow], u: Lengths = MM) -> str:
     if not rows:
         return "<p>No wheels to cut.</p>"
     out = []
     for r in rows:
         cutter = ""
         if r.cutter_number is not None:
-            cutter = f"No. {r.cutter_number} ({r.cutter_range})"
-        span = "" if r.span_width is None else f"{r.span_width:.4f} over {r.span_teeth}"
+            dp = "" if r.diametral_pitch is None else f"{r.diametral_pitch:g} DP "
+            cutter = f"{dp}No. {r.cutter_number} ({r.cutter_range})"
+        span = (
+            ""
+            if r.span_width is None
+            else f"{u.num(r.span_width, 4)} over {r.span_teeth}"
+        )
         pins = (
             ""
             if r.over_pins is None
-            else f"{r.over_pins:.4f} over \u00d8{r.pin_diameter:.3f} pins"
+            else f"{u.num(r.over_pins, 4)} over \u00d8{u.num(r.pin_diameter)} pins"
         )
         out.append(
             [
                 _e(r.wheel),
                 _e(r.teeth),
-                _e(f"{r.module:g}"),
+                _e(pitch_text(r, u)),
                 _e(r.form),
                 _e(f"{r.angle_deg:g}"),
                 _e(f"{r.shift:g}"),
-                _e(f"{r.face_width:g}"),
-                _e(_num(r.blank_diameter)),
-                _e(_num(r.full_depth)),
+                _e(u.short(r.face_width)),
+                _e(u.num(r.blank_diameter)),
+                _e(u.num(r.full_depth)),
                 _e(cutter),
                 _e(indexing_text(r.indexing)),
                 _e(span),
@@ -462,17 +483,17 @@ def _cutting(rows: Sequence[CuttingRow]) -> str:
     head = [
         "wheel",
         "teeth",
-        "module",
+        "diametral pitch" if u.inches else "module",
         "form",
         "angle (deg)",
         "shift x",
-        "face (mm)",
-        "blank \u00d8 (mm)",
-        "full depth (mm)",
+        u.head("face"),
+        u.head("blank \u00d8"),
+        u.head("full depth"),
         "form cutter",
         "indexing",
-        "span W<sub>k</sub> (mm) over k teeth",
-        "over pins (mm)",
+        f"span W<sub>k</sub> ({u.unit}) over k teeth",
+        u.head("over pins"),
     ]
     notes = [f"<li>{_e(r.wheel)}: {_e(w)}</li>" for r in rows for w in r.warnings]
     extra = f"<ul>{''.join(notes)}</ul>" if notes else ""
@@ -488,15 +509,16 @@ def _cutting(rows: Sequence[CuttingRow]) -> str:
 def _drilling(design: Design, unchecked: bool) -> str:
     if design.frame is None:
         return "<p>The design has no frame plates: nothing to drill.</p>"
+    u = lengths_of(design)
     frame = plan_frame(design)
     out = [
         "<p>Datum: the axis of the drive arbor; X to the right, Y up, seen from the "
         "front. The same figures drill the back plate from its inner face. Every "
-        f"hole's position is held to \u00b1{frame.limits.position_tolerance:.3f} mm "
+        f"hole's position is held to \u00b1{u.fixed(frame.limits.position_tolerance, 3)} "
         "(half the process's centre tolerance, so that two holes keep a mesh's "
         "centre distance); diameters within the limits listed. The charts list the "
         "pivots, the pillars' holes and the cocks' mounting holes; the 1:1 charts "
-        "(with the plate's outline and a 50 mm check bar) are in the "
+        f"(with the plate's outline and a {u.bar.label} check bar) are in the "
         "<code>drilling</code> folder of the build, the plates themselves in "
         "<code>dxf</code> and <code>svg</code>.</p>"
     ]
@@ -506,11 +528,11 @@ def _drilling(design: Design, unchecked: bool) -> str:
             [
                 _e(h.number),
                 _e(h.member),
-                _e(f"{h.x:.4f}"),
-                _e(f"{h.y:.4f}"),
-                _e(f"{h.nominal:.3f}"),
+                _e(u.num(h.x, 4)),
+                _e(u.num(h.y, 4)),
+                _e(u.num(h.nominal, 3)),
                 _e(h.fit),
-                _e(f"{h.low:.4f} to {h.high:.4f}"),
+                _e(f"{u.num(h.low, 4)} to {u.num(h.high, 4)}"),
                 _e(h.role),
             ]
             for h in holes
@@ -518,11 +540,11 @@ def _drilling(design: Design, unchecked: bool) -> str:
         head = [
             "hole",
             "holds",
-            "X (mm)",
-            "Y (mm)",
-            "nominal Ø (mm)",
+            u.head("X"),
+            u.head("Y"),
+            u.head("nominal Ø"),
             "fit",
-            "limits Ø (mm)",
+            u.head("limits Ø"),
             "role",
         ]
         svg = drilling_svg(design, plate, unchecked)
@@ -597,11 +619,12 @@ def report_html(
         plan = None
     cutting = cutting_rows(parts)
     bill = bill_rows(design, parts)
+    u = lengths_of(design)
     nav = "".join(f'<li><a href="#{k}">{_e(v)}</a></li>' for k, v in _SECTIONS)
     body = {
         "layout": (
             f"<figure>{layout_svg(design, positions)}<figcaption>Seen from the front, "
-            "in millimetres: the plates' outline with the pillars (grey discs) and the "
+            f"{'labelled in inches' if u.inches else 'in millimetres'}: the plates' outline with the pillars (grey discs) and the "
             "cocks (tan bars), pitch circles in their arbor's colour (dashed: fixed), "
             "meshes as dashed lines between centres with a dot at the pitch point, "
             "pin-and-slot couplings in red.</figcaption></figure>"
@@ -618,8 +641,8 @@ def report_html(
         "motion": _motion(design, plan),
         "transmission": _transmission(mesh_te_curves(design)),
         "preview": _preview(design, positions, plan),
-        "parts": _parts(parts, bill),
-        "cutting": _cutting(cutting),
+        "parts": _parts(parts, bill, u),
+        "cutting": _cutting(cutting, u),
         "drilling": _drilling(design, has_errors(findings)),
         "files": _files(parts, files),
     }
