@@ -29,6 +29,7 @@ import pytest
 from click.testing import CliRunner
 
 from wheelgen.cli import main
+from wheelgen.design import loads_design
 from wheelgen.design.bounds import BOUNDS
 from wheelgen.design.diametral_pitch import (
     FINE_PITCH_FROM,
@@ -256,3 +257,38 @@ def test_a_dp_spec_must_agree_with_its_module():
     with pytest.raises(ValueError, match="diametral_pitch"):
         ToothSpec(teeth=20, module=1.0, diametral_pitch=32)
     assert math.isclose(dp_spec(20, 48).module * 48, INCH)
+
+
+def _ratio(*args: str):
+    return CliRunner().invoke(main, ["ratio", *args])
+
+
+def test_ratio_sizes_at_a_diametral_pitch(tmp_path):
+    out = tmp_path / "train.toml"
+    result = _ratio(
+        "12", "--teeth", "12-80", "--stages", "2", "--dp", "32",
+        "--max-diameter", "2.2in", "--top", "3", "--write", str(out),
+    )  # fmt: skip
+    assert result.exit_code == 0, result.output
+    # derived: a tip of 2.2 in at 32 DP is (z + 2) / 32 <= 2.2, so z <= 68
+    assert "teeth 12-68 (from --max-diameter)" in result.output
+    assert "32 DP" in result.output and "tip in" in result.output
+    # derived: the largest wheel of each train is 48 teeth, (48 + 2) / 32 = 1.5625 in
+    assert "1.5625" in result.output
+    design = loads_design(out.read_text(encoding="utf-8"), str(out))
+    assert design.units == "in"
+    assert {w.diametral_pitch for w in design.wheels} == {32}
+    assert {w.module for w in design.wheels} == {0.79375}  # derived: 25.4 / 32
+
+
+def test_ratio_needs_one_tooth_size():
+    result = _ratio("12", "--dp", "32", "--module", "1")
+    assert result.exit_code == 2
+    assert "--module (and --stage-module) or as --dp" in result.output
+
+
+def test_ratio_advice_at_a_diametral_pitch():
+    # derived: 254/19 needs a 127-tooth wheel: (127 + 2) / 32 = 4.03125 in
+    result = _ratio("254/19", "--dp", "32", "--max-diameter", "2in", "--stages", "2")
+    assert result.exit_code == 1
+    assert "at 32 DP that needs --max-diameter 4.0313in" in result.stderr

@@ -71,7 +71,8 @@ class TrainPlan:
     ``module`` goes into ``[defaults]`` (wheels whose module differs carry their own);
     ``plates`` are the inner faces of the back and front plate. A train cut to a
     ``diametral_pitch`` (teeth per inch) has it in ``[defaults]`` instead of the
-    module (which is then 25.4 / it for every wheel), and lengths written in inches.
+    module (which is then 25.4 / it for every wheel) and `units = "in"` in `[design]`;
+    the lengths stay numbers of millimetres.
     """
 
     module: float
