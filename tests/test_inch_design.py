@@ -124,6 +124,8 @@ def test_the_stock_tube_is_chosen_with_the_iso_286_fit(inch):
     assert sleeve.inside == pytest.approx(0.1252 * INCH, abs=1e-9)
     assert 3.175 <= sleeve.inside <= 3.175 + 0.012
     assert sleeve.outside == pytest.approx(0.1875 * INCH, abs=1e-9)
+    (note,) = [f for f in analyse(inch).findings if f.check == "layout.stock"]
+    assert "(3/16 x 0.1252 in; bore on 3.175 mm, H7/g6)" in note.message
 
 
 def test_the_drilling_chart_is_in_inches(inch):

@@ -13,6 +13,7 @@ from typing import Any
 from ..checks.findings import Change, Finding
 from ..design.model import Design
 from ..design.process_limits import centre_tolerance
+from ..design.units import lengths_of
 from ..teeth.limits import short_of
 from ..teeth.mesh_data import shift_for_centre_distance
 from .carrier_holes import carrier_hole_problems
@@ -32,6 +33,15 @@ FACE_OVERLAP_MIN = 0.8
 
 def _mm(x: float) -> str:
     return f"{x:.3f} mm"
+
+
+def _in_inches(design: Design, *sizes: float) -> str:
+    """``"3/16 x 0.1252 in; "`` to put beside stock sizes in mm when the design's
+    units are inches (the findings are in mm); ``""`` otherwise."""
+    u = lengths_of(design)
+    if not u.inches:
+        return ""
+    return f"{' x '.join(u.trade(v) for v in sizes)} in; "
 
 
 def layout_findings(design: Design, analysis: Any) -> list[Finding]:
@@ -83,7 +93,9 @@ def findings_for_layout(layout: Layout, rates: dict[str, Any]) -> list[Finding]:
                     "layout.stock",
                     f"sleeve {s.name}",
                     f'sleeve "{s.name}" is cut from stock tube {s.stock.outside:g} x'
-                    f" {s.stock.inside:g} mm (bore on {s.bore.shaft:g} mm, {s.bore.fit})",
+                    f" {s.stock.inside:g} mm"
+                    f" ({_in_inches(design, s.stock.outside, s.stock.inside)}bore on"
+                    f" {s.bore.shaft:g} mm, {s.bore.fit})",
                 )
             )
         elif s.stock_refused:
