@@ -16,7 +16,7 @@ import click
 
 from ..checks.findings import Finding
 from ..checks.mesh_checks import check_mesh, check_wheel
-from ..design.diametral_pitch import inch_rack, module_of_dp
+from ..design.diametral_pitch import inch_rack, module_of_dp, pitch_words
 from ..design.model import Process
 from ..design.tooth_defaults import tooth_defaults
 from ..design.units import MM, UNITS, Lengths
@@ -31,13 +31,6 @@ from ._options import Bounded, Length
 __all__ = ["gear_command"]
 
 
-def _pitch_words(module: float, diametral_pitch: float | None) -> str:
-    """``module 1 mm`` or ``32 diametral pitch (module 0.79375 mm)``."""
-    if diametral_pitch is None:
-        return f"module {module:g} mm"
-    return f"{diametral_pitch:g} diametral pitch (module {module:g} mm)"
-
-
 def _sizes(lengths: Lengths) -> Any:
     """The writer of one size on a sheet: ``"31.7500 mm"``, or in inches
     ``"1.2500 in (31.7500 mm)"``; ``"-"`` for none."""
@@ -50,7 +43,7 @@ def _sizes(lengths: Lengths) -> Any:
 
 def _sheet(data: GearData, name: str, lengths: Lengths = MM) -> list[str]:
     _mm = _sizes(lengths)
-    pitch = _pitch_words(data.module, data.diametral_pitch)
+    pitch = pitch_words(data.module, data.diametral_pitch, with_module=True)
     lines = [
         f"{name}: {data.teeth} teeth, {pitch}, involute, "
         f"{data.pressure_angle_deg:g} deg pressure angle, shift {data.shift:+g}",
@@ -158,7 +151,7 @@ def _triangular_sheet(
     diametral_pitch: float | None = None,
 ) -> list[str]:
     _mm = _sizes(lengths)
-    pitch = _pitch_words(data.module, diametral_pitch)
+    pitch = pitch_words(data.module, diametral_pitch, with_module=True)
     lines = [
         f"{name}: {data.teeth} teeth, {pitch}, triangular",
         f"  tooth angle           {data.tooth_angle_deg:.4f} deg (included, as cut; "
@@ -526,7 +519,7 @@ def _gear(
         if svg_path is not None:
             svg_text = outline_svg(
                 outline_for(spec),
-                title=f"{teeth} teeth, {_pitch_words(size, dp)}, {form}",
+                title=f"{teeth} teeth, {pitch_words(size, dp, with_module=True)}, {form}",
             )
         # the verdicts are the checks' own, so 'gear' and 'check' always agree
         verdicts = check_wheel(spec, "wheel")

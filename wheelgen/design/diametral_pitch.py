@@ -35,6 +35,7 @@ __all__ = [
     "inch_rack",
     "largest_rack_tip_radius",
     "module_of_dp",
+    "pitch_words",
 ]
 
 #: Diametral pitches from this one up are fine pitch (Mott, Table 8-4: "P >= 20").
@@ -65,6 +66,17 @@ def module_of_dp(dp: float | Fraction) -> float:
     if p <= 0:
         raise ValueError(f"'diametral_pitch' must be > 0 teeth per inch, got {dp}")
     return float(MM_PER_INCH / p)
+
+
+def pitch_words(
+    module: float, diametral_pitch: float | None, with_module: bool = False
+) -> str:
+    """The size of a wheel's teeth in words: ``"module 1 mm"``, ``"32 diametral
+    pitch"``, or with ``with_module`` ``"32 diametral pitch (module 0.79375 mm)"``."""
+    if diametral_pitch is None:
+        return f"module {module:g} mm"
+    words = f"{diametral_pitch:g} diametral pitch"
+    return f"{words} (module {module:g} mm)" if with_module else words
 
 
 def largest_rack_tip_radius(dedendum: float, pressure_angle_deg: float) -> float:

@@ -20,7 +20,7 @@ from pathlib import Path
 from typing import Any, Callable
 
 from .bounds import BOUNDS, Bound
-from .diametral_pitch import inch_rack, module_of_dp
+from .diametral_pitch import inch_rack, module_of_dp, pitch_words
 from .errors import DesignError, Problem
 from .model import (
     Arbor,
@@ -433,9 +433,7 @@ class _Lines:
 
 def _pitch_words(wheel: Wheel) -> str:
     """``wheel "a" (module 1 mm)`` or ``wheel "b" (32 diametral pitch)``."""
-    if wheel.diametral_pitch is None:
-        return f"wheel {_show(wheel.name)} (module {wheel.module:g} mm)"
-    return f"wheel {_show(wheel.name)} ({wheel.diametral_pitch:g} diametral pitch)"
+    return f"wheel {_show(wheel.name)} ({pitch_words(wheel.module, wheel.diametral_pitch)})"
 
 
 def _axis(by_arbor: dict[str, Arbor], name: str) -> str:
