@@ -8,7 +8,8 @@ Sources, each named again beside its values:
   0.25/P; fine pitch (P >= 20) addendum 1/P, dedendum 1.200/P + 0.002, clearance
   0.200/P + 0.002 (inches).
 - [PIC] PIC Design, "Gear Pitch Equivalents", Table 7.2 "Spur Gear Data" (addendum,
-  dedendum and whole depth of the standard stock pitches, inches, 4 decimals).
+  dedendum and whole depth of the standard stock pitches, inches, 4 decimals; its
+  rows from 24 DP agree with [Mott]'s fine-pitch formulas to the last digit).
 - [MH] *Machinery's Handbook*, "Checking Gear Size by Measurement over Wires or Pins",
   as reproduced by ashokagears.net/gear-size.html: wire 1.728/P for external spur
   gears; 32 teeth, 4 DP, 20 deg: 34.4130 at 1 DP, so 34.4130 / 4 = 8.6032 in.
@@ -173,6 +174,26 @@ def test_span_of_the_published_example_cut_to_its_diametral_pitch():
     measured = measure_span(outline_for(dp_spec(20, 12.7)), 4)
     assert measured.on_flank
     assert measured.width == pytest.approx(21.225, abs=5e-4)  # [MC] over 4 teeth
+
+
+def test_span_of_an_inch_wheel_in_inches():
+    # derived (ISO 21771 span formula, in inches): W = cos a [pi (k - 0.5) + z inv a] / P;
+    # 20 teeth, 32 DP, k = 3: 0.93969 x (7.85398 + 20 x 0.014904) / 32 = 0.23939 in.
+    # The span of module 1 over 3 of 20 teeth, 7.6604 mm (from memory, the usual span
+    # tables for module 1), divided by 32 gives the same.
+    a = math.radians(20.0)
+    inv = math.tan(a) - a
+    expected = math.cos(a) * (math.pi * 2.5 + 20 * inv) / 32
+    assert expected == pytest.approx(7.6604 / 32, abs=1e-5)
+    spec = dp_spec(20, 32)
+    data = gear_data(spec)
+    assert data.span_teeth == 3
+    assert data.span_width / INCH == pytest.approx(expected, abs=1e-9)
+    # measured on the generated outline, and as the data sheet prints it
+    assert measure_span(outline_for(spec), 3).width / INCH == pytest.approx(
+        expected, abs=1e-6
+    )
+    assert "span over 3 teeth     0.2394 in" in _gear("-z", "20", "--dp", "32").output
 
 
 @pytest.mark.parametrize(
