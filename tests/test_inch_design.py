@@ -283,3 +283,22 @@ def test_the_build_sheets_are_in_inches(builds):
     assert "stock_size" in header and "_mm" not in header
     assert "_mm" not in (inch / "drilling" / "back.csv").read_text().splitlines()[0]
     assert "blank_diameter_mm" in (mm / "cutting.csv").read_text().splitlines()[0]
+
+
+@pytest.mark.cad
+def test_build_units_option_writes_a_millimetre_design_in_inches(tmp_path):
+    import ezdxf
+    from click.testing import CliRunner
+
+    from wheelgen.cli import main
+
+    pytest.importorskip("cadquery")
+    out = tmp_path / "out"
+    result = CliRunner().invoke(
+        main,
+        ["build", str(MM_FILE), "--units", "in", "--formats", "dxf", "-o", str(out)],
+    )
+    assert result.exit_code == 0, result.output
+    header = (out / "cutting.csv").read_text(encoding="utf-8").splitlines()[0]
+    assert "blank_diameter_in" in header
+    assert ezdxf.readfile(out / "dxf" / "hour_wheel.dxf").header["$INSUNITS"] == 1
