@@ -115,6 +115,8 @@ def test_the_parts_sheet_gives_inch_stock_with_fractions(inch):
     # the stock tube of the list, 3/16 x 0.1252 in, runs on the 1/8 in centre arbor
     assert rows["hour"]["stock_size"] == "tube 0.1875 in (3/16) x 0.1252 in"
     assert "bush 5/32 x 0.094 x 3/32 in" in rows
+    # a bore on fractional rod names the rod as the trade does; its limits to 0.0001 in
+    assert rows["cannon_pinion"]["note"] == "bore H7/g6 on 1/8 in: 0.1250 to 0.1255 in"
 
 
 def test_the_stock_tube_is_chosen_with_the_iso_286_fit(inch):

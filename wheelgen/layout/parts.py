@@ -110,13 +110,13 @@ def _fit_text(bore: Bore, u: Lengths = MM) -> str:
     """What sets a bore, in the design's units: ``"H7/g6 on 3 mm: 3.000 to 3.010 mm"``."""
     if bore.zone:
         return (
-            f"{bore.fit} on {u.text(bore.shaft)}: {u.num(bore.low)} to "
+            f"{bore.fit} on {u.trade(bore.shaft)} {u.unit}: {u.num(bore.low)} to "
             f"{u.num(bore.high)} {u.unit}"
         )
     fit = bore.fit
     if u.inches and not bore.zone and fit.startswith("print clearance"):
         fit = f"print clearance {u.text(bore.clearance / 2)}"
-    return f"{fit} on {u.text(bore.shaft)}"
+    return f"{fit} on {u.trade(bore.shaft)} {u.unit}"
 
 
 def plan_parts(design: Design) -> tuple[Part, ...]:
