@@ -288,6 +288,29 @@ BOUNDS: dict[str, Bound] = {
         1, 2_000_000, "values", "samples times arbors in a CSV table or a plot: two "
         "million values is more than a spreadsheet opens", whole=True,
     ),
+    "option.ratio.stages": Bound(
+        1, 4, "stages", "four stages of counts up to 150 already come within 1e-9 ppm "
+        "of any ratio; a fifth would only cost time (the search grows with n**5)",
+        whole=True,
+    ),
+    "option.ratio.top": Bound(
+        1, 10_000, "trains", "10000 rows are more than anyone reads, and the cost of "
+        "the list grows with its length", whole=True,
+    ),
+    "option.ratio.shift_sum": Bound(
+        0, 2, "", "the train format allows a shift of 2 per wheel, but more than 1 per "
+        "wheel points the tips of the small wheels a motion work uses (common "
+        "practice, no source)",
+    ),
+    "option.ratio.target_chars": Bound(
+        1, 40, "characters", "40 characters of number hold any measured ratio; a longer "
+        "number would first be built as a huge integer", whole=True,
+    ),
+    "option.ratio.target_exponent": Bound(
+        0, 30, "", "a target is a ratio of turns the train format can hold; 10**30 "
+        "reaches far past it, so a larger exponent is refused before any arithmetic",
+        whole=True,
+    ),
     "option.index.divisions": Bound(
         2, 10_000, "divisions", "a dividing head is read to one hole space: beyond "
         "10000 divisions the steps are too small to set", whole=True,

@@ -109,6 +109,7 @@ from typing import Literal
 
 import numpy as np
 
+from ..design.bounds import bound
 from ..design.loader import MAX_TEETH
 from ..design.model import RelativeSense
 from .continued_fraction import prime_factors, simplest_between
@@ -144,14 +145,14 @@ __all__ = [
 ]
 
 # ---------------------------------------------------------------- limits and budget
-# Every limit of the search in one place, each with its reason.
+# The limits of the search; the user-facing ones live with their reasons in the bounds
+# table (design/bounds.py), the budget's own figures here.
 
-#: Stages of a compound train: four stages of counts up to 150 already reach ratios
-#: of 1e-9 ppm; a fifth would only cost time (the table grows with n**5).
-MAX_STAGES = 4
-#: Longest list of trains: 10,000 rows are more than anyone reads; the cost of a list
-#: grows with its length (two passes over about ``top`` pairs, then sorting).
-MAX_TOP = 10_000
+#: Stages of a compound train (``option.ratio.stages`` of the bounds table).
+MAX_STAGES = int(bound("option.ratio.stages").high)
+#: Longest list of trains (``option.ratio.top``): the cost of a list grows with its
+#: length (two passes over about ``top`` pairs, then sorting).
+MAX_TOP = int(bound("option.ratio.top").high)
 #: Memory the product tables and the pair search may take together: 2 GiB, so a
 #: search fits beside the operating system on a small workshop computer.
 SEARCH_MEMORY_BUDGET = 2 * 1024**3
@@ -170,25 +171,22 @@ _NS_PER_PRODUCT = 200.0
 _BYTES_PER_PRODUCT = 128
 #: Distinct products a table may hold within :data:`SEARCH_MEMORY_BUDGET`.
 MAX_PRODUCTS = SEARCH_MEMORY_BUDGET // _BYTES_PER_PRODUCT
-#: A target is typed by a person: 40 characters of number hold any measured ratio,
-#: and ``Fraction("1e999999")`` would first build a huge integer (and ``int()``
-#: refuses more than 4300 digits with a message about Python internals). The value
-#: itself must lie where a target of the train format may (``MIN_TURNS`` to
-#: ``MAX_TURNS`` of the loader).
-MAX_TARGET_CHARS, MAX_TARGET_EXPONENT = 40, 30
-#: Module range of ``wheelgen ratio`` (mm): from fine watch-sized teeth to heavy
-#: machine teeth; beyond these a model train is not the job (common practice, no
-#: source).
-MIN_MODULE, MAX_MODULE = 0.05, 50.0
-#: Largest profile-shift sum ``x1 + x2`` a coaxial stage may take: the train format
-#: allows up to 2 per wheel, but more than 1 per wheel points the tips of the small
-#: wheels a motion work uses (common practice, no source).
-MAX_SHIFT_SUM = 2.0
+#: A target is typed by a person; ``Fraction("1e999999")`` would first build a huge
+#: integer (and ``int()`` refuses more than 4300 digits with a message about Python
+#: internals), so its length and exponent are bounded before any arithmetic
+#: (``option.ratio.target_chars`` and ``target_exponent``). The value itself must lie
+#: where a target of the train format may (``MIN_TURNS`` to ``MAX_TURNS`` of the loader).
+MAX_TARGET_CHARS = int(bound("option.ratio.target_chars").high)
+MAX_TARGET_EXPONENT = int(bound("option.ratio.target_exponent").high)
+#: Module range of ``wheelgen ratio`` (mm): that of a train file.
+MIN_MODULE, MAX_MODULE = float(bound("module").low), float(bound("module").high)
+#: Largest profile-shift sum ``x1 + x2`` a coaxial stage may take
+#: (``option.ratio.shift_sum``).
+MAX_SHIFT_SUM = float(bound("option.ratio.shift_sum").high)
 #: Largest tolerance (ppm), as for a target of the train format.
-MAX_TOLERANCE_PPM = 10**6
-#: Largest worm ratio of a dividing head: heads and rotary tables are made from about
-#: 4:1 to 360:1 (common practice, no source); as for ``wheelgen index --ratio``.
-MAX_HEAD_RATIO = 1000
+MAX_TOLERANCE_PPM = int(bound("tolerance_ppm").high)
+#: Largest worm ratio of a dividing head, as for ``wheelgen index --ratio``.
+MAX_HEAD_RATIO = int(bound("option.index.ratio").high)
 # products are packed with their smallest factor sum into one int64 sort key
 _INT64_LIMIT = 2**62
 # one outer product of a chunk holds about this many products (64 MB as int64)
