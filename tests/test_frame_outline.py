@@ -14,6 +14,7 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from wheelgen.frame.outline import (
+    _outermost,
     edges_polyline,
     outline_distance,
     polygon_outline,
@@ -167,3 +168,33 @@ def test_sharp_polygon_keeps_its_corners():
     pts = [(0.0, 0.0), (50.0, 0.0), (25.0, 40.0)]
     loop = edges_polyline(polygon_outline(pts, 0.0), 0.01)
     assert area(loop) == pytest.approx(0.5 * 50 * 40)
+
+
+@settings(max_examples=60, deadline=None)
+@given(
+    st.lists(
+        st.tuples(
+            st.integers(-40, 40).map(float),
+            st.integers(-40, 40).map(float),
+            st.integers(1, 30).map(float),
+        ),
+        min_size=1,
+        max_size=25,
+        unique=True,
+    )
+)
+def test_circles_inside_others_are_dropped_as_by_comparing_every_pair(circles):
+    # derived: circle i lies inside circle j when |c_i c_j| + r_i <= r_j; of two equal
+    # ones the later in sorted order is kept. The broad phase must drop the same ones.
+    unique = sorted(circles)
+    kept = []
+    for i, (xi, yi, ri) in enumerate(unique):
+        held = any(
+            math.hypot(xi - xj, yi - yj) + ri <= rj + 1e-9
+            and (rj > ri or (rj == ri and j > i))
+            for j, (xj, yj, rj) in enumerate(unique)
+            if j != i
+        )
+        if not held:
+            kept.append(unique[i])
+    assert _outermost(unique) == kept

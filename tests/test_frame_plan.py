@@ -16,6 +16,8 @@ from pathlib import Path
 
 import numpy as np
 import pytest
+from hypothesis import given, settings
+from hypothesis import strategies as st
 
 from tests._demo import DEMO_TEXT, demo_variant
 from wheelgen.checks.engine import analyse
@@ -469,3 +471,60 @@ def test_small_train_gets_its_pillars_on_a_larger_plate():
         for b in pts[i + 1 :]:
             assert math.dist(a, b) >= 10.0 + 1.5  # bodies 1.5 mm apart (print)
     assert errors(design, "frame.pillar_room") == []
+
+
+# --- the broad phases of the pillar search agree with testing everything ------------
+
+
+@settings(max_examples=40, deadline=None)
+@given(
+    zones=st.lists(
+        st.tuples(
+            st.floats(-60, 60),
+            st.floats(-60, 60),
+            st.floats(0, 8),
+            st.floats(0.5, 30),
+            st.one_of(st.none(), st.tuples(st.floats(-60, 60), st.floats(-60, 60))),
+        ),
+        min_size=1,
+        max_size=12,
+    ),
+    seed=st.integers(0, 2**16),
+)
+def test_pillar_places_clear_of_zones_as_by_testing_every_zone(zones, seed):
+    # derived: a place is clear when its disc keeps the gap from every zone
+    # (keepout.disc_gap); only the zones' reach boxes are searched
+    from wheelgen.frame.keepout import Zone, disc_gap
+    from wheelgen.frame.pillars import _clear
+
+    zs = [
+        Zone(
+            f"z{i}",
+            x,
+            y,
+            min(inner, outer / 2) if to is None else 0.0,
+            outer,
+            0,
+            1,
+            to=to,
+        )
+        for i, (x, y, inner, outer, to) in enumerate(zones)
+    ]
+    pts = np.random.default_rng(seed).uniform(-100, 100, (300, 2))
+    every = np.ones(len(pts), dtype=bool)
+    for z in zs:
+        every &= disc_gap(pts[:, 0], pts[:, 1], 3.0, z) >= 2.0 - 1e-9
+    assert np.array_equal(_clear(pts[:, 0], pts[:, 1], zs, 3.0, 2.0), every)
+
+
+@settings(max_examples=40, deadline=None)
+@given(
+    st.lists(st.tuples(st.floats(-50, 50), st.floats(-50, 50)), min_size=1, max_size=30)
+)
+def test_a_convex_polygon_holds_every_pivot_when_it_holds_their_hull(pivots):
+    # derived: a convex set holds points exactly when it holds their convex hull
+    from wheelgen.frame.pillars import _encloses, _outer_pivots
+
+    p = np.array(pivots)
+    square = np.array([[[-30, -30], [30, -30], [30, 30], [-30, 30]]], dtype=float)
+    assert bool(_encloses(square, _outer_pivots(p))[0]) == bool(_encloses(square, p)[0])

@@ -33,6 +33,7 @@ import numpy as np
 from ..checks.findings import Finding, Level
 from ..design.model import Design
 from ..layout.collisions import inside_polygon
+from ..layout.proximity import overlapping_pairs
 from ..layout.sleeves import coaxial_groups
 from .keepout import Zone, bar_gap, disc_gap, zones_between
 from .limits import (
@@ -42,6 +43,7 @@ from .limits import (
     WALL_MIN,
     min_centre_distance,
     min_edge_distance,
+    spacing_reach,
 )
 from .outline import edges_polyline, outline_distance
 from .plan import FramePlan, plan_frame
@@ -379,25 +381,30 @@ def _material(plan: FramePlan) -> list[Finding]:
                         " rectangle or polygon, or margin)",
                     )
                 )
-        for i, a in enumerate(holes):
-            for b in holes[i + 1 :]:
-                need = min_centre_distance(a.diameter, b.diameter, lim)
-                got = float(np.hypot(a.x - b.x, a.y - b.y))
-                if got < need - 1e-6:
-                    out.append(
-                        Finding(
-                            "error",
-                            "frame.material",
-                            f"{plate.name}: holes for {a.what} and {b.what}",
-                            f"the holes for {a.what} ({a.diameter:g} mm) and {b.what}"
-                            f" ({b.diameter:g} mm) in the {plate.side} plate are"
-                            f" {_mm(got)} apart (centres), leaving"
-                            f" {_mm(got - (a.diameter + b.diameter) / 2)} between them",
-                            _mm(got),
-                            f">= {_mm(need)} ({basis})",
-                            "move one of the parts away from the other",
-                        )
+        # two holes too close have overlapping boxes of their own reach (the least
+        # centre distance is at most the sum of the two reaches), so only those pairs
+        # are measured
+        reach = np.array([spacing_reach(h.diameter, lim) for h in holes]).reshape(-1, 1)
+        near = overlapping_pairs(centres - reach, centres + reach, margin=-1e-6)
+        for i, j in near:
+            a, b = holes[i], holes[j]
+            need = min_centre_distance(a.diameter, b.diameter, lim)
+            got = float(np.hypot(a.x - b.x, a.y - b.y))
+            if got < need - 1e-6:
+                out.append(
+                    Finding(
+                        "error",
+                        "frame.material",
+                        f"{plate.name}: holes for {a.what} and {b.what}",
+                        f"the holes for {a.what} ({a.diameter:g} mm) and {b.what}"
+                        f" ({b.diameter:g} mm) in the {plate.side} plate are"
+                        f" {_mm(got)} apart (centres), leaving"
+                        f" {_mm(got - (a.diameter + b.diameter) / 2)} between them",
+                        _mm(got),
+                        f">= {_mm(need)} ({basis})",
+                        "move one of the parts away from the other",
                     )
+                )
     for c in plan.cocks:
         need = min_edge_distance(c.hole.diameter, lim)
         if c.width / 2 < need - 1e-6:

@@ -56,6 +56,7 @@ __all__ = [
     "FrameLimits",
     "frame_limits",
     "min_centre_distance",
+    "spacing_reach",
     "min_edge_distance",
 ]
 
@@ -113,6 +114,13 @@ def min_edge_distance(diameter: float, limits: FrameLimits) -> float:
 def min_centre_distance(d1: float, d2: float, limits: FrameLimits) -> float:
     """Least distance (mm) between the centres of two holes of ``d1`` and ``d2`` mm."""
     return max(SPACING_FACTOR * (d1 + d2), (d1 + d2) / 2 + limits.min_material)
+
+
+def spacing_reach(diameter: float, limits: FrameLimits) -> float:
+    """A hole's share of :func:`min_centre_distance` (mm): the least distance of two
+    holes is never more than the sum of their shares, so holes whose shares do not
+    meet need no measuring."""
+    return max(SPACING_FACTOR * diameter, diameter / 2 + limits.min_material / 2)
 
 
 def frame_limits(design: Design) -> FrameLimits:

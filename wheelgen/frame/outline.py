@@ -25,6 +25,7 @@ from collections.abc import Sequence
 import numpy as np
 
 from ..layout.part_plan import FlatEdge
+from ..layout.proximity import overlapping_pairs
 
 __all__ = [
     "Circle",
@@ -39,6 +40,7 @@ Circle = tuple[float, float, float]  # x, y, radius (mm)
 Point = tuple[float, float]
 
 _SAMPLES = 4096  # directions in which the hull's farthest circle is found
+_BLOCK = 1024  # circles whose reach is worked out at once
 
 
 def _pt(p: np.ndarray | Sequence[float]) -> Point:
@@ -77,25 +79,10 @@ def rounded_hull(circles: Sequence[Circle]) -> tuple[FlatEdge, ...]:
     unique = sorted({(float(x), float(y), float(r)) for x, y, r in circles})
     if not unique or any(not r > 0 for _, _, r in unique):
         raise ValueError("'circles' must hold at least one circle of radius > 0 mm")
-    # a circle inside another (touching it from inside included) adds nothing, and
-    # where it touches, the two tie in the support function and leave no side
-    cs = np.array(unique)
-    gap = np.hypot(*(cs[:, None, :2] - cs[None, :, :2]).transpose(2, 0, 1))
-    inside = gap + cs[:, None, 2] <= cs[None, :, 2] + 1e-9  # [i, j]: i inside j
-    # of two circles inside each other (equal but for float noise) keep one: the
-    # larger, or the later in sorted order
-    index = np.arange(len(unique))
-    ranks_higher = (cs[None, :, 2] > cs[:, None, 2]) | (
-        (cs[None, :, 2] == cs[:, None, 2]) & (index[None, :] > index[:, None])
-    )
-    inside &= ranks_higher
-    unique = [c for c, held in zip(unique, inside.any(axis=1)) if not held]
+    unique = _outermost(unique)
     # the support function: in each direction u the hull's farthest point belongs to
     # the circle with the largest c.u + r; turning u counter-clockwise walks the hull
-    t = np.linspace(0.0, 2 * math.pi, _SAMPLES, endpoint=False)
-    cs = np.array(unique)
-    reach = np.outer(np.cos(t), cs[:, 0]) + np.outer(np.sin(t), cs[:, 1]) + cs[:, 2]
-    owner = np.argmax(reach, axis=1)
+    owner = _support_owners(np.array(unique))
     seq: list[int] = []
     for i in owner:
         if not seq or seq[-1] != int(i):
@@ -123,6 +110,48 @@ def rounded_hull(circles: Sequence[Circle]) -> tuple[FlatEdge, ...]:
         if math.dist(start, end) > 1e-6:
             edges.append(FlatEdge("line", (start, end)))
     return _closed(edges)
+
+
+def _outermost(unique: list[Circle]) -> list[Circle]:
+    """``unique`` (sorted, distinct) without the circles that lie inside another.
+
+    A circle inside another (touching it from inside included) adds nothing, and where
+    it touches, the two tie in the support function and leave no side. Of two circles
+    inside each other (equal but for float noise) the larger is kept, or the later in
+    sorted order. Only circles whose boxes overlap can hold one another, so only those
+    pairs are measured.
+    """
+    cs = np.array(unique)
+    low, high = cs[:, :2] - cs[:, 2:], cs[:, :2] + cs[:, 2:]
+    held = np.zeros(len(unique), dtype=bool)
+    for i, j in overlapping_pairs(low, high, margin=-1e-6):
+        gap = math.hypot(cs[i, 0] - cs[j, 0], cs[i, 1] - cs[j, 1])
+        ri, rj = cs[i, 2], cs[j, 2]
+        # i inside j, and j ranks higher (larger, or equal and later)
+        if gap + ri <= rj + 1e-9 and (rj > ri or (rj == ri and j > i)):
+            held[i] = True
+        if gap + rj <= ri + 1e-9 and ri > rj:
+            held[j] = True
+    return [c for c, h in zip(unique, held) if not h]
+
+
+def _support_owners(cs: np.ndarray) -> np.ndarray:
+    """For each of the sampled directions, the index of the circle ``cs`` (x, y, r rows)
+    reaching farthest (the first of equals); worked out a block of circles at a time so
+    memory stays small for thousands of circles."""
+    t = np.linspace(0.0, 2 * math.pi, _SAMPLES, endpoint=False)
+    cos, sin = np.cos(t), np.sin(t)
+    best = np.full(_SAMPLES, -np.inf)
+    owner = np.zeros(_SAMPLES, dtype=int)
+    for start in range(0, len(cs), _BLOCK):
+        block = cs[start : start + _BLOCK]
+        reach = np.outer(cos, block[:, 0]) + np.outer(sin, block[:, 1]) + block[:, 2]
+        k = np.argmax(reach, axis=1)
+        value = reach[np.arange(_SAMPLES), k]
+        better = value > best  # strictly: an earlier circle keeps a tie
+        best = np.where(better, value, best)
+        owner = np.where(better, k + start, owner)
+    return owner
 
 
 def _outward(c1: Circle, c2: Circle) -> np.ndarray:

@@ -105,12 +105,34 @@ def pillar_spacing(limits: FrameLimits) -> float:
     )
 
 
+def _near(
+    x: np.ndarray, y: np.ndarray, box: tuple[float, float, float, float]
+) -> np.ndarray:
+    """Indices of the points (x, y) inside ``box`` (x0, y0, x1, y1); ``x`` sorted."""
+    lo, hi = np.searchsorted(x, box[0], "left"), np.searchsorted(x, box[2], "right")
+    k = np.arange(lo, hi)
+    return k[(y[k] >= box[1]) & (y[k] <= box[3])]
+
+
 def _clear(
     x: np.ndarray, y: np.ndarray, zones: Sequence[Zone], radius: float, gap: float
 ) -> np.ndarray:
+    # Only the points within reach of a zone's box can come too near it: each zone is
+    # tested against those alone (sorted by x), so the cost follows the points near
+    # each zone rather than all points times all zones.
+    order = np.argsort(x, kind="stable")
+    sx, sy = x[order], y[order]
     ok = np.ones(x.shape, dtype=bool)
     for z in zones:
-        ok &= disc_gap(x, y, radius, z) >= gap - 1e-9
+        reach = z.outer + radius + gap + 1e-6
+        xs = (z.x, z.to[0]) if z.to is not None else (z.x,)
+        ys = (z.y, z.to[1]) if z.to is not None else (z.y,)
+        k = _near(
+            sx, sy, (min(xs) - reach, min(ys) - reach, max(xs) + reach, max(ys) + reach)
+        )
+        if len(k):
+            idx = order[k]
+            ok[idx] &= disc_gap(x[idx], y[idx], radius, z) >= gap - 1e-9
     return ok
 
 
@@ -121,12 +143,16 @@ def _holes_clear(
     d: float,
     limits: FrameLimits,
 ) -> np.ndarray:
+    order = np.argsort(x, kind="stable")
+    sx, sy = x[order], y[order]
     ok = np.ones(x.shape, dtype=bool)
     for h in holes:
-        ok &= (
-            np.hypot(x - h.x, y - h.y)
-            >= min_centre_distance(d, h.diameter, limits) - 1e-9
-        )
+        need = min_centre_distance(d, h.diameter, limits)
+        reach = need + 1e-6
+        k = _near(sx, sy, (h.x - reach, h.y - reach, h.x + reach, h.y + reach))
+        if len(k):
+            idx = order[k]
+            ok[idx] &= np.hypot(x[idx] - h.x, y[idx] - h.y) >= need - 1e-9
     return ok
 
 
@@ -181,9 +207,11 @@ def _resample(loop: np.ndarray, step: float) -> np.ndarray:
     )
 
 
-def _hull_order(pts: np.ndarray) -> np.ndarray:
-    """Indices of the convex hull of ``pts``, counter-clockwise, collinear points kept."""
+def _hull_order(pts: np.ndarray, collinear: bool = True) -> np.ndarray:
+    """Indices of the convex hull of ``pts``, counter-clockwise; points on a side are
+    kept unless ``collinear`` is false."""
     order = np.lexsort((pts[:, 1], pts[:, 0]))
+    limit = -1e-9 if collinear else 1e-9
 
     def cross(o: int, a: int, b: int) -> float:
         return float(
@@ -194,13 +222,24 @@ def _hull_order(pts: np.ndarray) -> np.ndarray:
     def chain(seq: np.ndarray) -> list[int]:
         out: list[int] = []
         for i in seq:
-            while len(out) >= 2 and cross(out[-2], out[-1], int(i)) < -1e-9:
+            while len(out) >= 2 and cross(out[-2], out[-1], int(i)) < limit:
                 out.pop()
             out.append(int(i))
         return out
 
     lower, upper = chain(order), chain(order[::-1])
     return np.array(lower[:-1] + upper[:-1], dtype=int)
+
+
+def _outer_pivots(pivots: np.ndarray) -> np.ndarray:
+    """The corners of the pivots' convex hull: a convex polygon holds every pivot when
+    it holds these, so only they need testing."""
+    if len(pivots) <= 3:
+        return pivots
+    unique = np.unique(pivots, axis=0)
+    if len(unique) <= 3:
+        return unique
+    return unique[_hull_order(unique, collinear=False)]
 
 
 def _area(pts: np.ndarray, idx: Sequence[int]) -> float:
@@ -234,6 +273,7 @@ def _largest(pts: np.ndarray, count: int, pivots: np.ndarray) -> list[int]:
     n = len(pts)
     if n <= count:
         return list(range(n))
+    pivots = _outer_pivots(pivots)
     coarse = np.unique(np.linspace(0, n, min(n, _COARSE), endpoint=False).astype(int))
     k0 = min(count, 4, len(coarse))
     count_all = math.comb(len(coarse), k0)
