@@ -62,7 +62,8 @@ def test_contact_ratio_of_the_published_helical_pair():
 
 
 def test_contact_ratio_of_a_standard_pair():
-    # check-values.md sec. 5 [C]: m = 1, 20/40 teeth, standard centre distance: 1.6352
+    # derived: contact ratio formula (docs/references.md section 7): m = 1, 20/40
+    # teeth, standard centre distance: 1.6352
     data = involute_mesh(ToothSpec(20, 1.0), ToothSpec(40, 1.0))
     assert data.contact_ratio == pytest.approx(1.6352, abs=1e-4)
     assert data.contact_ratio_effective == pytest.approx(1.6352, abs=1e-4)
@@ -79,7 +80,8 @@ def test_contact_ratio_of_a_standard_pair():
             0.36,
             26.0886,
             56.4999,
-            "KHK / SDP D785 positive-shift table [M]",
+            "KHK Gear Technical Reference / SDP/SI D785 positive-shift table"
+            " (from memory)",
         ),
         (
             8,
@@ -89,7 +91,7 @@ def test_contact_ratio_of_a_standard_pair():
             0.5,
             21.0617,
             563.8999,
-            "Scribd 'Cent'r Dist'nce of Profile Shifted Gear Calc', doc 210760271 [P]",
+            "'Cent'r Dist'nce of Profile Shifted Gear Calc', scribd.com/doc/210760271",
         ),
     ],
 )
@@ -104,8 +106,9 @@ def test_working_centre_distance_of_shifted_pairs(
 # --- wheel checks
 
 # Smallest tooth count without undercut for a rack of addendum 1 m (straight flank 1 m:
-# dedendum 1.0, no tip fillet): SDP/SI D785 p. T-36 sec. 4.3 gives 32 for 14.5 deg and
-# 18 for 20 deg [P]; okdor.com "prevent gear undercut" gives 12 for 25 deg [P].
+# dedendum 1.0, no tip fillet): Elements of Metric Gear Technology (SDP/SI D785),
+# section 4.3, p. T-36 gives 32 for 14.5 deg and 18 for 20 deg; okdor.com, "prevent
+# gear undercut in design" gives 12 for 25 deg (docs/references.md section 6).
 UNDERCUT_LIMITS = [(14.5, 32), (20.0, 18), (25.0, 12)]
 
 
@@ -163,9 +166,10 @@ def test_good_pair_has_no_findings():
 
 
 def test_interference_by_the_one_to_one_limit():
-    # Shigley's Mechanical Engineering Design, gears chapter: the smallest 20 deg
-    # full-depth pinion running 1:1 without interference has 13 teeth [M]; check-values
-    # sec. 4 [C]: 2/(3 sin^2 a)(1 + sqrt(1 + 3 sin^2 a)) = 12.3 for 20 deg.
+    # Mechanical Engineering Design (McGraw-Hill), spur-gear chapter: the smallest
+    # 20 deg full-depth pinion running 1:1 without interference has 13 teeth (from
+    # memory); derived: 2/(3 sin^2 a)(1 + sqrt(1 + 3 sin^2 a)) = 12.3 for 20 deg
+    # (docs/references.md section 6).
     assert involute_mesh(ToothSpec(13, 1.0), ToothSpec(13, 1.0)).reach_1 > 0
     data = involute_mesh(ToothSpec(12, 1.0), ToothSpec(12, 1.0))
     assert data.reach_1 < 0 and data.reach_2 < 0

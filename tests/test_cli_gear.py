@@ -1,8 +1,10 @@
 """``wheelgen gear``: the data sheet, the JSON object, the SVG and exit codes.
 
-Check values: check-values.md section 2 (W_k for z = 20, m = 1: 7.6604 [M]/[C]),
-section 3 (34.4130 over 1.728 pins for 32 teeth, ashokagears.net [P]) and section 6
-(KHK/SDP shifted pair: a = 56.4999, a_w = 26.0886 deg [M]).
+Check values (docs/references.md): section 4 (W_k for z = 20, m = 1: 7.6604, derived
+with the ISO 21771 formula, as the handbook tables print it), section 5 (34.4130 over
+1.728 pins for 32 teeth, Machinery's Handbook's example as reproduced at
+ashokagears.net), section 7 (KHK / SDP D785 shifted pair: a = 56.4999, a_w = 26.0886
+deg, from memory) and section 11 (form cutters, Modern Machine Shop Practice, 1887).
 """
 
 from __future__ import annotations
@@ -25,8 +27,8 @@ def test_sheet_text():
     assert result.exit_code == 0, result.output
     text = result.output
     assert "pitch diameter        20.0000 mm" in text
-    assert "span over 3 teeth     7.6604 mm" in text  # check-values section 2
-    assert "form cutter           No. 6" in text  # Rose: 17-20 teeth
+    assert "span over 3 teeth     7.6604 mm" in text  # section 4
+    assert "form cutter           No. 6" in text  # section 11: 17-20 teeth
     assert "free of undercut" in text
 
 
@@ -40,9 +42,7 @@ def test_json_keys_and_values():
         "span_width", "over_pins", "pin_diameter", "cutter_number",
     ):  # fmt: skip
         assert key in data
-    assert data["over_pins"] == pytest.approx(
-        34.4130, abs=5e-5
-    )  # check-values section 3
+    assert data["over_pins"] == pytest.approx(34.4130, abs=5e-5)  # section 5
     assert data["pin_diameter"] == pytest.approx(1.728)
     assert data["cutter_number"] == 4
 

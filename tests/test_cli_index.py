@@ -1,10 +1,12 @@
 """``wheelgen index``: exit codes, machinist's text and the JSON object.
 
-Check values as in tests/test_indexing.py (sources: check-values.md §11):
-- ARMY: armyordnance.tpub.com/od16448/od164480030.htm, N = 42 -> 20 on the 21 circle.
-- DERIVED_127: derived, check-values.md §11 [C] with the method of Machinery's Handbook
-  "Differential Indexing" [M]: A = 120, 1/3 turn, spindle 56 driving 24, -7/3.
-- MH1916: Machinery's Handbook 1916 excerpt: 35 degrees -> 3 turns + 16 on the 18.
+Check values as in tests/test_indexing.py (sources: docs/references.md section 12):
+- ARMY: ordnance manual OD 16448, dividing-head chapter,
+  armyordnance.tpub.com/od16448/od164480030.htm, N = 42 -> 20 on the 21 circle.
+- DERIVED_127: derived with the method of Machinery's Handbook, "Differential
+  Indexing" (from memory): A = 120, 1/3 turn, spindle 56 driving 24, -7/3.
+- MH1916: Machinery's Handbook (1916), angular indexing, as quoted in a bookseller's
+  excerpt: 35 degrees -> 3 turns + 16 on the 18.
 """
 
 from __future__ import annotations

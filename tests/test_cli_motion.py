@@ -1,10 +1,10 @@
 """``wheelgen motion``: exit codes, the extremes, CSV table and plot files.
 
-Truth: the demo's moon coupling (r = 8, e = 0.8) leads and lags by asin(0.1) = 5.7392 deg
-(check-values.md section 13, [P] firgelliauto.com "Whitworth quick-return mechanism",
-alpha = asin(d / r)), with the slot wheel at 90 and 270 degrees from rest (the slot at
-right angles to the offset line, same source); the period of the moon dial 11074/375 d
-is derived from the demo's tooth counts (25/113 * 15/98 turns per day).
+Truth: the demo's moon coupling (r = 8, e = 0.8) leads and lags by asin(0.1) = 5.7392
+deg (firgelliauto.com, "Whitworth quick-return mechanism": alpha = asin(d / r);
+docs/references.md section 13), with the slot wheel at 90 and 270 degrees from rest (the
+slot at right angles to the offset line, same source); the period of the moon dial
+11074/375 d is derived from the demo's tooth counts (25/113 * 15/98 turns per day).
 """
 
 from __future__ import annotations

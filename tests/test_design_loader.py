@@ -95,9 +95,9 @@ def test_defaults_apply_and_wheel_keys_override():
 
 
 def test_documented_defaults():
-    # derived: the defaults docs/format.md promises; ISO 53 type A rack for the tooth
-    # proportions (addendum 1.00 m, dedendum 1.25 m, root radius 0.38 m), see
-    # /work/shared/reference/check-values.md section 9 ([M] ISO 53:1998)
+    # derived: the defaults docs/format.md promises; ISO 53:1998 type A rack for the
+    # tooth proportions (addendum 1.00 m, dedendum 1.25 m, root radius 0.38 m; from
+    # memory, docs/references.md section 8)
     d = loads_design(BASE, "base.toml")
     w = d.wheel("w1")
     assert (w.module, w.form, w.pressure_angle_deg, w.face_width) == (

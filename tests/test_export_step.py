@@ -155,10 +155,10 @@ def _span_measured(
     return total
 
 
-# (z, k, W_k): /work/shared/reference/check-values.md §2, m = 1, 20 deg, x = 0; formula
-# W = m cos(a) [pi (k - 0.5) + z inv(a)] from tandwiel.info "Measurement over multiple
-# teeth" [P]; the rows match the remembered handbook tables [M] (12 -> 4.5963,
-# 20 -> 7.6604). The tables print 4 decimals: allow half a unit in the last place.
+# (z, k, W_k): m = 1, 20 deg, x = 0 (docs/references.md section 4); derived with W = m
+# cos(a) [pi (k - 0.5) + z inv(a)] from tandwiel.info "Measurement over multiple teeth";
+# the rows match the handbook span tables as remembered (from memory: 12 -> 4.5963, 20
+# -> 7.6604). The tables print 4 decimals: allow half a unit in the last place.
 SPANS = [(12, 2, 4.5963), (20, 3, 7.6604)]
 
 
@@ -170,8 +170,8 @@ def test_span_measurement_matches_handbook(reimported, z, k, published):
 
 
 def test_span_measurement_z60_matches_formula(reimported):
-    # k = 60 * 20/180 + 0.5 = 7.17 -> 7 (check-values.md §2). No published row for
-    # z = 60; derived from the z = 20 handbook row with the two invariants of §2:
+    # k = 60 * 20/180 + 0.5 = 7.17 -> 7 (docs/references.md section 4). No published
+    # row for z = 60; derived from the z = 20 row with the two invariants there:
     # W = 7.6604 + 4 * 2.9521 (k + 1) + 40 * 0.01401 (z + 1) = 20.0292 mm
     solid, radii = reimported[60]
     a = math.radians(20.0)

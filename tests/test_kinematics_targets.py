@@ -11,9 +11,9 @@ from wheelgen.design.periods import format_period, parse_period
 from wheelgen.kinematics import evaluate_targets, solve_rates
 
 # One turn per synodic month in, through an idler, 242 T -> 223 T out: the output turns
-# 242/223 times a month. [P] en.m.wikiversity.org, "Astronomy college course/Saros
-# cycle": synodic month 29.530589 d, draconic month 27.212221 d, 223 synodic ~ 242
-# draconic months.
+# 242/223 times a month. en.m.wikiversity.org, "Astronomy college course/Saros cycle"
+# (docs/references.md section 14): synodic month 29.530589 d, draconic month 27.212221
+# d, 223 synodic ~ 242 draconic months.
 ECLIPSE = """\
 [design]
 title = "eclipse cycle"
@@ -56,8 +56,8 @@ pair = ["w1", "wi"]
 pair = ["wi", "w2"]
 """
 
-MONTH_S = Fraction("29.530589") * 86400  # [P] as above
-DRACONIC_S = Fraction("27.212221") * 86400  # [P] as above
+MONTH_S = Fraction("29.530589") * 86400  # Saros page, as above
+DRACONIC_S = Fraction("27.212221") * 86400  # Saros page, as above
 YEAR_S = Fraction("365.25") * 86400  # the format's 'yr'
 
 

@@ -13,10 +13,10 @@ DATA = Path(__file__).parent / "data" / "layout"
 DEMO = Path(__file__).parent.parent / "designs" / "harbour_tide_clock.toml"
 
 # Tip radii at m = 1, x = 0: r_a = m (z / 2 + h_a).
-# Involute: ISO 21771:2007 d_a = d + 2 m (h_aP* + x) with h_aP* = 1 (ISO 53 basic rack,
-# check-values.md s9): 30 and 20 teeth give 16 + 11 = 27 mm. Triangular: the tooth is
-# cut off by the tip circle 0.6 m above the pitch circle (the format's default
-# addendum for triangular teeth), so 15.6 + 10.6 = 26.2 mm.
+# Involute: ISO 21771:2007 d_a = d + 2 m (h_aP* + x) with h_aP* = 1 (ISO 53:1998 basic
+# rack, docs/references.md section 8): 30 and 20 teeth give 16 + 11 = 27 mm.
+# Triangular: the tooth is cut off by the tip circle 0.6 m above the pitch circle (the
+# format's default addendum for triangular teeth), so 15.6 + 10.6 = 26.2 mm.
 TIP_SUMS = {"involute": 16.0 + 11.0, "triangular": 15.6 + 10.6}
 
 
@@ -141,7 +141,7 @@ def test_carrier_wheel_gets_a_running_bore_for_the_carried_arbor():
 
     parts = {p.name: p for p in plan_parts(planet(42.5))}
     # planet arbor 3 mm (default): hole in the middle of H7, 3.000..3.010 mm (ISO 286-2,
-    # check-values.md s7), at the arbor's 'at' in the carrier's frame
+    # docs/references.md section 9), at the arbor's 'at' in the carrier's frame
     assert parts["carrier"].holes == ((25.0, 0.0, pytest.approx(3.005)),)
     assert parts["planet"].placement.z == pytest.approx(2.0)  # down through the carrier
     assert parts["planet"].length == pytest.approx(9.0)  # 2 .. 11

@@ -4,10 +4,10 @@ import pytest
 
 from wheelgen.layout.fits import fit_limits, limit_deviations, parse_fit
 
-# (size mm, zone, upper um, lower um, source). Every row: /work/shared/reference/
-# check-values.md section 7, which gives the tables it was read from:
-HOLES = "deepri.com tech_iso_tolerances (ISO 286-2), check-values.md s7"
-SHAFTS = "docs.steelcam.org, JIS B 0401 (1999) = ISO 286-2, check-values.md s7"
+# (size mm, zone, upper um, lower um, source). ISO 286-2:2010 limit deviations, read
+# from two tool makers' tables (docs/references.md section 9):
+HOLES = "ISO 286-2 holes, as printed at deepri.com tech_iso_tolerances"
+SHAFTS = "ISO 286-2 shafts = JIS B 0401 (1999), as printed at docs.steelcam.org"
 DEVIATIONS = [
     (3.0, "H7", 10, 0, HOLES),
     (5.0, "H7", 12, 0, HOLES),
@@ -35,8 +35,8 @@ def test_limit_deviations_match_iso_286_2(size, zone, upper, lower, source):
     assert limit_deviations(size, zone) == (upper, lower), source
 
 
-# Derived clearance ranges (check-values.md s7, "derived clearance ranges", from the
-# table rows above): H7/g6 at <=3: 2..18 um, 3-6: 4..24 um, 6-10: 5..29 um.
+# derived: clearance ranges from the table rows above (hole limits minus shaft limits):
+# H7/g6 at <=3: 2..18 um, 3-6: 4..24 um, 6-10: 5..29 um.
 @pytest.mark.parametrize(
     ("size", "low_um", "high_um"), [(3.0, 2, 18), (5.0, 4, 24), (8.0, 5, 29)]
 )
@@ -48,7 +48,7 @@ def test_h7_g6_clearance_range(size, low_um, high_um):
 
 def test_size_on_a_range_boundary_belongs_to_the_lower_range():
     # ISO 286: ranges run "over a up to and including b"; 6 mm is in 3-6 (H7 +12),
-    # 6.001 mm in 6-10 (H7 +15) (check-values.md s7)
+    # 6.001 mm in 6-10 (H7 +15) (docs/references.md section 9)
     assert limit_deviations(6.0, "H7") == (12, 0)
     assert limit_deviations(6.001, "H7") == (15, 0)
 

@@ -13,9 +13,9 @@ DATA = Path(__file__).parent / "data" / "layout"
 DEMO = Path(__file__).parent.parent / "designs" / "harbour_tide_clock.toml"
 
 # pin_third_wheel.toml: pin radius 8 mm, pin diameter 2 mm, so the pin sweeps radii 7 to
-# 9 mm about arbor "p" (derived: r -/+ d/2). The third wheel "wt" has 30 teeth, m 1,
-# x = 0: tip radius 16 mm (ISO 21771:2007 d_a = d + 2 m (h_aP* + x), h_aP* = 1 from the
-# ISO 53 basic rack, check-values.md s9). It touches the ring when its axis stands
+# 9 mm about arbor "p" (derived: r -/+ d/2). The third wheel "wt" has 30 teeth, m 1, x =
+# 0: tip radius 16 mm (ISO 21771:2007 d_a = d + 2 m (h_aP* + x), h_aP* = 1 from the ISO
+# 53 basic rack, docs/references.md section 8). It touches the ring when its axis stands
 # 9 + 16 = 25 mm from "p" (derived: outer ring radius + tip radius).
 RING_OUTER = 9.0
 THIRD_TIP = 16.0

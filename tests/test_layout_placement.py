@@ -30,8 +30,9 @@ def loop_design(bearing_bc: float, bearing_ac: float = PHI):
 
 
 def test_shifted_pair_centre_distance_matches_published_example():
-    # KHK / SDP D785 positive-shift table: m 3, 20 deg, z 12/24, x +0.6/+0.36 ->
-    # a = 56.4999 mm (check-values.md s6, item 1; reproduced there)
+    # KHK Gear Technical Reference / SDP/SI D785 positive-shift table (from memory):
+    # m 3, 20 deg, z 12/24, x +0.6/+0.36 -> a = 56.4999 mm (docs/references.md
+    # section 7; the ISO 21771 formulas reproduce it)
     a = working_centre_distance(
         ToothSpec(12, 3.0, shift=0.6), ToothSpec(24, 3.0, shift=0.36)
     )
@@ -39,8 +40,8 @@ def test_shifted_pair_centre_distance_matches_published_example():
 
 
 def test_external_pair_with_one_shift_matches_published_example():
-    # Scribd "Cent'r Dist'nce of Profile Shifted Gear Calc": z 22/118, m 8, x 0/0.5 ->
-    # a = 563.8999 mm (check-values.md s6, item 2)
+    # "Cent'r Dist'nce of Profile Shifted Gear Calc", scribd.com/doc/210760271:
+    # z 22/118, m 8, x 0/0.5 -> a = 563.8999 mm (docs/references.md section 7)
     a = working_centre_distance(ToothSpec(22, 8.0), ToothSpec(118, 8.0, shift=0.5))
     assert a == pytest.approx(563.8999, abs=5e-5)
 

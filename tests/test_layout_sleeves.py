@@ -20,9 +20,9 @@ def nested(w2_height: float = 24.0, extra: str = "") -> object:
 
 
 # Each tube runs on the member inside it: bore limits = nominal + H7 and the member
-# inside is made to g6 (ISO 286-2; check-values.md s7: <=3: H7 +10/0, g6 -2/-8;
-# 3-6: H7 +12/0, g6 -4/-12). Outside: derived, (bore max + 2 x 0.3 mm wall) rounded up
-# to 0.1 mm: 3.010 + 0.6 -> 3.7; 3.712 + 0.6 -> 4.4; 4.412 + 0.6 -> 5.1.
+# inside is made to g6 (ISO 286-2, docs/references.md section 9: <=3: H7 +10/0,
+# g6 -2/-8; 3-6: H7 +12/0, g6 -4/-12). Outside: derived, (bore max + 2 x 0.3 mm wall)
+# rounded up to 0.1 mm: 3.010 + 0.6 -> 3.7; 3.712 + 0.6 -> 4.4; 4.412 + 0.6 -> 5.1.
 TUBES = [
     ("t1", 3.0, (3.000, 3.010), (2.992, 2.998), 3.7),
     ("t2", 3.7, (3.700, 3.712), (3.688, 3.696), 4.4),

@@ -34,9 +34,9 @@ def exact_involute(z: int, m: float, thinning: float = 0.0, alpha_deg: float = 2
     """Involute wheel, x = 0, addendum 1 m, dedendum 1.25 m, 400 exact flank points.
 
     Half angular thickness at radius r: psi + inv(alpha) - inv(alpha_r), cos alpha_r =
-    rb / r (tooth thickness at any circle, ISO 21771:2007 sec. 5.4 [M]). Below the base
-    circle the flank runs radially down to a plain root arc. Chord error of the lines:
-    (flank length / 400)^2 / (8 rho) < 1e-5 mm for these sizes (derived).
+    rb / r (tooth thickness at any circle, ISO 21771:2007 sec. 5.4, from memory). Below
+    the base circle the flank runs radially down to a plain root arc. Chord error of the
+    lines: (flank length / 400)^2 / (8 rho) < 1e-5 mm for these sizes (derived).
     """
     al = math.radians(alpha_deg)
     rp, p = m * z / 2, 2 * math.pi / z
@@ -139,9 +139,9 @@ def test_involute_pulled_apart_keeps_zero_error_and_gains_backlash(pair_20_40, s
     a0 = m * (z1 + z2) / 2
     sim = simulate_mesh(g1, g2, a0 + spread)
     assert sim.te_peak_to_peak_deg < 1e-3
-    # derived: working pressure angle cos a_w = a0 cos a / a (ISO 21771 [M]); tooth
-    # thickness on the working pitch circles s' = 2 r' (psi + inv a - inv a_w); the
-    # driven wheel's free turn is (p' - s1' - s2') / r2'.
+    # derived: working pressure angle cos a_w = a0 cos a / a (ISO 21771, from memory);
+    # tooth thickness on the working pitch circles s' = 2 r' (psi + inv a - inv a_w);
+    # the driven wheel's free turn is (p' - s1' - s2') / r2'.
     aw = math.acos(a0 * math.cos(al) / (a0 + spread))
     psi1 = (math.pi * m / 2 - 0.05) / (m * z1)
     psi2 = (math.pi * m / 2 - 0.05) / (m * z2)
@@ -151,9 +151,9 @@ def test_involute_pulled_apart_keeps_zero_error_and_gains_backlash(pair_20_40, s
         - 2 * (psi2 + _inv(al) - _inv(aw))
     )
     assert sim.backlash_deg == pytest.approx(math.degrees(play), abs=1e-3)
-    # the usual shop estimate j = 2 da tan(alpha) more than the built-in 0.1 mm
-    # (KHK Gear Technical Reference, "Backlash" [M]), a first-order estimate: within 6 %
-    # up to spreads of 0.3 m (derived from the exact value above)
+    # the usual shop estimate j = 2 da tan(alpha) more than the built-in 0.1 mm (KHK
+    # Gear Technical Reference, "Backlash", from memory), a first-order estimate: within
+    # 6 % up to spreads of 0.3 m (derived from the exact value above)
     if spread <= 0.3:
         assert sim.backlash_mm == pytest.approx(
             0.1 + 2 * spread * math.tan(al), rel=0.06

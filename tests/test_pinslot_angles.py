@@ -1,8 +1,9 @@
 """Angles of every arbor over time: exact mean rates plus propagated coupling deviations.
 
-Truth: the maximum deviation asin(e / r) (check-values.md section 13, [P] firgelliauto.com
-"Whitworth quick-return mechanism": alpha = asin(d / r)); everything else derived from
-plane geometry, as each test says (positions of pins and axes computed in the test).
+Truth: the maximum deviation asin(e / r) (firgelliauto.com, "Whitworth quick-return
+mechanism": alpha = asin(d / r); docs/references.md section 13); everything else derived
+from plane geometry, as each test says (positions of pins and axes computed in the
+test).
 """
 
 from __future__ import annotations

@@ -1,8 +1,9 @@
 """Checks of pin-and-slot couplings.
 
 Truth: the pin centre's travel r - e .. r + e (derived, law of cosines); the transmission
-angle 90 - asin(e / r) (derived; asin(e / r) is the Whitworth angle of check-values.md
-section 13, [P] firgelliauto.com); the 30 degree limit is common practice, no source.
+angle 90 - asin(e / r) (derived; asin(e / r) is the lever's extreme angle of
+firgelliauto.com, "Whitworth quick-return mechanism", docs/references.md section 13);
+the 30 degree limit is common practice, no source.
 """
 
 from __future__ import annotations
@@ -115,6 +116,7 @@ def test_wide_cutter_note_and_stacking_error():
 
 
 def test_root_radius_matches_the_rack_formula():
-    # ISO 21771 [M]: d_f = d - 2 h_f + 2 x m -> moon_wheel 1.0 * (98 / 2 - 1.25 - 0.3)
+    # ISO 21771 (from memory): d_f = d - 2 h_f + 2 x m -> moon_wheel 1.0 * (98 / 2 -
+    # 1.25 - 0.3)
     d = _variant()
     assert wheel_root_radius(d.wheel("moon_wheel")) == pytest.approx(47.45, abs=1e-9)

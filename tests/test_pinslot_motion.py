@@ -1,14 +1,14 @@
 """The pin-and-slot motion law against plane geometry and published relatives.
 
-Sources (check-values.md section 13):
-- WHITWORTH: firgelliauto.com, "Whitworth quick-return mechanism" [P]: for a crank of
+Sources (docs/references.md section 13):
+- WHITWORTH: firgelliauto.com, "Whitworth quick-return mechanism": for a crank of
   radius r and a pivot offset d, the lever's extreme angle is alpha = asin(d / r); it is
   the same triangle as the coupling (pin = crank pin, slot = slotted lever).
 - POT: a potentiometer maker's technical definitions, section 6 "Linearity errors
-  resulting from mechanical coupling" (europages.co.uk, cpid-5458727) [P]: maximum
+  resulting from mechanical coupling" (europages.co.uk, cpid-5458727): maximum
   relative error F_max = E / (pi r_k); for E = 0.1, r_k = 5 it prints 0.00637.
 - ECCENTRIC: "Epicyclic theory of ancient Indians", Brahmasphutasiddhanta vol. 1 p. 193
-  (sa.wikisource.org) [P]: tan E = p sin(theta) / (a - p cos(theta)), largest E = asin(p/a).
+  (sa.wikisource.org): tan E = p sin(theta) / (a - p cos(theta)), largest E = asin(p/a).
 Everything else is derived from plane geometry, as each test says.
 """
 

@@ -273,5 +273,6 @@ def test_library_doc_examples_run(tmp_path, monkeypatch):
     monkeypatch.chdir(root)
     exec(compile(blocks[-1], "library.md", "exec"), numbers)  # noqa: S102
     assert str(numbers["result"].solution.rate("tide")) == "371/192"
-    # ISO 21771 span, handbook table (check-values §2): z = 20, k = 3, W = 7.6604 mm
+    # ISO 21771 span, as the handbook tables print it (docs/references.md section 4):
+    # z = 20, k = 3, W = 7.6604 mm
     assert round(numbers["sheet"].span_width, 4) == 7.6604

@@ -1,16 +1,20 @@
 """One wheel's data sheet against handbook tables, and measured on the outline.
 
-Sources (check-values.md):
-- TANDWIEL: tandwiel.info "Measurement over multiple teeth" (ISO 21771 W_k formula) [P]
-- WK_TABLE: check-values.md section 2 table, m = 1, 20 deg, x = 0: values computed
-  from the ISO 21771 formula [C] and matching the handbook tables as remembered [M]
-  (e.g. z = 12 -> 4.5963, z = 20 -> 7.6604)
-- SDP_SPAN: SDP/SI D785 / KHK span example, m 3, z 24, x +0.4 -> k 4, W 32.8266 [M]
-- PINS: ashokagears.net/gear-size.html (Machinery's Handbook text): 32 T, 1 DP, 20
-  deg, pin 1.728 -> 34.4130 (m = 1 mm reads the same) [P]
-- ROSE: J. Rose, Modern Machine Shop Practice (1887), cutter ranges [P]
-- SDP_T36: SDP/SI D785 p. T-36: z_c 32 at 14.5 deg, 18 at 20 deg [P]
-- OKDOR: okdor.com/prevent-gear-undercut-in-design: 12 teeth at 25 deg [P]
+Sources (docs/references.md sections 4, 5, 6 and 11):
+- TANDWIEL: tandwiel.info, "Measurement over multiple teeth" (the ISO 21771 W_k formula)
+- WK_TABLE: m = 1, 20 deg, x = 0: derived with that formula; the rows match the
+  handbook span tables as remembered (from memory), e.g. z = 12 -> 4.5963,
+  z = 20 -> 7.6604
+- SDP_SPAN: Elements of Metric Gear Technology (SDP/SI D785) section 10.2 and KHK's
+  Gear Technical Reference, span example m 3, z 24, x +0.4 -> k 4, W 32.8266 (from
+  memory; the formula gives the same)
+- PINS: Machinery's Handbook, "Checking Gear Size by Measurement over Wires or Pins",
+  as reproduced at ashokagears.net/gear-size.html: 32 T, 1 DP, 20 deg, pin 1.728 ->
+  34.4130 (m = 1 mm reads the same)
+- ROSE: Modern Machine Shop Practice (1887), table of involute form cutters
+- SDP_T36: Elements of Metric Gear Technology, section 4.3, p. T-36: z_c 32 at 14.5 deg,
+  18 at 20 deg
+- OKDOR: okdor.com/prevent-gear-undercut-in-design: 12 teeth at 25 deg
 """
 
 from __future__ import annotations
@@ -83,8 +87,8 @@ def test_span_published_shifted_example():
 
 
 def test_span_invariants():
-    # check-values.md section 2 [C]: W(k+1) - W(k) = pi m cos a = 2.9521 (m = 1);
-    # W(z+1) - W(z) at the same k = m cos a inv a = 0.01401
+    # derived from the W_k formula (docs/references.md section 4): W(k+1) - W(k) =
+    # pi m cos a = 2.9521 (m = 1); W(z+1) - W(z) at the same k = m cos a inv a = 0.01401
     assert span_width(40, 1.0, 5) - span_width(40, 1.0, 4) == pytest.approx(
         2.9521, abs=5e-5
     )

@@ -1,12 +1,14 @@
 """Involute teeth as the rack generates them: involute function, exact flank points,
 spline accuracy, the root trochoid, undercut, and a simulated rack cutter.
 
-Sources (check-values.md):
-- INV_SHEET: gear-shop sheet "Involute Function for Gears", scribd.com/doc/171344826 [P]
-- CALCLIB: calculatorlib.com/involute-function-calculator, inv 20 deg = 0.014904 [P]
-- MH_INV: Machinery's Handbook 27th ed., involute function tables, p. 104 [M]
-- SDP_T36: SDP/SI D785 p. T-36 section 4.3: z_c = 32 at 14.5 deg, 18 at 20 deg [P]
-- OKDOR: okdor.com/prevent-gear-undercut-in-design: 12 teeth at 25 deg [P]
+Sources (docs/references.md sections 3 and 6):
+- INV_SHEET: "Involute Function for Gears", a gear shop's table,
+  scribd.com/doc/171344826
+- CALCLIB: calculatorlib.com/involute-function-calculator, inv 20 deg = 0.014904
+- MH_INV: Machinery's Handbook, 27th ed., involute function tables, p. 104 (from memory)
+- SDP_T36: Elements of Metric Gear Technology (SDP/SI D785), section 4.3, p. T-36:
+  z_c = 32 at 14.5 deg, 18 at 20 deg
+- OKDOR: okdor.com/prevent-gear-undercut-in-design: 12 teeth at 25 deg
 """
 
 from __future__ import annotations

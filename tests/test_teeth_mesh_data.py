@@ -1,16 +1,20 @@
 """Mesh data of a pair against textbook worked examples.
 
-Sources (check-values.md):
-- KHK_SHIFT: KHK Gear Technical Reference / SDP/SI D785, positive-shifted spur pair:
-  m 3, z 12/24, x +0.6/+0.36 -> inv a_w 0.034316, a_w 26.0886 deg, y 0.8333,
-  a 56.4999, d_a 44.840 / 79.400 with h_a1 = (1 + y - x2) m, h_a2 = (1 + y - x1) m [M]
-- SCRIBD_CD: scribd.com/doc/210760271 "Cent'r Dist'nce of Profile Shifted Gear
-  Calc": z 22/118, m 8, x 0/0.5 -> inv a_w 0.01750417, a_w 21.0617, a 563.8999 [P]
-- SDP_T109: SDP/SI D785 p. T-109 Table 11-1 (transverse values of a helical pair):
-  m_t 3.46410, a_t 22.79588, a_wt 23.1126, a 125, d_a 48.153/213.842,
-  d_b 38.322/191.611 -> e_a 1.2939 [P]
-- SHIGLEY: Shigley's Mechanical Engineering Design, gears chapter: smallest 20 deg
-  full-depth pinion for a 1:1 pair is 13 teeth [M]
+Sources (docs/references.md sections 6 and 7):
+- KHK_SHIFT: KHK's Gear Technical Reference and Elements of Metric Gear Technology
+  (SDP/SI D785), table of a positively shifted spur pair (from memory; every value
+  reproduced by the ISO 21771 formulas): m 3, z 12/24, x +0.6/+0.36 -> inv a_w
+  0.034316, a_w 26.0886 deg, y 0.8333, a 56.4999, d_a 44.840 / 79.400 with
+  h_a1 = (1 + y - x2) m, h_a2 = (1 + y - x1) m
+- SCRIBD_CD: "Cent'r Dist'nce of Profile Shifted Gear Calc", a user's spreadsheet,
+  scribd.com/doc/210760271: z 22/118, m 8, x 0/0.5 -> inv a_w 0.01750417,
+  a_w 21.0617, a 563.8999
+- SDP_T109: Elements of Metric Gear Technology, Table 11-1, p. T-109 (transverse values
+  of a helical pair): m_t 3.46410, a_t 22.79588, a_wt 23.1126, a 125, d_a
+  48.153/213.842, d_b 38.322/191.611 -> e_a 1.2939
+- INTERFERENCE: Mechanical Engineering Design (McGraw-Hill), spur-gear chapter,
+  "interference": the smallest 20 deg full-depth pinion for a 1:1 pair is 13 teeth
+  (from memory)
 """
 
 from __future__ import annotations
@@ -53,8 +57,8 @@ def test_shifted_pair_with_shortened_tips():
     assert gear_data(w1).tip_diameter == pytest.approx(44.840, abs=5e-4)
     assert gear_data(w2).tip_diameter == pytest.approx(79.400, abs=5e-4)
     mesh = mesh_data(w1, w2)
-    # check-values.md section 5.3: e_a = 1.2021 (computed there from the formula,
-    # no independent published figure) [C]
+    # derived: e_a = 1.2021 from the contact ratio formula (docs/references.md
+    # section 7; no published figure for this pair)
     assert mesh.contact_ratio == pytest.approx(1.2021, abs=5e-5)
     # derived: standard clearance c = 0.25 m restored
     assert mesh.clearance == pytest.approx(0.75, abs=1e-9)
@@ -98,7 +102,8 @@ def test_contact_ratio_published_example():
 
 
 def test_contact_ratio_standard_pair():
-    # check-values.md section 5.2 [C]: 20/40 teeth, m 1, standard distance -> 1.6352
+    # derived: contact ratio formula (docs/references.md section 7): 20/40 teeth, m 1,
+    # standard distance -> 1.6352
     mesh = mesh_data(ToothSpec(20, 1.0), ToothSpec(40, 1.0))
     assert mesh.contact_ratio == pytest.approx(1.6352, abs=5e-5)
     assert mesh.centre_distance == pytest.approx(30.0)
@@ -121,7 +126,7 @@ def test_backlash_from_thinning():
 
 @pytest.mark.parametrize(("z", "interferes"), [(12, True), (13, False), (20, False)])
 def test_interference_point_on_the_line_of_action(z, interferes):
-    # SHIGLEY: a 1:1 pair of 20 deg full-depth wheels needs 13 teeth; with 12 the
+    # INTERFERENCE: a 1:1 pair of 20 deg full-depth wheels needs 13 teeth; with 12 the
     # mating tip reaches past the interference point (the base-circle tangency)
     mesh = mesh_data(ToothSpec(z, 1.0), ToothSpec(z, 1.0))
     assert (mesh.interference_distance1 < 0) is interferes

@@ -1,18 +1,20 @@
 """The cutting sheet against published gear measurements and the gear data sheet.
 
-Sources (see /work/shared/reference/check-values.md):
+Sources (sections of docs/references.md in brackets):
 - MH-PINS: Machinery's Handbook, "Checking Gear Size by Measurement over Wires or
-  Pins", as reproduced at ashokagears.net/gear-size.html (§3 [P]): 32 teeth, 20 deg,
+  Pins", as reproduced at ashokagears.net/gear-size.html (5): 32 teeth, 20 deg,
   pins 1.728/P, 34.4130 at 1 DP = m 1 in mm.
 - SPAN: W_k = m cos a [pi (k - 0.5) + z inv a] + 2 x m sin a, tandwiel.info
-  "Measurement over multiple teeth" (§2 [P]); table values for m = 1 are computed from
-  it ([C]) and match the handbook tables as remembered ([M]).
-- SDP-SPAN: SDP/SI D785 / KHK span table, m 3, z 24, x +0.4: k = 4, W = 32.8266 (§2 [M]).
-- ROSE: J. Rose, Modern Machine Shop Practice (1887), involute cutter ranges (§10 [P]).
-- ARMY: US Army ordnance manual, dividing head, armyordnance.tpub.com/od16448/
-  od164480030.htm (§11 [P]): 42 divisions = 40 spaces on the 42 circle or 20 on the 21.
-- ISO 21771:2007 tip diameter d_a = m z + 2 m (h_a + x) [M]; ISO 53 type A full depth
-  2.25 m (§9 [M]).
+  "Measurement over multiple teeth" (4); values for m = 1 are derived from it and
+  match the handbook tables as remembered (from memory).
+- SDP-SPAN: Elements of Metric Gear Technology (SDP/SI D785) section 10.2 and KHK's Gear
+  Technical Reference, span table, m 3, z 24, x +0.4: k = 4, W = 32.8266 (4; from
+  memory, the formula gives the same).
+- ROSE: Modern Machine Shop Practice (1887), table of involute form cutters (11).
+- ARMY: ordnance manual OD 16448, dividing-head chapter, armyordnance.tpub.com/od16448/
+  od164480030.htm (12): 42 divisions = 40 spaces on the 42 circle or 20 on the 21.
+- ISO 21771:2007 tip diameter d_a = m z + 2 m (h_a + x); ISO 53:1998 type A full depth
+  2.25 m (8; both from memory).
 """
 
 from __future__ import annotations
@@ -150,7 +152,7 @@ def test_csv_round_trip(tmp_path: Path) -> None:
 
 
 def test_cutter_notes_for_small_and_shifted_wheels() -> None:
-    # Rose 1887 (check-values §10): the 8-cutter set starts at 12 teeth (No. 8)
+    # ROSE (docs/references.md section 11): the 8-cutter set starts at 12 teeth (No. 8)
     (small,) = cutting_rows([_wheel(11, shift=0.4)])
     assert small.cutter_number is None
     assert any("no cutter of the 8-cutter set" in w for w in small.warnings)

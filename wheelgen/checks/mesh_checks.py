@@ -417,8 +417,9 @@ def _involute_findings(
         (names[0], names[1], data.reach_2, data.start_radius_2, data.form_radius_2),
     )
     # Generated teeth are undercut exactly where a mate's tip would interfere, so the
-    # flanks do not collide there (Shigley's Mechanical Engineering Design, gears
-    # chapter, "interference": undercutting removes the interfering flank [M]); the
+    # flanks do not collide there (Mechanical Engineering Design, McGraw-Hill, spur-gear
+    # chapter, "interference": undercutting removes the interfering flank; from
+    # memory, docs/references.md section 6); the
     # contact is lost instead and the flank is weakened. The simulator says whether the
     # pair actually binds (mesh.jam).
     for tip, flank, reach, start, form in sides:

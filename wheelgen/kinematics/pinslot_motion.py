@@ -12,7 +12,7 @@ the offset line (A towards B), counter-clockwise. The largest deviation is there
 ``arcsin(e / r)``, reached when the slot stands at right angles to the offset line
 (``psi = +-90 deg``), i.e. at ``u = +-(90 deg - arcsin(e / r))``. This is the triangle of
 the slotted-lever quick-return linkage and of the eccentric in planetary theory (see
-the check values, section 13, for published relatives).
+docs/references.md, section 13, for published relatives).
 
 Because ``e < r`` keeps ``r - e cos(u)`` positive, ``delta`` is a smooth, odd, periodic
 function of ``u``: over a whole turn of the pin the slot turns exactly once too.

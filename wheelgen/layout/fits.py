@@ -9,7 +9,7 @@ Sources: ISO 286-1:2010, Table 1 (standard tolerance grades) and Table 2 (fundam
 deviations of shafts a to h); for holes A to H the rule EI = -es of the same letter
 (ISO 286-1:2010, 4.3.2.4, "general rule"). Spot values are checked in
 tests/test_layout_fits.py against ISO 286-2 tables printed by tool makers (see
-/work/shared/reference/check-values.md, section 7).
+docs/references.md, section 9).
 """
 
 from __future__ import annotations

@@ -28,8 +28,8 @@ __all__ = [
 ]
 
 #: Involute form-cutter ranges, diametral-pitch set numbering: (number, fewest teeth,
-#: most teeth or None for "to a rack"). Source: J. Rose, Modern Machine Shop Practice
-#: (1887), and the usual eight-cutter tables (check-values.md section 10). Module sets
+#: most teeth or None for "to a rack"). Source: Modern Machine Shop Practice (1887),
+#: table of involute form cutters (docs/references.md section 11). Module sets
 #: sold in some countries number the other way round; the sheet prints the range.
 CUTTER_RANGES: tuple[tuple[int, int, int | None], ...] = (
     (1, 135, None),
@@ -43,7 +43,7 @@ CUTTER_RANGES: tuple[tuple[int, int, int | None], ...] = (
 )
 #: Pin diameter for external spur gears, x module: 1.728 / P in the diametral-pitch
 #: convention (Machinery's Handbook, "Checking Gear Size by Measurement over Wires or
-#: Pins"; check-values.md section 3).
+#: Pins"; docs/references.md section 5).
 PIN_FACTOR = 1.728
 
 
@@ -99,8 +99,9 @@ def undercut_limit_teeth(
 ) -> float:
     """Fewest teeth a rack of ``addendum`` (x module) generates without undercut.
 
-    z_min = 2 (h_a - x) / sin^2(alpha) (SDP/SI D785 section 4.3; Shigley, gears
-    chapter). A real number: the whole-number minimum is the next integer up.
+    z_min = 2 (h_a - x) / sin^2(alpha) (Elements of Metric Gear Technology, SDP/SI D785,
+    section 4.3; docs/references.md section 6). A real number: the whole-number minimum
+    is the next integer up.
     """
     s = math.sin(math.radians(pressure_angle_deg))
     return 2.0 * (addendum - shift) / (s * s)

@@ -19,18 +19,19 @@ __all__ = [
     "gear_set",
 ]
 
-# Three-plate set, the one most commonly supplied with a 40:1 head. From memory
-# (check-values.md §11 [M]); cross-checked there against the published claim in
-# "Practical Treatise on Milling and Milling Machines" (en.wikisource.org, p. 58) that
-# these plates index "all divisions up to 50, even numbers up to 100, except 96".
+# Three-plate set, the one most commonly supplied with a 40:1 head. From memory;
+# cross-checked against the published claim in "Practical Treatise on Milling and
+# Milling Machines" (en.wikisource.org, p. 58) that these plates index "all divisions
+# up to 50, even numbers up to 100, except 96" (docs/references.md section 12).
 THREE_PLATE: tuple[int, ...] = (
     15, 16, 17, 18, 19, 20,  # plate 1
     21, 23, 27, 29, 31, 33,  # plate 2
     37, 39, 41, 43, 47, 49,  # plate 3
 )  # fmt: skip
 
-# One plate drilled on both faces. Published: US Army ordnance manual, dividing-head
-# chapter, armyordnance.tpub.com/od16448/od164480030.htm (check-values.md §11 [P]).
+# One plate drilled on both faces. Published: ordnance manual OD 16448, dividing-head
+# chapter, armyordnance.tpub.com/od16448/od164480030.htm (docs/references.md
+# section 12).
 TWO_SIDED: tuple[int, ...] = (
     24, 25, 28, 30, 34, 37, 38, 39, 41, 42, 43,  # side 1
     46, 47, 49, 51, 53, 54, 57, 58, 59, 62, 66,  # side 2
@@ -45,8 +46,8 @@ PLATE_SETS: dict[str, tuple[int, ...]] = {
 DEFAULT_PLATES = "three-plate"
 
 # Change gears commonly supplied with a head that can index differentially. From
-# memory (check-values.md §11 [M], after Machinery's Handbook, "Differential
-# Indexing"). 24 comes twice, so a compound train may use two 24s.
+# memory (after Machinery's Handbook, "Differential Indexing"; docs/references.md
+# section 12). 24 comes twice, so a compound train may use two 24s.
 CHANGE_GEARS: tuple[int, ...] = (24, 24, 28, 32, 40, 44, 48, 56, 64, 72, 86, 100)
 
 

@@ -1,0 +1,70 @@
+"""Every citation can be followed from a clone of the repository.
+
+The sources live in docs/references.md; code and tests cite them by name and by that
+page's sections. No file names a place outside the repository.
+"""
+
+from __future__ import annotations
+
+import re
+import subprocess
+from pathlib import Path
+
+ROOT = Path(__file__).resolve().parents[1]
+REFERENCES = ROOT / "docs" / "references.md"
+
+# Spelled in pieces so that this file does not name them itself.
+OUTSIDE = ("/" + "work/", ".." + "/shared", "check" + "-values", "/" + "home/")
+
+
+def _project_files() -> list[Path]:
+    try:
+        listed = subprocess.run(
+            ["git", "ls-files", "-z"], cwd=ROOT, capture_output=True, check=True
+        ).stdout.decode()
+        names = [n for n in listed.split("\0") if n]
+    except (OSError, subprocess.CalledProcessError):  # not a git checkout
+        names = [
+            str(p.relative_to(ROOT))
+            for p in ROOT.rglob("*")
+            if p.is_file() and not {".git", ".venv", "output"} & set(p.parts)
+        ]
+    return [ROOT / n for n in names if (ROOT / n).is_file()]
+
+
+def _text(path: Path) -> str | None:
+    data = path.read_bytes()
+    if b"\0" in data:
+        return None
+    return data.decode("utf-8", errors="replace")
+
+
+def test_no_file_names_a_place_outside_the_repository() -> None:
+    found = []
+    for path in _project_files():
+        text = _text(path)
+        if text is None:
+            continue
+        for n, line in enumerate(text.splitlines(), 1):
+            if any(word in line for word in OUTSIDE):
+                found.append(f"{path.relative_to(ROOT)}:{n}: {line.strip()}")
+    assert not found, "\n".join(found)
+
+
+def test_cited_sections_of_the_references_exist() -> None:
+    headings = set(re.findall(r"^## (\d+)\. ", REFERENCES.read_text(), re.MULTILINE))
+    assert headings == {str(n) for n in range(1, len(headings) + 1)}
+    cited = re.compile(
+        r"references\.md[,):]*\s+(?:sections?\s+|§)(\d+(?:(?:,\s*|\s+and\s+)\d+)*)"
+    )
+    missing = []
+    for path in _project_files():
+        text = _text(path)
+        if text is None:
+            continue
+        flat = " ".join(line.lstrip("#: ").strip() for line in text.splitlines())
+        for match in cited.finditer(flat):
+            for number in re.findall(r"\d+", match.group(1)):
+                if number not in headings:
+                    missing.append(f"{path.relative_to(ROOT)}: section {number}")
+    assert not missing, "\n".join(missing)
