@@ -61,7 +61,7 @@ def bench_simulator(path: Path, steps: int = 240) -> None:
     from wheelgen.checks.mesh_sim import simulate_mesh
     from wheelgen.design.loader import load_design
     from wheelgen.layout.placement import tooth_spec as wheel_spec
-    from wheelgen.teeth.spec import outline_for
+    from wheelgen.teeth.forms import outline_for
 
     design = load_design(path)
     print(

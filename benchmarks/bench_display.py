@@ -91,7 +91,7 @@ def main() -> None:
 
     def demo_checks() -> None:
         plan.display_plan.cache_clear()
-        checks.display_findings(demo, None)
+        checks.display_findings(demo)
 
     t = best_of(demo_checks)
     print(f"demo: every display check, plan included {t * 1000:.1f} ms")
@@ -100,7 +100,7 @@ def main() -> None:
 
     def run() -> None:
         plan.display_plan.cache_clear()
-        found[:] = checks.display_findings(pair, None)
+        found[:] = checks.display_findings(pair)
 
     t = best_of(run, 1)
     clash = [f for f in found if f.check == "display.hand_clash"]

@@ -31,7 +31,8 @@ from wheelgen.design.tooth_defaults import (
     TRIANGULAR_BACKLASH_FACTOR,
     tooth_defaults,
 )
-from wheelgen.teeth.spec import ToothSpec, outline_for
+from wheelgen.teeth.forms import outline_for
+from wheelgen.teeth.spec import ToothSpec
 
 SAMPLE = (10, 11, 12, 13, 15, 17, 20, 24, 30, 37, 48, 60, 80, 101, 127, 173, 240, 300)
 FULL = tuple(

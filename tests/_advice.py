@@ -1,6 +1,6 @@
 """Follow a finding's advice the way a user would: edit the train file, check again.
 
-A :class:`~wheelgen.checks.findings.Change` names a table, an item, a key and a value of
+A :class:`~wheelgen.findings.Change` names a table, an item, a key and a value of
 the train format. :func:`apply_to_text` makes that edit in the TOML text (read with
 ``tomllib``, written back by the small writer below, which knows the value types the
 format uses), so a key the format does not have fails the test at load time.
@@ -11,9 +11,9 @@ from __future__ import annotations
 import tomllib
 from typing import Any
 
-from wheelgen.checks.findings import Change, Finding
 from wheelgen.design import loads_design
 from wheelgen.design.model import Design
+from wheelgen.findings import Change, Finding
 
 __all__ = ["apply_to_text", "dump_toml", "recheck"]
 

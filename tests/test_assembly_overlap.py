@@ -55,7 +55,7 @@ def test_the_carrier_wheel_solid_has_the_planet_bore():
     from OCP.gp import gp_Pnt
     from OCP.TopAbs import TopAbs_IN, TopAbs_OUT
 
-    from wheelgen.layout import plan_parts
+    from wheelgen.parts import plan_parts
     from wheelgen.solids.wheel import make_wheel
 
     design = loads_design(DEMO_TEXT, "demo.toml")

@@ -16,8 +16,8 @@ import pytest
 from tests._advice import recheck
 from tests._demo import demo_text
 from wheelgen.checks import analyse, run_checks
-from wheelgen.checks.findings import Finding, findings_table
 from wheelgen.design import loads_design
+from wheelgen.findings import Finding, findings_table
 
 DATA = Path(__file__).parent / "data"
 

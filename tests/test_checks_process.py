@@ -8,7 +8,6 @@ from pathlib import Path
 import numpy as np
 import pytest
 
-from wheelgen.checks.findings import Finding
 from wheelgen.checks.process_checks import (
     check_cutter_fits,
     check_process,
@@ -19,8 +18,10 @@ from wheelgen.checks.process_checks import (
 )
 from wheelgen.design.loader import load_design
 from wheelgen.design.model import Process
+from wheelgen.findings import Finding
+from wheelgen.teeth.forms import outline_for
 from wheelgen.teeth.outline import Segment, WheelOutline
-from wheelgen.teeth.spec import ToothSpec, outline_for
+from wheelgen.teeth.spec import ToothSpec
 
 DATA = Path(__file__).parent / "data" / "checks"
 

@@ -264,26 +264,6 @@ def test_dropping_lines_never_gives_a_traceback(tmp_path, rnd):
         json.loads(result.stdout)
 
 
-def test_check_does_not_import_the_cad_kernel():
-    code = (
-        "import wheelgen.cli.check; import wheelgen.checks; import sys; "
-        "assert 'cadquery' not in sys.modules, 'cadquery was imported'"
-    )
-    done = subprocess.run(
-        [sys.executable, "-c", code], capture_output=True, text=True, cwd=ROOT
-    )
-    assert done.returncode == 0, done.stderr
-
-
-def test_the_whole_command_line_does_not_import_the_cad_kernel():
-    # wheelgen.cli registers every command; building parts must import the kernel lazily
-    code = "import wheelgen.cli; import sys; assert 'cadquery' not in sys.modules"
-    done = subprocess.run(
-        [sys.executable, "-c", code], capture_output=True, text=True, cwd=ROOT
-    )
-    assert done.returncode == 0, done.stderr
-
-
 def test_installed_command_runs_the_demo():
     exe = Path(sys.executable).parent / "wheelgen"
     if not exe.exists():

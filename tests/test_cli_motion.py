@@ -137,15 +137,3 @@ def test_no_plotting_library_without_plot():
         [sys.executable, "-c", code], capture_output=True, text=True, check=True
     )
     assert out.stdout.split() == ["False"]
-
-
-def test_numeric_modules_do_not_import_cadquery():
-    code = (
-        "import sys, wheelgen.kinematics.angles, wheelgen.kinematics.pinslot_motion,"
-        " wheelgen.layout.pinslot_geometry, wheelgen.checks.pinslot_checks;"
-        "print('cadquery' in sys.modules)"
-    )
-    out = subprocess.run(
-        [sys.executable, "-c", code], capture_output=True, text=True, check=True
-    )
-    assert out.stdout.split() == ["False"]

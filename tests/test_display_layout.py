@@ -11,8 +11,9 @@ from wheelgen.checks import run_checks
 from wheelgen.design import load_design, loads_design
 from wheelgen.display.checks import hand_min_distance
 from wheelgen.display.plan import display_plan
-from wheelgen.layout import plan_layout, plan_parts
+from wheelgen.layout import plan_layout
 from wheelgen.layout.front import SEAT_PROUD
+from wheelgen.parts import plan_parts
 from wheelgen.workshop.drilling import chart_holes
 
 ROOT = Path(__file__).resolve().parents[1]
@@ -225,22 +226,6 @@ def test_hand_distance_of_crossed_and_parallel_segments():
     assert d == pytest.approx([0.0, 40.0, 5.0])
 
 
-def test_the_display_never_starts_the_cad_kernel():
-    import subprocess
-    import sys
-
-    code = (
-        "import sys\n"
-        "from wheelgen.design import load_design\n"
-        "from wheelgen.display import display_plan\n"
-        "from wheelgen.display.checks import display_findings\n"
-        f"d = load_design({str(DEMO)!r})\n"
-        "display_plan(d); display_findings(d, None)\n"
-        "assert 'cadquery' not in sys.modules and 'OCP' not in sys.modules\n"
-    )
-    subprocess.run([sys.executable, "-c", code], check=True)
-
-
 def test_the_reading_at_rest_turns_the_hand_and_its_seat():
     text = DEMO_TEXT + '\n[[hand]]\narbor = "moon_dial"\nrest = 7.5\n'
     hand = next(
@@ -319,11 +304,9 @@ def test_dial_feet_are_pinned_through_the_front_plate_clear_of_its_holes():
 
 
 def test_an_arbor_lengthened_to_its_cock_keeps_its_hand_seat():
-    from wheelgen.frame import plan_parts as all_parts
-
     design = load_design(ROOT / "tests" / "data" / "two_stage.toml")
-    output = next(p for p in all_parts(design) if p.name == "output")
-    hand = next(p for p in all_parts(design) if p.name == "hand_output")
+    output = next(p for p in plan_parts(design) if p.name == "output")
+    hand = next(p for p in plan_parts(design) if p.name == "hand_output")
     z0, z1, shape = output.seats[-1]
     # the square runs from the hand's back face to the arbor's end
     assert output.placement.z + z0 == pytest.approx(hand.placement.z)

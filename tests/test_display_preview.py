@@ -104,7 +104,7 @@ def test_the_moon_hand_runs_unevenly(demo) -> None:
 
 def test_report_carries_the_dial_preview(demo) -> None:
     from wheelgen.checks import run_checks
-    from wheelgen.layout import plan_parts
+    from wheelgen.parts import plan_parts
 
     design = demo[0]
     page = report_html(design, plan_parts(design), run_checks(design))

@@ -17,8 +17,8 @@ from _assembly import placed_solids  # noqa: E402
 from wheelgen.design import load_design  # noqa: E402
 from wheelgen.display.outlines import flat_profile  # noqa: E402
 from wheelgen.export.build import BuildOptions, build_design  # noqa: E402
-from wheelgen.frame import plan_parts  # noqa: E402
 from wheelgen.layout import plan_layout  # noqa: E402
+from wheelgen.parts import plan_parts  # noqa: E402
 
 pytestmark = pytest.mark.cad
 

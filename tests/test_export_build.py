@@ -19,13 +19,13 @@ from wheelgen.export.output_folder import (  # noqa: E402
     OutputFolderError,
 )
 from wheelgen.export.staging import UnsafeNameError  # noqa: E402
-from wheelgen.frame import plan_parts  # noqa: E402
 from wheelgen.layout.part_plan import (  # noqa: E402
     BOUGHT_KINDS,
     FLAT_KINDS,
     ArborPart,
     WheelPart,
 )
+from wheelgen.parts import plan_parts  # noqa: E402
 from wheelgen.teeth.spec import ToothSpec  # noqa: E402
 
 pytestmark = pytest.mark.cad
@@ -194,7 +194,7 @@ def test_build_refuses_unsafe_part_names(design, tmp_path, name):
 
 
 def test_error_finding_blocks_unless_forced(design, tmp_path, monkeypatch):
-    from wheelgen.checks.findings import Finding
+    from wheelgen.findings import Finding
 
     monkeypatch.setattr(sheets, "SHEET_WRITERS", ())
     bad = [Finding("error", "test.made_up", "wheel x", "made up for the test")]

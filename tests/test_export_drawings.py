@@ -17,7 +17,8 @@ import pytest
 from wheelgen.export.svg_template import SCALE_BAR_MM, write_svg
 from wheelgen.layout.part_plan import WheelPart
 from wheelgen.layout.wheel_profile import plate_profile
-from wheelgen.teeth.spec import ToothSpec, outline_for
+from wheelgen.teeth.forms import outline_for
+from wheelgen.teeth.spec import ToothSpec
 
 ROOT = Path(__file__).resolve().parents[1]
 

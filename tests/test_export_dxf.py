@@ -33,12 +33,13 @@ from wheelgen.cli import main
 from wheelgen.export.biarcs import biarc_segments
 from wheelgen.export.build import DXF_CURVES, BuildOptions, build_design
 from wheelgen.export.dxf import write_dxf
-from wheelgen.layout import plan_parts
 from wheelgen.layout.part_plan import PinBoss, SlotCut, WheelPart
 from wheelgen.layout.wheel_profile import plate_profile
+from wheelgen.parts import plan_parts
 from wheelgen.solids.spline_fit import SPLINE_FIT_TOLERANCE, fit_segments
+from wheelgen.teeth.forms import outline_for
 from wheelgen.teeth.involute_tooth import generate_tooth
-from wheelgen.teeth.spec import ToothSpec, outline_for
+from wheelgen.teeth.spec import ToothSpec
 
 ROOT = Path(__file__).resolve().parents[1]
 DEMO = ROOT / "designs" / "harbour_tide_clock.toml"
@@ -230,7 +231,8 @@ def test_dxf_bytes_identical_across_processes_and_hash_seeds(tmp_path):
         from wheelgen.export.dxf import write_dxf
         from wheelgen.layout.part_plan import WheelPart
         from wheelgen.layout.wheel_profile import plate_profile
-        from wheelgen.teeth.spec import ToothSpec, outline_for
+        from wheelgen.teeth.forms import outline_for
+        from wheelgen.teeth.spec import ToothSpec
         part = WheelPart("w", ToothSpec(30, 1.0), 3.0, 4.0, spokes=5, rim=2.0,
                          round_radius=0.5)
         prof = plate_profile(part, outline_for(part.tooth))

@@ -25,8 +25,9 @@ from wheelgen.export.step import compact_step, write_step  # noqa: E402
 from wheelgen.layout.part_plan import WheelPart  # noqa: E402
 from wheelgen.solids.spline_fit import SPLINE_FIT_TOLERANCE  # noqa: E402
 from wheelgen.solids.wheel import make_wheel  # noqa: E402
+from wheelgen.teeth.forms import outline_for  # noqa: E402
 from wheelgen.teeth.involute_tooth import generate_tooth  # noqa: E402
-from wheelgen.teeth.spec import ToothSpec, outline_for  # noqa: E402
+from wheelgen.teeth.spec import ToothSpec  # noqa: E402
 from wheelgen.teeth.trochoid import fillet_trochoid  # noqa: E402
 
 pytestmark = pytest.mark.cad

@@ -22,11 +22,12 @@ from hypothesis import strategies as st
 from tests._demo import DEMO_TEXT, demo_variant
 from wheelgen.checks.engine import analyse
 from wheelgen.design import DesignError, load_design, loads_design
-from wheelgen.frame import frame_findings, frame_parts, plan_frame, plan_parts
+from wheelgen.frame import frame_findings, frame_parts, plan_frame
 from wheelgen.frame.outline import edges_polyline, outline_distance
 from wheelgen.layout.collisions import inside_polygon
 from wheelgen.layout.part_plan import ArborPart, BearingPart, PillarPart, ScrewPart
 from wheelgen.layout.plan import plan_layout
+from wheelgen.parts import plan_parts
 
 DATA = Path(__file__).parent / "data"
 DEMO = Path(__file__).parent.parent / "designs" / "harbour_tide_clock.toml"
@@ -49,7 +50,7 @@ def pair(rectangle: str = "", extra: str = "") -> str:
 
 
 def errors(design, check: str | None = None):
-    found = [f for f in frame_findings(design, None) if f.level == "error"]
+    found = [f for f in frame_findings(design) if f.level == "error"]
     return [f for f in found if check is None or f.check == check]
 
 
@@ -219,7 +220,7 @@ def test_demo_every_turning_arbor_is_held_twice(demo):
         if name == "main":  # the front end turns in the fixed stud's bore
             held = len(spans[name].pivots)
         assert held == 2, name
-    found = frame_findings(design, None)
+    found = frame_findings(design)
     assert [f for f in found if f.level == "error"] == []
     assert {f.subject for f in found if f.check == "frame.held"} == {
         "arbor moon",
@@ -430,7 +431,7 @@ def test_pillars_too_close_together_lack_material():
 def test_design_without_frame_says_so_and_has_no_frame_parts():
     bare = load_design(DATA / "checks" / "good_pair.toml")
     assert bare.frame is None
-    (note,) = frame_findings(bare, None)
+    (note,) = frame_findings(bare)
     assert note.check == "frame.none" and note.level == "note"
     assert frame_parts(bare) == ()
 

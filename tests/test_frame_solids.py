@@ -27,8 +27,8 @@ pytest.importorskip("cadquery")
 from tests._assembly import placed_solids, shared_volumes  # noqa: E402
 from wheelgen.design import load_design  # noqa: E402
 from wheelgen.export.build import BuildOptions, build_design  # noqa: E402
-from wheelgen.frame import plan_parts  # noqa: E402
 from wheelgen.layout.part_plan import BOUGHT_KINDS  # noqa: E402
+from wheelgen.parts import plan_parts  # noqa: E402
 
 pytestmark = pytest.mark.cad
 

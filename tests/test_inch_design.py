@@ -25,10 +25,10 @@ from pathlib import Path
 import pytest
 
 from wheelgen.checks import analyse
-from wheelgen.checks.findings import has_errors
 from wheelgen.design import load_design, loads_design
 from wheelgen.design.errors import DesignError
-from wheelgen.frame import plan_parts
+from wheelgen.findings import has_errors
+from wheelgen.parts import plan_parts
 from wheelgen.workshop.cutting import cutting_csv, cutting_rows
 from wheelgen.workshop.drilling import drilling_csv
 from wheelgen.workshop.parts_bill import bill_rows, parts_csv

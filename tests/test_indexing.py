@@ -14,12 +14,9 @@ Sources (docs/references.md section 12):
 
 from __future__ import annotations
 
-import subprocess
-import sys
 from collections import Counter
 from fractions import Fraction
 from itertools import permutations
-from pathlib import Path
 
 import pytest
 from hypothesis import given, settings
@@ -368,15 +365,3 @@ def test_sets_as_published():
     assert len(TWO_SIDED) == 22 and 53 in TWO_SIDED and 66 in TWO_SIDED
     assert len(THREE_PLATE) == 18 and THREE_PLATE[0] == 15 and THREE_PLATE[-1] == 49
     assert Counter(CHANGE_GEARS)[24] == 2
-
-
-def test_numeric_layer_does_not_import_cadquery():
-    code = (
-        "import sys, wheelgen.workshop.indexing, wheelgen.workshop.plates;"
-        "assert 'cadquery' not in sys.modules, 'cadquery imported'"
-    )
-    root = Path(__file__).resolve().parents[1]
-    done = subprocess.run(
-        [sys.executable, "-c", code], capture_output=True, text=True, cwd=root
-    )
-    assert done.returncode == 0, done.stderr

@@ -16,8 +16,8 @@ import pytest
 
 from tests._advice import apply_to_text, recheck
 from wheelgen.checks import run_checks
-from wheelgen.checks.findings import Finding
 from wheelgen.design import loads_design
+from wheelgen.findings import Finding
 from wheelgen.layout import plan_layout
 from wheelgen.layout.centres import mesh_centres, move_for
 

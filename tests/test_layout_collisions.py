@@ -6,8 +6,8 @@ from pathlib import Path
 import pytest
 
 from wheelgen.checks.engine import analyse
+from wheelgen.checks.layout_checks import layout_findings
 from wheelgen.design.loader import load_design, loads_design
-from wheelgen.layout import layout_findings
 
 DATA = Path(__file__).parent / "data" / "layout"
 DEMO = Path(__file__).parent.parent / "designs" / "harbour_tide_clock.toml"
@@ -137,7 +137,7 @@ def test_carried_wheel_sweeps_round_its_carrier(post_y, depth):
 
 
 def test_carrier_wheel_gets_a_running_bore_for_the_carried_arbor():
-    from wheelgen.layout import plan_parts
+    from wheelgen.parts import plan_parts
 
     parts = {p.name: p for p in plan_parts(planet(42.5))}
     # planet arbor 3 mm (default): hole in the middle of H7, 3.000..3.010 mm (ISO 286-2,

@@ -16,10 +16,10 @@ from pathlib import Path
 from tests._demo import DEMO_TEXT, demo_text
 from wheelgen.checks import run_checks
 from wheelgen.design import load_design, loads_design
-from wheelgen.layout import plan_parts
 from wheelgen.layout.part_plan import WheelPart
 from wheelgen.layout.wheel_profile import plate_profile
-from wheelgen.teeth.spec import outline_for
+from wheelgen.parts import plan_parts
+from wheelgen.teeth.forms import outline_for
 from wheelgen.workshop.cutting import cutting_csv, cutting_rows
 from wheelgen.workshop.parts_bill import bill_rows, parts_csv
 

@@ -22,11 +22,12 @@ from wheelgen.checks import run_checks
 from wheelgen.cli import main
 from wheelgen.design import load_design, loads_design
 from wheelgen.design.model import Design
-from wheelgen.layout import plan_layout, plan_parts
+from wheelgen.layout import plan_layout
 from wheelgen.layout.part_plan import WheelPart
 from wheelgen.layout.phasing import rest_angles
 from wheelgen.layout.placement import arbor_positions
-from wheelgen.teeth.spec import outline_for
+from wheelgen.parts import plan_parts
+from wheelgen.teeth.forms import outline_for
 
 DATA = Path(__file__).parent / "data" / "layout"
 EPICYCLIC = DATA / "epicyclic_nested.toml"

@@ -5,8 +5,9 @@ from pathlib import Path
 import pytest
 
 from wheelgen.checks.engine import analyse
+from wheelgen.checks.layout_checks import layout_findings
 from wheelgen.design.loader import load_design, loads_design
-from wheelgen.layout import layout_findings, plan_layout
+from wheelgen.layout import plan_layout
 from wheelgen.layout.collisions import pin_sweeps
 
 DATA = Path(__file__).parent / "data" / "layout"

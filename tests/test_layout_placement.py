@@ -6,8 +6,9 @@ from pathlib import Path
 import pytest
 
 from wheelgen.checks.engine import analyse
+from wheelgen.checks.layout_checks import layout_findings
 from wheelgen.design.loader import load_design, loads_design
-from wheelgen.layout import arbor_positions, layout_findings
+from wheelgen.layout import arbor_positions
 from wheelgen.layout.placement import place_axes, working_centre_distance
 from wheelgen.teeth.spec import ToothSpec
 

@@ -6,10 +6,11 @@ from pathlib import Path
 
 import pytest
 
+from wheelgen.checks.layout_checks import layout_findings
 from wheelgen.design.loader import loads_design
-from wheelgen.layout import layout_findings, plan_parts
 from wheelgen.layout.part_plan import ArborPart, SleevePart
 from wheelgen.layout.plan import plan_layout
+from wheelgen.parts import plan_parts
 
 DATA = Path(__file__).parent / "data" / "layout"
 

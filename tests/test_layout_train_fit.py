@@ -8,17 +8,17 @@ from fractions import Fraction
 
 import pytest
 
-from wheelgen.design.loader import loads_design
-from wheelgen.kinematics.ratio_search import Coaxial, Limits, Train, search_trains
-from wheelgen.kinematics.snippet import train_snippet
-from wheelgen.layout import arbor_positions
-from wheelgen.layout.train_fit import (
+from wheelgen.checks.train_fit import (
     SHAFT_DIAMETER,
     design_of,
     fit_train,
     plan_train,
     shift_reach,
 )
+from wheelgen.design.loader import loads_design
+from wheelgen.kinematics.ratio_search import Coaxial, Limits, Train, search_trains
+from wheelgen.kinematics.snippet import train_snippet
+from wheelgen.layout import arbor_positions
 
 
 def _inv(a):

@@ -179,7 +179,8 @@ def test_involute_pushed_together_jams():
 
 
 def test_project_involute_generator_is_conjugate_too():
-    from wheelgen.teeth.spec import ToothSpec, outline_for
+    from wheelgen.teeth.forms import outline_for
+    from wheelgen.teeth.spec import ToothSpec
 
     g1 = outline_for(ToothSpec(12, 1.0, thinning=0.05))
     g2 = outline_for(ToothSpec(30, 1.0, thinning=0.05))

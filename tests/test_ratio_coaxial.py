@@ -19,6 +19,7 @@ from fractions import Fraction
 
 import pytest
 
+from wheelgen.checks.train_fit import fit_train, shift_reach
 from wheelgen.kinematics.ratio_search import (
     Coaxial,
     Limits,
@@ -26,7 +27,6 @@ from wheelgen.kinematics.ratio_search import (
     relaxations,
     search_trains,
 )
-from wheelgen.layout.train_fit import fit_train, shift_reach
 
 
 def coaxial_brute_force(target, counts, modules=(1, 1), reach=None, max_total=None):

@@ -302,18 +302,3 @@ def test_top_is_bounded():
 def test_bad_target():
     with pytest.raises(ValueError, match="positive"):
         search_trains(Fraction(0), Limits())
-
-
-def test_numeric_layer_does_not_import_cadquery():
-    import subprocess
-    import sys
-
-    code = (
-        "import sys, wheelgen.kinematics.ratio_search, wheelgen.kinematics.snippet, "
-        "wheelgen.kinematics.ratio_target, wheelgen.cli.ratio; "
-        "print('cadquery' in sys.modules)"
-    )
-    out = subprocess.run(
-        [sys.executable, "-c", code], capture_output=True, text=True, check=True
-    )
-    assert out.stdout.strip() == "False"

@@ -20,7 +20,7 @@ from _browser import screenshot
 
 from wheelgen.checks import analyse
 from wheelgen.design import load_design
-from wheelgen.layout import plan_parts
+from wheelgen.parts import plan_parts
 from wheelgen.workshop.report import report_html
 from wheelgen.workshop.te_plot import mesh_te_curves, te_comparison_svg, te_plot_svg
 

@@ -18,8 +18,9 @@ from wheelgen.solids.spline_fit import (
     fit_spline,
     spline_fit_deviation,
 )
+from wheelgen.teeth.forms import outline_for
 from wheelgen.teeth.involute_tooth import FLANK_POINTS, generate_tooth
-from wheelgen.teeth.spec import ToothSpec, outline_for
+from wheelgen.teeth.spec import ToothSpec
 from wheelgen.teeth.trochoid import fillet_trochoid
 
 

@@ -16,7 +16,8 @@ from wheelgen.layout.part_plan import (
     WheelPart,
 )
 from wheelgen.layout.wheel_profile import Hole, plate_profile, spoke_sizes
-from wheelgen.teeth.spec import ToothSpec, outline_for
+from wheelgen.teeth.forms import outline_for
+from wheelgen.teeth.spec import ToothSpec
 
 
 def _closed(hole: Hole) -> bool:

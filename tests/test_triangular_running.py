@@ -17,7 +17,6 @@ import pytest
 from click.testing import CliRunner
 
 from wheelgen.checks import analyse
-from wheelgen.checks.findings import format_value
 from wheelgen.checks.least_play import pair_play, settle_play
 from wheelgen.cli import main
 from wheelgen.design import DesignError, loads_design
@@ -28,6 +27,7 @@ from wheelgen.design.tooth_defaults import (
     default_tooth_angle_deg,
     tooth_defaults,
 )
+from wheelgen.findings import format_value
 from wheelgen.layout.placement import tooth_spec
 from wheelgen.teeth import ToothSpec, outline_for
 

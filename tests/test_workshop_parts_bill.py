@@ -15,8 +15,8 @@ from pathlib import Path
 import pytest
 
 from wheelgen.design import load_design
-from wheelgen.layout import plan_parts
 from wheelgen.layout.part_plan import ArborPart, PinBoss, PinPart, SleevePart, WheelPart
+from wheelgen.parts import plan_parts
 from wheelgen.teeth import gear_data
 from wheelgen.teeth.spec import ToothSpec
 from wheelgen.workshop.parts_bill import (

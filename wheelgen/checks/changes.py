@@ -1,7 +1,7 @@
 """Apply a finding's changes to a loaded design: the file as it would read after the edit.
 
 The check engine uses this to find a cause's consequences (what goes away once the
-cause is put right); a :class:`~wheelgen.checks.findings.Change` names the train file's
+cause is put right); a :class:`~wheelgen.findings.Change` names the train file's
 own table, item and key, so the same edit can be made in the file by hand.
 """
 
@@ -12,7 +12,7 @@ from dataclasses import fields, replace
 from typing import Any
 
 from ..design.model import Design, Dial, Frame, Hand
-from .findings import Change
+from ..findings import Change
 
 __all__ = ["apply_changes"]
 

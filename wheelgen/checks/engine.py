@@ -2,20 +2,27 @@
 
 Each check is a function ``(design, analysis) -> list[Finding]`` registered in
 :func:`design_checks`; :func:`analyse` runs them all, after the exact kinematics.
-Adding a check: write the function in its own module under ``wheelgen/checks`` and add it
-to the tuple :func:`design_checks` returns. Nothing here imports the CAD kernel.
+Adding a check: write the function in its own module under ``wheelgen/checks`` (or in
+the layer whose numbers it checks, taking only what it needs) and add it to the tuple
+:func:`design_checks` returns. Nothing here imports the CAD kernel.
 """
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field, replace
-from typing import Callable
+from dataclasses import replace
 
 from ..design.model import Design
-from ..kinematics.rates import TrainSolution, solve_rates
-from ..kinematics.targets import TargetResult, evaluate_targets
+from ..display.checks import display_findings
+from ..findings import Finding, sort_findings
+from ..frame.checks import frame_findings
+from ..kinematics.rates import solve_rates
+from ..kinematics.targets import evaluate_targets
+from .analysis import Analysis, DesignCheck
 from .changes import apply_changes
-from .findings import Finding, sort_findings
+from .layout_checks import layout_findings
+from .mesh_checks import design_mesh_checks
+from .pinslot_checks import pinslot_findings
+from .process_checks import design_process_checks
 from .train import train_findings
 
 __all__ = [
@@ -28,51 +35,36 @@ __all__ = [
 ]
 
 
-@dataclass(frozen=True)
-class Analysis:
-    """Everything the checks found: exact rates, target verdicts and findings."""
-
-    design: Design
-    solution: TrainSolution
-    targets: list[TargetResult]
-    findings: list[Finding] = field(default_factory=list)
-
-
-DesignCheck = Callable[[Design, Analysis], list[Finding]]
-
-
 def _train(design: Design, analysis: Analysis) -> list[Finding]:
     return train_findings(design, analysis.solution, analysis.targets)
 
 
 def _meshes(design: Design, analysis: Analysis) -> list[Finding]:
-    from .mesh_checks import design_mesh_checks
-
     return design_mesh_checks(design)
 
 
 def _process(design: Design, analysis: Analysis) -> list[Finding]:
-    from .process_checks import design_process_checks
-
     return design_process_checks(design)
+
+
+def _frame(design: Design, analysis: Analysis) -> list[Finding]:
+    return frame_findings(design)
+
+
+def _display(design: Design, analysis: Analysis) -> list[Finding]:
+    return display_findings(design)
 
 
 def design_checks() -> tuple[DesignCheck, ...]:
     """Every registered check, in the order they run."""
-    # Imported here so that each check module may import the engine's types.
-    from ..display.checks import display_findings
-    from ..frame import frame_findings
-    from ..layout import layout_findings
-    from .pinslot_checks import pinslot_findings
-
     return (
         _train,
         _meshes,
         _process,
         layout_findings,
         pinslot_findings,
-        frame_findings,
-        display_findings,
+        _frame,
+        _display,
     )
 
 

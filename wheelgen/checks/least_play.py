@@ -22,10 +22,11 @@ from typing import Literal
 from ..design.model import Design, Mesh, Process, Wheel
 from ..design.process_limits import min_backlash
 from ..design.tooth_defaults import tooth_angle_for_flank_deg
+from ..findings import Change, Finding
 from ..layout.placement import tooth_spec, working_centre_distance
-from ..teeth.spec import ToothSpec, outline_for
+from ..teeth.forms import outline_for
+from ..teeth.spec import ToothSpec
 from ..teeth.triangular import triangular_tooth
-from .findings import Change, Finding
 from .mesh_sim import CHECK_STEPS, MeshSimulation, simulate_mesh
 
 __all__ = [

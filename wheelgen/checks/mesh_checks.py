@@ -1,6 +1,6 @@
 """Checks on each wheel's teeth and on each pair of wheels in mesh.
 
-Every function returns a list of :class:`~wheelgen.checks.findings.Finding`; an empty
+Every function returns a list of :class:`~wheelgen.findings.Finding`; an empty
 list means the check passed. Lengths in mm, angles in degrees.
 
 Involute pairs are judged with the usual formulas (working pressure angle, working
@@ -23,7 +23,9 @@ from ..design.process_limits import (
     default_backlash,
     min_backlash,
 )
+from ..findings import Change, Finding, Level
 from ..layout.placement import tooth_spec
+from ..teeth.forms import outline_for
 from ..teeth.involute_tooth import generate_tooth
 from ..teeth.limits import (
     CONTACT_RATIO_ERROR,
@@ -38,8 +40,7 @@ from ..teeth.mesh_data import (
     working_pressure_angle_deg,
 )
 from ..teeth.outline import WheelOutline
-from ..teeth.spec import ToothSpec, outline_for
-from .findings import Change, Finding, Level
+from ..teeth.spec import ToothSpec
 from .least_play import MAX_ADVISED_PLAY, least_play_findings, running_advice
 from .mesh_sim import CHECK_STEPS, MeshSimulation, simulate_mesh
 
@@ -699,7 +700,7 @@ def design_mesh_checks(
         on the final layout (:func:`wheelgen.layout.centres.mesh_centres`), whatever
         placed the arbors. A mesh with no distance is judged at its working centre
         distance. Whether the distance itself is right is the layout's check
-        (``mesh.centre_distance`` in :func:`wheelgen.layout.layout_findings`).
+        (``mesh.centre_distance`` in :func:`wheelgen.checks.layout_checks.layout_findings`).
     simulate
         Also run the outline simulator on every mesh.
     """

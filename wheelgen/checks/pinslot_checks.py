@@ -19,11 +19,11 @@ Check ids (``pinslot.*``):
 
 from __future__ import annotations
 
-from typing import TYPE_CHECKING
-
 import numpy as np
 
 from ..design.model import Design, PinSlot, Wheel
+from ..design.process_limits import wall_minimum
+from ..findings import Finding
 from ..kinematics.pinslot_motion import (
     max_deviation_pin_angles_deg,
     pin_distance,
@@ -31,10 +31,11 @@ from ..kinematics.pinslot_motion import (
 )
 from ..layout.part_plan import SlotCut
 from ..layout.pinslot_geometry import MILL_SLOT_PLAY, pin_boss, slot_cut
-from .findings import Finding
-
-if TYPE_CHECKING:  # the engine imports the check modules; avoid a cycle at run time
-    from .engine import Analysis
+from ..layout.placement import tooth_spec
+from ..layout.sleeves import size_sleeves, wheel_bore
+from ..layout.wheel_profile import seat_extent
+from ..teeth.forms import outline_for
+from .analysis import Analysis
 
 __all__ = [
     "MIN_TRANSMISSION_DEG",
@@ -53,9 +54,6 @@ _TOL = 1e-9  # mm: rounding allowance when comparing radii
 
 def wheel_root_radius(wheel: Wheel) -> float:
     """Root circle radius of ``wheel`` in mm, from the tooth generator."""
-    from ..layout.placement import tooth_spec
-    from ..teeth.spec import outline_for
-
     spec = tooth_spec(wheel)
     try:
         return float(outline_for(spec).radii["root"])
@@ -67,9 +65,6 @@ def wheel_root_radius(wheel: Wheel) -> float:
 
 def _inner_limit(design: Design, wheel: Wheel) -> tuple[float, str]:
     """Radius (mm) the cut must stay outside of: the bore, or the hub boss if larger."""
-    from ..layout.sleeves import size_sleeves, wheel_bore
-    from ..layout.wheel_profile import seat_extent
-
     bore = wheel_bore(design, size_sleeves(design), wheel).diameter
     extent = seat_extent(wheel.seat, bore)
     if wheel.hub_diameter / 2 > extent:
@@ -145,7 +140,7 @@ def _body_findings(
     subject: str,
     what: str,
 ) -> list[Finding]:
-    wall = design.process.wall_minimum
+    wall = wall_minimum(design.process)
     inside, which = _inner_limit(design, wheel)
     root = wheel_root_radius(wheel)
     out: list[Finding] = []

@@ -21,14 +21,15 @@ from functools import lru_cache
 import numpy as np
 
 from ..design.model import Design, Process, Wheel
-from ..design.process_limits import wall_floor
+from ..design.process_limits import wall_floor, wall_minimum
+from ..findings import Change, Finding, Level
 from ..layout.placement import tooth_spec
 from ..layout.sleeves import size_sleeves, wheel_bore
 from ..layout.wheel_profile import seat_extent
+from ..teeth.forms import outline_for
 from ..teeth.limits import short_of
 from ..teeth.outline import WheelOutline
-from ..teeth.spec import ToothSpec, outline_for
-from .findings import Change, Finding, Level
+from ..teeth.spec import ToothSpec
 from .mesh_sim import ToothTable, tooth_table
 
 __all__ = [
@@ -200,7 +201,7 @@ def check_process(
                     '(process = "mill") or set [process] min_module_hand',
                 )
             )
-    wall = process.wall_minimum
+    wall = wall_minimum(process)
     floor = wall_floor(process)
     for what, value in (("web", web), ("rim", rim)):
         if value is not None and short_of(value, wall):
@@ -341,7 +342,7 @@ def design_process_checks(
         if process.kind == "mill" and wheel.spokes and wheel.rim is not None:
             root = wheel.module * (wheel.teeth / 2 + wheel.shift - wheel.dedendum)
             hub = max(wheel.hub_diameter / 2, seat_extent(wheel.seat, bore))
-            hub += process.wall_minimum
+            hub += wall_minimum(process)
             window = root - wheel.rim - hub
             out += check_cutter_fits(
                 process.cutter, window, subject, "spoke windows (radial room)"

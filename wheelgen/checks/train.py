@@ -4,9 +4,9 @@ from __future__ import annotations
 
 from ..design.model import Design
 from ..design.periods import format_period
+from ..findings import Finding
 from ..kinematics.rates import TrainSolution
 from ..kinematics.targets import TargetResult
-from .findings import Finding
 
 __all__ = ["train_findings"]
 

@@ -10,7 +10,7 @@ from __future__ import annotations
 
 import click
 
-from .. import __version__
+from ..version import __version__
 
 __all__ = ["main"]
 

@@ -16,7 +16,7 @@ from typing import Any
 import click
 
 from ..design.units import UNITS
-from ..export.build import DXF_CURVES
+from ..export.formats import DXF_CURVES, FORMATS
 from ._common import (
     DEFAULT_DESIGN,
     EXIT_FINDINGS,
@@ -29,19 +29,17 @@ from ._options import Bounded
 
 __all__ = ["DEFAULT_DESIGN", "build_command"]
 
-_FORMATS = ("step", "stl", "3mf", "dxf", "svg")
-
 
 def _parse_formats(text: str) -> tuple[str, ...]:
     items = [t.strip().lower() for t in text.split(",") if t.strip()]
-    bad = [t for t in items if t not in _FORMATS]
+    bad = [t for t in items if t not in FORMATS]
     if bad or not items:
         raise click.BadParameter(
             f"{', '.join(bad) or 'nothing'}; allowed: a comma-separated list of "
-            f"{', '.join(_FORMATS)}",
+            f"{', '.join(FORMATS)}",
             param_hint="'--formats'",
         )
-    return tuple(f for f in _FORMATS if f in items)
+    return tuple(f for f in FORMATS if f in items)
 
 
 @click.command("build")
@@ -58,7 +56,7 @@ def _parse_formats(text: str) -> tuple[str, ...]:
 )
 @click.option(
     "--formats",
-    default=",".join(_FORMATS),
+    default=",".join(FORMATS),
     show_default=True,
     help="Comma-separated formats to write (dxf and svg only for flat parts: wheels,"
     " plates, hands, dials, crank arms).",
@@ -202,8 +200,8 @@ def _run(
     notes: list[str] = []
     try:
         from ..checks import run_checks
-        from ..checks.findings import findings_table
-        from ..frame import plan_parts
+        from ..findings import findings_table
+        from ..parts import plan_parts
 
         findings = run_checks(d)
         parts = plan_parts(d) if not _blocked(findings, force) else ()
@@ -362,7 +360,7 @@ def _os_error_text(exc: OSError, out_dir: Path | None, design: Any) -> str:
 
 
 def _blocked(findings: Any, force: bool) -> bool:
-    from ..checks.findings import has_errors
+    from ..findings import has_errors
 
     return has_errors(findings) and not force
 

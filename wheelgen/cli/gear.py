@@ -14,16 +14,17 @@ from typing import Any
 
 import click
 
-from ..checks.findings import Finding
 from ..checks.mesh_checks import check_mesh, check_wheel
 from ..design.diametral_pitch import inch_rack, module_of_dp, pitch_words
 from ..design.model import Process
 from ..design.tooth_defaults import tooth_defaults
 from ..design.units import MM, UNITS, Lengths
+from ..findings import Finding
 from ..teeth.drawing import outline_svg
+from ..teeth.forms import outline_for
 from ..teeth.gear_data import GearData, gear_data
 from ..teeth.mesh_data import MeshData, mesh_data
-from ..teeth.spec import ToothSpec, outline_for, thinning_for
+from ..teeth.spec import ToothSpec, thinning_for
 from ..teeth.triangular_data import TriangularData, triangular_data
 from ._common import EXIT_OK, echo_json, fail
 from ._options import Bounded, Length

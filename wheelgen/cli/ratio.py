@@ -12,6 +12,7 @@ from pathlib import Path
 import click
 
 from ..checks import analyse
+from ..checks.train_fit import TrainFit, fit_train, shift_reach
 from ..design.diametral_pitch import module_of_dp
 from ..design.loader import MAX_TEETH, MIN_TEETH, loads_design
 from ..design.units import MM, UNITS, Lengths
@@ -41,7 +42,6 @@ from ..kinematics.ratio_search import (
 )
 from ..kinematics.ratio_target import RatioTarget, parse_target
 from ..kinematics.snippet import train_snippet
-from ..layout.train_fit import TrainFit, fit_train, shift_reach
 from ..workshop.indexing import crank_settings
 from ..workshop.plates import PLATE_SETS, plate_set
 from ._common import EXIT_FINDINGS, EXIT_OK, echo_json, fail

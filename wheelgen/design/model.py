@@ -111,13 +111,6 @@ class Process:
     )
 
     @property
-    def wall_minimum(self) -> float:
-        """Thinnest wall in mm (see :func:`.process_limits.wall_minimum`)."""
-        from .process_limits import wall_minimum
-
-        return wall_minimum(self)
-
-    @property
     def hand_seat(self) -> HandSeat:
         """The seat of a hand, knob or crank on its arbor when the design sets none."""
         return HAND_SEAT_BY_PROCESS[self.kind]

@@ -25,10 +25,7 @@ The bases:
 
 from __future__ import annotations
 
-from typing import TYPE_CHECKING
-
-if TYPE_CHECKING:  # the model imports this module for its properties
-    from .model import Process
+from .model import Process
 
 __all__ = [
     "CENTRE_TOLERANCE",

@@ -1,7 +1,7 @@
 """Checks of the display: what cannot be shown, and what would touch in front of the plate.
 
-``display_findings(design, analysis)`` is a design check in the sense of
-:mod:`wheelgen.checks.engine`; its ids start with ``display.``:
+``display_findings(design)`` gives the findings the engine of
+:mod:`wheelgen.checks.engine` adds to every run; its ids start with ``display.``:
 
 - ``display.cannot_reach`` (error): a hand's arbor cannot come out through the front
   plate (a carried arbor circles its carrier; an arbor held by the back plate only), or
@@ -33,9 +33,9 @@ from typing import Any
 
 import numpy as np
 
-from ..checks.findings import Change, Finding
 from ..design.model import Design
 from ..design.periods import format_period
+from ..findings import Change, Finding
 from ..kinematics.angles import angle_model
 from ..kinematics.rates import axis_root
 from ..layout.plan import plan_layout
@@ -94,8 +94,8 @@ class _Sweep:
     hand: HandPlan | None = None
 
 
-def display_findings(design: Design, analysis: Any) -> list[Finding]:
-    """Every display finding of ``design`` (``analysis`` is not needed)."""
+def display_findings(design: Design) -> list[Finding]:
+    """Every display finding of ``design``."""
     try:
         layout = plan_layout(design)
     except ValueError:

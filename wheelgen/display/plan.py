@@ -25,10 +25,11 @@ from functools import lru_cache
 
 import numpy as np
 
-from ..checks.findings import Finding
 from ..design.display_tables import dial_part_name, hand_part_name, input_part_name
 from ..design.model import Design, Dial, Hand
+from ..design.process_limits import wall_minimum
 from ..design.screws import screw
+from ..findings import Finding
 from ..frame.holes import FrameHole
 from ..kinematics.rates import axis_root, solve_rates
 from ..kinematics.targets import arbor_period, arbor_sense
@@ -212,7 +213,7 @@ def _across(layout: Layout, member: str, shape: str) -> float:
 
 def _hub(design: Design, shape: str, across: float, clearance: float) -> float:
     """Hub diameter (mm): the seat hole and a wall of at least 1 mm or two walls."""
-    wall = max(1.0, 2 * design.process.wall_minimum)
+    wall = max(1.0, 2 * wall_minimum(design.process))
     return round(2 * (_seat_extent(shape, across, clearance) + wall), 3)
 
 

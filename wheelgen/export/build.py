@@ -33,13 +33,14 @@ from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any
 
-from .. import __version__
 from ..design.bounds import BOUNDS
 from ..design.names import name_key
 from ..design.units import UNITS
 from ..layout.part_plan import BOUGHT_KINDS, DISPLAY_KINDS, FLAT_KINDS
+from ..version import __version__
 from . import sheets
 from .cache import CacheUnusable, DamagedEntry, PartCache, cache_root_for, part_key
+from .formats import DXF_CURVES, FORMATS, PLANAR_FORMATS
 from .manifest import MANIFEST_NAME, make_manifest, write_manifest
 from .output_folder import MARKER_NAME, check_replaceable, marker_text, real_target
 from .staging import Staging, UnsafeNameError, inside, safe_name
@@ -61,13 +62,6 @@ __all__ = [
     "part_file_names",
 ]
 
-#: How DXF files may draw curves: B-splines (control and fit points), or lines and
-#: arcs only (see :mod:`wheelgen.export.dxf`).
-DXF_CURVES: tuple[str, ...] = ("splines", "arcs")
-#: Every export format, in the order files are written.
-FORMATS: tuple[str, ...] = ("step", "stl", "3mf", "dxf", "svg")
-#: Formats that only flat parts (wheels and plates) get.
-PLANAR_FORMATS = frozenset({"dxf", "svg"})
 #: The assembly's file, inside the output folder.
 ASSEMBLY_FILE = "step/assembly.step"
 _MESH_ANGLE_DEG = 30.0
@@ -245,7 +239,7 @@ class _PartWork:
                 self._profile = flat_profile(self.part)
                 return self._profile
             from ..layout.wheel_profile import plate_profile
-            from ..teeth.spec import outline_for
+            from ..teeth.forms import outline_for
 
             self._profile = plate_profile(self.part, outline_for(self.part.tooth))
         return self._profile
@@ -600,8 +594,8 @@ def build_design(
     OSError
         The output cannot be written (a read-only place, a full disk).
     """
-    from ..checks.findings import has_errors
     from ..checks.least_play import settle_play
+    from ..findings import has_errors
 
     design = settle_play(design)
     # one unit for the part files and the sheets: the option's, else the design's
@@ -628,7 +622,7 @@ def build_design(
     if not checked and not options.force:
         raise BuildBlocked(findings)
     if parts is None:
-        from ..frame import plan_parts
+        from ..parts import plan_parts
 
         parts = plan_parts(design)
     parts = list(parts)

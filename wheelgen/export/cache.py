@@ -39,7 +39,7 @@ import time
 from pathlib import Path
 from typing import Any
 
-from .. import __version__
+from ..version import __version__
 
 __all__ = [
     "CACHE_DIR_NAME",

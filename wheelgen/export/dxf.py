@@ -6,7 +6,7 @@ a hand, dial or crank arm, a dial with its graduations and numbers on a layer of
 own (``ENGRAVE``), to engrave or to leave out when only cutting.
 
 Written from the same exact profile as the solid (no kernel needed), in one of two
-flavours (:data:`wheelgen.export.build.DXF_CURVES`, the build option):
+flavours (:data:`wheelgen.export.formats.DXF_CURVES`, the build option):
 
 - ``"splines"`` (the default): lines as LINE, arcs as ARC, circles as CIRCLE, and each
   flank as one SPLINE carrying both its control points (the same cubic B-spline the
@@ -48,7 +48,7 @@ from ..layout.wheel_profile import Hole, PlateProfile
 from ..solids.spline_fit import SplineFit, fit_segments
 from ..teeth.outline import Segment, WheelOutline, circle_through
 from .biarcs import biarc_segments
-from .build import DXF_CURVES
+from .formats import DXF_CURVES
 
 __all__ = [
     "Engraving",

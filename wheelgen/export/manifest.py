@@ -18,7 +18,7 @@ from collections.abc import Iterable, Sequence
 from pathlib import Path
 from typing import Any
 
-from .. import __version__
+from ..version import __version__
 from ..workshop.file_sizes import part_file, size_summary
 from .cache import part_parameters
 

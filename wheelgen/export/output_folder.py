@@ -29,7 +29,7 @@ import stat
 from pathlib import Path
 from typing import Any
 
-from .. import __version__
+from ..version import __version__
 from .manifest import MANIFEST_NAME, file_sha256
 
 __all__ = [

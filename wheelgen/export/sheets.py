@@ -6,7 +6,7 @@ inside ``staging_dir`` and returns their paths; the build hashes them into the
 manifest. Writers must not import the CAD kernel. Another layer adds its writer by
 extending the tuple here, e.g. ``SHEET_WRITERS = (write_cutting_sheet,)``. A build
 forced past error-level findings still calls the writers; they can tell with
-``wheelgen.checks.findings.has_errors(findings)`` and should say "unchecked".
+``wheelgen.findings.has_errors(findings)`` and should say "unchecked".
 """
 
 from __future__ import annotations

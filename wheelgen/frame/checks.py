@@ -1,7 +1,7 @@
 """Frame checks for the shared findings list of ``wheelgen check`` and the build.
 
-``frame_findings(design, analysis)`` is a design check in the sense of
-:mod:`wheelgen.checks.engine`; its ids start with ``frame.``:
+``frame_findings(design)`` gives the findings the engine of
+:mod:`wheelgen.checks.engine` adds to every run; its ids start with ``frame.``:
 
 - ``frame.none``: the design has no ``[frame]``, so no plates (a note);
 - ``frame.pillar_room``: fewer than three pillars fit (an error that says where room is
@@ -26,12 +26,10 @@ Lengths in mm.
 
 from __future__ import annotations
 
-from typing import Any
-
 import numpy as np
 
-from ..checks.findings import Finding, Level
 from ..design.model import Design
+from ..findings import Finding, Level
 from ..layout.collisions import inside_polygon
 from ..layout.proximity import overlapping_pairs
 from ..layout.sleeves import coaxial_groups
@@ -55,8 +53,8 @@ def _mm(x: float) -> str:
     return f"{x:.3f} mm"
 
 
-def frame_findings(design: Design, analysis: Any) -> list[Finding]:
-    """Every frame finding of ``design`` (``analysis`` is not needed)."""
+def frame_findings(design: Design) -> list[Finding]:
+    """Every frame finding of ``design``."""
     if design.frame is None:
         return [
             Finding(

@@ -1,19 +1,19 @@
-"""The frame's parts as plain numbers, and every part of a design (train and frame).
+"""The frame's parts as plain numbers.
 
 :func:`frame_parts` turns the frame plan (:func:`wheelgen.frame.plan.plan_frame`) into
 part-plan entries (:mod:`wheelgen.layout.part_plan`): the two plates, the pillars, the
 cocks, and the bought screws and bushes or bearings, each placed where it goes.
-:func:`plan_parts` is what the build makes: the train's parts
-(:func:`wheelgen.layout.plan_parts`) and then the frame's. Lengths in mm.
+:func:`to_cocks` lengthens the train's arbors that reach out to a cock. Every part of
+a design is :func:`wheelgen.parts.plan_parts`. Lengths in mm.
 """
 
 from __future__ import annotations
 
+from collections.abc import Iterable
 from dataclasses import replace
 
 from ..design.model import Design
 from ..design.screws import screw
-from ..layout import plan_parts as train_parts
 from ..layout.part_plan import (
     ArborPart,
     BearingPart,
@@ -25,16 +25,13 @@ from ..layout.part_plan import (
     PlatePart,
     ScrewPart,
 )
+from .holes import FrameHole
 from .plan import FramePlan, plan_frame
 
-__all__ = ["frame_parts", "plan_parts"]
+__all__ = ["frame_parts", "to_cocks"]
 
 
-def _plates(plan: FramePlan) -> list[Part]:
-    # the display (built on this frame) adds its dials' foot pins to the front plate
-    from ..display.plan import display_plan
-
-    extra = display_plan(plan.design).plate_holes
+def _plates(plan: FramePlan, extra: tuple[FrameHole, ...]) -> list[Part]:
     out: list[Part] = []
     for p in plan.plates:
         holes = tuple(
@@ -125,31 +122,36 @@ def _bought(plan: FramePlan) -> list[Part]:
     return out
 
 
-def frame_parts(design: Design) -> tuple[Part, ...]:
+def frame_parts(
+    design: Design, plate_holes: Iterable[FrameHole] = ()
+) -> tuple[Part, ...]:
     """The frame's parts: plates, pillars, cocks, then screws and bushes or bearings.
 
+    ``plate_holes`` are further holes of the plates (the dials' foot pins, from
+    :attr:`wheelgen.display.plan.DisplayPlan.plate_holes`), each on its ``plate``.
     A design without ``[frame]`` has none.
     """
     if design.frame is None:
         return ()
     plan = plan_frame(design)
-    return tuple(_plates(plan) + _pillars(plan) + _cocks(plan) + _bought(plan))
+    extra = tuple(plate_holes)
+    return tuple(_plates(plan, extra) + _pillars(plan) + _cocks(plan) + _bought(plan))
 
 
-def plan_parts(design: Design) -> tuple[Part, ...]:
-    """Every part the build makes: the train's (wheels, arbors, sleeves, pins), then
-    the frame's. An arbor that reaches out to its cock is lengthened to it."""
-    train = tuple(train_parts(design))
+def to_cocks(design: Design, parts: Iterable[Part]) -> tuple[Part, ...]:
+    """``parts`` with every arbor that reaches out to its cock lengthened to it.
+
+    Its seats (for a hand, knob or crank) stay where they are.
+    """
     if design.frame is None:
-        return train
+        return tuple(parts)
     plan = plan_frame(design)
     reach = {c.arbor: c.arbor_z for c in plan.cocks if c.arbor_z is not None}
     out: list[Part] = []
-    for p in train:
+    for p in parts:
         if isinstance(p, ArborPart) and p.name in reach:
             z0, z1 = reach[p.name]
             pl = p.placement
-            # its seats (for a hand, knob or crank) stay where they are
             seats = tuple(
                 (round(a + pl.z - z0, 6), round(b + pl.z - z0, 6), shape)
                 for a, b, shape in p.seats
@@ -158,4 +160,4 @@ def plan_parts(design: Design) -> tuple[Part, ...]:
                 p, length=round(z1 - z0, 6), placement=replace(pl, z=z0), seats=seats
             )
         out.append(p)
-    return tuple(out) + frame_parts(design)
+    return tuple(out)

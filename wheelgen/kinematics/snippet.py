@@ -8,7 +8,7 @@ between the last driver and the last driven wheel, in the last stage's plane. In
 coaxial train ``output`` is a sleeve round ``input``.
 
 Where the arbors stand, the heights, the modules and any profile shift are a
-:class:`TrainPlan`, made by :func:`wheelgen.layout.train_fit.plan_train`; this module
+:class:`TrainPlan`, made by :func:`wheelgen.checks.train_fit.plan_train`; this module
 only names the parts and writes the text.
 """
 

@@ -17,8 +17,9 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from ..design.process_limits import wall_minimum
+from ..teeth.forms import outline_for
 from ..teeth.limits import short_of
-from ..teeth.spec import outline_for
 from .collisions import signed_distance
 from .parts import carried_holes, wheel_part
 from .plan import Layout
@@ -48,7 +49,7 @@ def _on_arm(spokes: int, first_deg: float, x: float, y: float) -> bool:
 def carrier_hole_problems(layout: Layout) -> list[HoleProblem]:
     """Every carried arbor's hole that leaves less than the process's wall round it."""
     design = layout.design
-    wall = design.process.wall_minimum
+    wall = wall_minimum(design.process)
     out: list[HoleProblem] = []
     for wheel in design.wheels:
         if not design.carried_by(wheel.name):

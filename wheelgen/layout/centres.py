@@ -14,9 +14,9 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
-from ..checks.findings import Change
 from ..design.model import Mesh, Process
 from ..design.process_limits import centre_tolerance
+from ..findings import Change
 from ..kinematics.rates import mesh_frame
 from ..teeth.limits import short_of
 from .placement import Link, Placing, mesh_centre_distance

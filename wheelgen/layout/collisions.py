@@ -33,7 +33,8 @@ import numpy as np
 
 from ..design.model import Design, PinSlot
 from ..kinematics.rates import axis_root
-from ..teeth.spec import ToothSpec, outline_for
+from ..teeth.forms import outline_for
+from ..teeth.spec import ToothSpec
 from .pinslot_geometry import pin_boss
 from .placement import nominal_tip_radius, tooth_spec
 from .plan import Layout

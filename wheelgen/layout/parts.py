@@ -1,4 +1,4 @@
-"""The parts the build makes, as plain numbers (:mod:`wheelgen.layout.part_plan`).
+"""The train's parts, as plain numbers (:mod:`wheelgen.layout.part_plan`).
 
 Every wheel sits at its axis with its back face at its height, turned to its angle at
 rest (:mod:`wheelgen.layout.phasing`), so that every pair interleaves; what must meet
@@ -32,7 +32,7 @@ from .placement import tooth_spec
 from .plan import Layout, plan_layout
 from .sleeves import Bore, running_bore, wheel_bore
 
-__all__ = ["carried_holes", "plan_parts", "wheel_part"]
+__all__ = ["carried_holes", "train_parts", "wheel_part"]
 
 try:  # the pin-and-slot sizes live with the coupling (issue 6)
     from . import pinslot_geometry as _pinslot
@@ -119,11 +119,11 @@ def _fit_text(bore: Bore, u: Lengths = MM) -> str:
     return f"{fit} on {u.trade(bore.shaft)} {u.unit}"
 
 
-def plan_parts(design: Design) -> tuple[Part, ...]:
-    """Every part to make: wheels, arbors and sleeves, separate pins, then the display.
+def train_parts(design: Design) -> tuple[Part, ...]:
+    """The train's parts: wheels, arbors and sleeves, then separate pins.
 
-    The display's parts (dials, hands, knob or crank) come from
-    :func:`wheelgen.display.plan.display_plan`.
+    Every part the build makes (with the display's and the frame's) is
+    :func:`wheelgen.parts.plan_parts`.
     """
     layout = plan_layout(design)
     parts: list[Part] = []
@@ -163,10 +163,6 @@ def plan_parts(design: Design) -> tuple[Part, ...]:
         for p in design.pinslots:
             if p.pin_part == "separate":
                 parts.append(_pinslot.pin_part(design, p, placements[p.pin]))
-    # the display (dials, hands, knob or crank) builds on this layout: imported here
-    from ..display.plan import display_plan
-
-    parts.extend(display_plan(design).parts())
     return tuple(parts)
 
 

@@ -21,6 +21,7 @@ import math
 from dataclasses import dataclass
 
 from ..design.model import Design, Process, Stock, Wheel
+from ..design.process_limits import wall_minimum
 from .fits import fit_limits
 from .front import seat_shape
 
@@ -160,7 +161,7 @@ def stock_fits(process: Process, bore: Bore, s: Stock) -> bool:
 def size_sleeves(design: Design) -> dict[str, SleeveSize]:
     """Tube sizes of every sleeve, sized from the innermost shaft outwards."""
     proc = design.process
-    wall_min = proc.wall_minimum
+    wall_min = wall_minimum(proc)
     sizes: dict[str, SleeveSize] = {}
     outside: dict[str, float] = {}
     tubes = [s for s in design.stock if s.kind == "tube"]

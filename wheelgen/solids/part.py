@@ -75,7 +75,7 @@ def design_parts(design: Any) -> dict[str, tuple[cq.Shape, cq.Location]]:
     ``least_play`` requests are settled first, as the checks and the build do.
     """
     from ..checks.least_play import settle_play
-    from ..frame import plan_parts
+    from ..parts import plan_parts
 
     parts = plan_parts(settle_play(design))
     return {p.name: (make_part(p), part_location(p)) for p in parts}

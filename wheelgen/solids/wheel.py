@@ -36,7 +36,7 @@ __all__ = ["check_solid", "make_wheel", "wheel_from_profile"]
 
 
 def _outline_for(part: WheelPart) -> WheelOutline:
-    from ..teeth.spec import outline_for
+    from ..teeth.forms import outline_for
 
     return outline_for(part.tooth)
 

@@ -4,6 +4,7 @@ Never imports the CAD kernel: solids are built from these outlines elsewhere.
 """
 
 from .drawing import outline_svg as outline_svg
+from .forms import outline_for as outline_for
 from .gear_data import GearData as GearData
 from .gear_data import gear_data as gear_data
 from .involute import inverse_involute_deg as inverse_involute_deg
@@ -18,7 +19,6 @@ from .outline import WheelOutline as WheelOutline
 from .rack import ISO_53_A as ISO_53_A
 from .rack import BasicRack as BasicRack
 from .spec import ToothSpec as ToothSpec
-from .spec import outline_for as outline_for
 from .triangular import min_root_radius_for_cutter as min_root_radius_for_cutter
 from .triangular import triangular_outline as triangular_outline
 from .triangular_data import TriangularData as TriangularData

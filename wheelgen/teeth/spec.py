@@ -8,13 +8,10 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
-from functools import lru_cache
 
-from .outline import WheelOutline
+__all__ = ["FORMS", "ToothSpec", "thinning_for"]
 
-__all__ = ["FORMS", "ToothSpec", "outline_for", "thinning_for"]
-
-#: Tooth forms we can generate.
+#: Tooth forms a spec may name; each has its generator in :mod:`wheelgen.teeth.forms`.
 FORMS: tuple[str, ...] = ("involute", "triangular")
 
 
@@ -51,7 +48,7 @@ class ToothSpec:
             raise ValueError(f"'module' must be > 0 mm, got {self.module}")
         if self.form not in FORMS:
             raise ValueError(
-                f"'form' must be one of 'involute', 'triangular', got {self.form!r}"
+                f"'form' must be one of {', '.join(map(repr, FORMS))}, got {self.form!r}"
             )
         if not 5.0 <= self.pressure_angle_deg <= 35.0:
             raise ValueError(
@@ -97,19 +94,3 @@ def thinning_for(backlash: float) -> float:
     """Tooth thickness (mm) taken off one wheel for the ``backlash`` (mm) it asks of its
     meshes: half of it, so that two wheels asking the same mesh with that much play."""
     return backlash / 2.0
-
-
-@lru_cache(maxsize=256)
-def outline_for(spec: ToothSpec) -> WheelOutline:
-    """The wheel outline of ``spec``: generated involute or triangular teeth.
-
-    Outlines are kept for the specs asked most recently: a large train repeats its
-    wheels, and every check asks again. Treat the result as read-only.
-    """
-    if spec.form == "involute":
-        from .involute_tooth import involute_outline
-
-        return involute_outline(spec)
-    from .triangular import triangular_outline
-
-    return triangular_outline(spec)

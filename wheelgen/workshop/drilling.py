@@ -28,9 +28,9 @@ from dataclasses import dataclass
 from pathlib import Path
 from typing import Any
 
-from ..checks.findings import has_errors
 from ..design.model import Design
 from ..design.units import lengths_of
+from ..findings import has_errors
 from ..frame.holes import FrameHole
 from ..frame.plan import PLATES, FramePlan, plan_frame
 from ..kinematics.rates import axis_root

@@ -30,8 +30,8 @@ from ..layout.part_plan import (
     WheelPart,
 )
 from ..layout.wheel_profile import plate_profile
+from ..teeth.forms import outline_for
 from ..teeth.outline import WheelOutline
-from ..teeth.spec import outline_for
 from ._svg import esc, fmt, path_d, simplify
 
 __all__ = ["part_svg"]

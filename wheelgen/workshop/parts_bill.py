@@ -47,7 +47,7 @@ from ..layout.part_plan import (
     WheelPart,
 )
 from ..layout.wheel_profile import plate_profile
-from ..teeth.spec import outline_for
+from ..teeth.forms import outline_for
 
 __all__ = [
     "BillRow",

@@ -18,12 +18,11 @@ import base64
 from pathlib import Path
 from typing import Any, Sequence
 
-from .. import __version__
-from ..checks.findings import Finding, has_errors, sort_findings
 from ..design.model import Design
 from ..design.names import xml_text
 from ..design.periods import format_period
 from ..design.units import MM, Lengths, lengths_of
+from ..findings import Finding, has_errors, sort_findings
 from ..frame.plan import plan_frame
 from ..kinematics.rates import TrainSolution, solve_rates
 from ..kinematics.targets import (
@@ -33,6 +32,7 @@ from ..kinematics.targets import (
     evaluate_targets,
 )
 from ..layout.placement import arbor_positions
+from ..version import __version__
 from .cutting import CuttingRow, cutting_rows, indexing_text, pitch_text
 from .dial_preview import dials_svg
 from .drilling import chart_holes, drilling_svg

@@ -18,7 +18,7 @@ import numpy as np
 
 from ..design.model import Design
 from ..layout.placement import tooth_spec, working_centre_distance
-from ..teeth.spec import outline_for
+from ..teeth.forms import outline_for
 
 __all__ = ["TeCurve", "mesh_te_curves", "te_plot_svg", "te_comparison_svg"]
 

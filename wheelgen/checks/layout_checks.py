@@ -1,28 +1,30 @@
 """Layout checks for the shared findings list of ``wheelgen check`` and the build.
 
 ``layout_findings(design, analysis)`` is a design check in the sense of
-:mod:`wheelgen.checks.engine`. Check ids start with ``layout.``. Lengths in mm.
+:mod:`wheelgen.checks.engine`: it judges the numbers of :mod:`wheelgen.layout` where
+the layout puts every part. Check ids start with ``layout.``. Lengths in mm.
 """
 
 from __future__ import annotations
 
 import math
 from dataclasses import replace
-from typing import Any
+from fractions import Fraction
 
-from ..checks.findings import Change, Finding
 from ..design.model import Design
 from ..design.process_limits import centre_tolerance
 from ..design.units import lengths_of
+from ..findings import Change, Finding
+from ..layout.carrier_holes import carrier_hole_problems
+from ..layout.centres import MeshCentres, Move, centres_fit, mesh_centres, move_for
+from ..layout.collisions import Clash, PinClash, find_clashes, find_pin_clashes
+from ..layout.phasing import rest_angles
+from ..layout.placement import LOOP_TOLERANCE, LoopMismatch
+from ..layout.plan import Layout, plan_layout
+from ..layout.stacking import HiddenSeat, wheel_extent
 from ..teeth.limits import short_of
 from ..teeth.mesh_data import shift_for_centre_distance
-from .carrier_holes import carrier_hole_problems
-from .centres import MeshCentres, Move, centres_fit, mesh_centres, move_for
-from .collisions import Clash, PinClash, find_clashes, find_pin_clashes
-from .phasing import rest_angles
-from .placement import LOOP_TOLERANCE, LoopMismatch
-from .plan import Layout, plan_layout
-from .stacking import HiddenSeat, wheel_extent
+from .analysis import Analysis
 
 __all__ = ["FACE_OVERLAP_MIN", "findings_for_layout", "layout_findings"]
 
@@ -44,11 +46,10 @@ def _in_inches(design: Design, *sizes: float) -> str:
     return f"{' x '.join(u.trade(v) for v in sizes)} in; "
 
 
-def layout_findings(design: Design, analysis: Any) -> list[Finding]:
+def layout_findings(design: Design, analysis: Analysis | None) -> list[Finding]:
     """Every layout finding of ``design``; ``analysis`` gives the exact rates.
 
-    ``analysis`` is a :class:`wheelgen.checks.engine.Analysis` (only ``solution.rates``
-    is read; ``None`` treats every arbor as turning).
+    Only ``analysis.solution.rates`` is read; ``None`` treats every arbor as turning.
     """
     try:
         layout = plan_layout(design)
@@ -62,7 +63,9 @@ def layout_findings(design: Design, analysis: Any) -> list[Finding]:
     return findings_for_layout(layout, rates)
 
 
-def findings_for_layout(layout: Layout, rates: dict[str, Any]) -> list[Finding]:
+def findings_for_layout(
+    layout: Layout, rates: dict[str, Fraction | None]
+) -> list[Finding]:
     """The findings of an already computed layout (see :func:`layout_findings`)."""
     design = layout.design
     out: list[Finding] = _centre_findings(layout)

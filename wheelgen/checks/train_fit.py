@@ -34,10 +34,10 @@ from functools import lru_cache
 
 import numpy as np
 
-from ..checks.findings import Finding
 from ..design.diametral_pitch import module_of_dp
 from ..design.loader import loads_design
 from ..design.model import Design
+from ..findings import Finding
 from ..kinematics.ratio_search import Train
 from ..kinematics.snippet import (
     PlannedArbor,
@@ -49,12 +49,12 @@ from ..kinematics.snippet import (
     train_snippet,
     train_wheels,
 )
+from ..layout.collisions import nominal_tip_radius
+from ..layout.placement import working_centre_distance
+from ..layout.plan import plan_layout
 from ..teeth.mesh_data import shift_for_centre_distance, shifted_centre_distance
 from ..teeth.spec import ToothSpec
-from .checks import layout_findings
-from .collisions import nominal_tip_radius
-from .placement import working_centre_distance
-from .plan import plan_layout
+from .layout_checks import layout_findings
 
 __all__ = [
     "FACE_WIDTH",
