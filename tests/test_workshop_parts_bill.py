@@ -15,8 +15,9 @@ from pathlib import Path
 import pytest
 
 from wheelgen.design import load_design
+from wheelgen.display import display_plan
+from wheelgen.layout import train_parts
 from wheelgen.layout.part_plan import ArborPart, PinBoss, PinPart, SleevePart, WheelPart
-from wheelgen.parts import plan_parts
 from wheelgen.teeth import gear_data
 from wheelgen.teeth.spec import ToothSpec
 from wheelgen.workshop.parts_bill import (
@@ -109,7 +110,8 @@ def test_bore_spokes_and_pin_boss_change_the_volume() -> None:
 
 def test_demo_bill_and_csv(tmp_path: Path) -> None:
     design = load_design(DEMO)
-    parts = plan_parts(design)
+    # the made parts, one row each (bought screws of one size share a row)
+    parts = train_parts(design) + display_plan(design).parts()
     paths = parts_sheet_writer(design, parts, [], tmp_path)
     assert paths == [tmp_path / "parts.csv"]
     text = paths[0].read_text(encoding="utf-8")
