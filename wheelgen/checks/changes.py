@@ -60,8 +60,10 @@ def apply_changes(design: Design, changes: tuple[Change, ...]) -> Design:
                 if c.table not in _ADDED:
                     raise ValueError(f"there is no {c.item}")
                 items = items + (_ADDED[c.table](c.name),)
-            new = tuple(_set(x, c) if name_of(x) == c.name else x for x in items)
-            design = replace(design, **{field: new})
+            new: dict[str, Any] = {
+                field: tuple(_set(x, c) if name_of(x) == c.name else x for x in items)
+            }
+            design = replace(design, **new)
         elif c.table in _SINGLE:
             field = _SINGLE[c.table]
             design = replace(design, **{field: _set(getattr(design, field), c)})

@@ -14,7 +14,7 @@ from fractions import Fraction
 from ..design.model import Design
 from ..design.process_limits import centre_tolerance
 from ..design.units import lengths_of
-from ..findings import Change, Finding
+from ..findings import Change, Finding, Level
 from ..layout.carrier_holes import carrier_hole_problems
 from ..layout.centres import MeshCentres, Move, centres_fit, mesh_centres, move_for
 from ..layout.collisions import Clash, PinClash, find_clashes, find_pin_clashes
@@ -440,7 +440,7 @@ def _face_findings(design: Design) -> list[Finding]:
         share = max(overlap, 0.0) / narrow
         if share >= FACE_OVERLAP_MIN - 1e-9:
             continue
-        level = "error" if overlap <= 0 else "warning"
+        level: Level = "error" if overlap <= 0 else "warning"
         out.append(
             Finding(
                 level,

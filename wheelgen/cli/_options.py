@@ -26,7 +26,7 @@ _LONGEST = 40
 _WHOLE = re.compile(r"[+-]?\d+")
 
 
-class Bounded(click.ParamType):
+class Bounded(click.ParamType):  # type: ignore[type-arg]  # generic only in newer click stubs
     """A number option (or argument) within the bound ``name`` of the bounds table."""
 
     def __init__(self, name: str) -> None:

@@ -15,7 +15,7 @@ from typing import Any
 
 import click
 
-from ..design.units import UNITS
+from ..design.units import UNITS, Units
 from ..export.formats import DXF_CURVES, FORMATS
 from ._common import (
     DEFAULT_DESIGN,
@@ -117,7 +117,7 @@ def build_command(
     force: bool,
     tolerance: float,
     dxf_curves: str,
-    units: str | None,
+    units: Units | None,
     no_cache: bool,
     as_json: bool,
 ) -> None:
@@ -198,9 +198,10 @@ def _run(
 
     bar: Any = None
     notes: list[str] = []
+    from ..findings import findings_table
+
     try:
         from ..checks import run_checks
-        from ..findings import findings_table
         from ..parts import plan_parts
 
         findings = run_checks(d)
@@ -320,7 +321,7 @@ def _stop_on_sigterm() -> tuple[list[int], dict[int, Any]]:
         received.append(signum)
         raise KeyboardInterrupt
 
-    previous = {}
+    previous: dict[int, Any] = {}
     for sig in (signal.SIGTERM, signal.SIGINT):
         previous[sig] = signal.signal(sig, stop)
     return received, previous

@@ -5,6 +5,7 @@ from __future__ import annotations
 import math
 import sys
 from fractions import Fraction
+from typing import Any
 
 import click
 
@@ -39,7 +40,7 @@ def check_command(design: str | None, as_json: bool) -> None:
     """
     d = load_or_exit(design)
     result = analyse(d)
-    rows = []
+    rows: list[dict[str, Any]] = []
     for a in d.arbors:
         rate = result.solution.rate(a.name)
         period = arbor_period(d, rate)
@@ -96,8 +97,8 @@ def check_command(design: str | None, as_json: bool) -> None:
     )
     for r in rows:
         exact = result.solution.rate(r["name"])
-        rate = "-" if exact is None else rate_text(exact)  # JSON keeps every digit
-        click.echo(f"{r['name']:{width}}  {rate:>22}  {r['period']:>16}  {r['sense']}")
+        shown = "-" if exact is None else rate_text(exact)  # JSON keeps every digit
+        click.echo(f"{r['name']:{width}}  {shown:>22}  {r['period']:>16}  {r['sense']}")
     if result.targets:
         click.echo("")
         click.echo("targets:")

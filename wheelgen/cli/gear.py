@@ -70,7 +70,7 @@ def _sheet(data: GearData, name: str, lengths: Lengths = MM) -> list[str]:
         lines.append(
             f"  span over {data.span_teeth} teeth     {_mm(data.span_width)} (W_k)"
         )
-    if data.over_pins is not None:
+    if data.over_pins is not None and data.pin_diameter is not None:
         kind = "balls" if data.teeth % 2 else "pins"
         lines.append(
             f"  over two {kind:<5}        {_mm(data.over_pins)} "
@@ -118,7 +118,7 @@ def _mesh_lines(mesh: MeshData, lengths: Lengths = MM) -> list[str]:
     if mesh.contact_ratio is not None:
         lines.append(f"  contact ratio         {mesh.contact_ratio:.4f}")
     lines.append(f"  tip-root clearance    {_mm(mesh.clearance)}")
-    if mesh.backlash is not None:
+    if mesh.backlash is not None and mesh.normal_backlash is not None:
         lines.append(
             f"  backlash              {_mm(mesh.backlash)} "
             "on the working pitch circle, "

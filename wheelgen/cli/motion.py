@@ -111,7 +111,11 @@ def _angles_at(
 
 
 def _write_csv(
-    path: Path, t: np.ndarray, names: list[str], angles: dict, devs: dict
+    path: Path,
+    t: np.ndarray,
+    names: list[str],
+    angles: dict[str, np.ndarray],
+    devs: dict[str, np.ndarray],
 ) -> None:
     with path.open("w", newline="", encoding="utf-8") as fh:
         w = csv.writer(fh)
@@ -139,7 +143,12 @@ def _time_unit(span_s: float) -> tuple[float, str]:
 
 
 def _plot(
-    path: Path, design: Design, t: np.ndarray, names: list[str], devs: dict, rows: list
+    path: Path,
+    design: Design,
+    t: np.ndarray,
+    names: list[str],
+    devs: dict[str, np.ndarray],
+    rows: list[dict[str, Any]],
 ) -> None:
     import matplotlib
 

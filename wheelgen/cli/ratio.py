@@ -15,7 +15,7 @@ from ..checks import analyse
 from ..checks.train_fit import TrainFit, fit_train, shift_reach
 from ..design.diametral_pitch import module_of_dp
 from ..design.loader import MAX_TEETH, MIN_TEETH, loads_design
-from ..design.units import MM, UNITS, Lengths
+from ..design.units import MM, UNITS, Lengths, Units
 from ..kinematics.continued_fraction import prime_factors
 from ..kinematics.ratio_search import (
     MAX_HEAD_RATIO,
@@ -437,7 +437,7 @@ def ratio_command(
     max_shift: float,
     module: float | None,
     dp: float | None,
-    units: str | None,
+    units: Units | None,
     stage_modules: tuple[float, ...],
     max_diameter: float | None,
     max_total: int | None,

@@ -131,6 +131,7 @@ def biarc_segments(fit: SplineFit, tolerance: float) -> list[Segment]:
         if ub == 1.0:
             pb = last
         pieces = _biarc(pa, ta, pb, tb)
+        worst = float("inf")
         if pieces is not None:
             samples = np.asarray(spline(np.linspace(ua, ub, _SAMPLES + 2)[1:-1]))
             worst = float(

@@ -68,7 +68,8 @@ def cache_root_for(out_dir: Path) -> Path:
 
 def part_parameters(part: Any) -> dict[str, Any]:
     """Every field of a part as plain JSON data (nested specs included)."""
-    return json.loads(json.dumps(dataclasses.asdict(part), default=str))
+    data: dict[str, Any] = json.loads(json.dumps(dataclasses.asdict(part), default=str))
+    return data
 
 
 def _canonical(data: Any) -> bytes:

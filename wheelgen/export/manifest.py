@@ -45,7 +45,7 @@ def make_manifest(
     options: dict[str, Any],
 ) -> dict[str, Any]:
     """The manifest as a dict; ``files`` are paths inside ``root``."""
-    rows = []
+    rows: list[dict[str, Any]] = []
     for p in sorted(Path(f) for f in files):
         rel = p.relative_to(root).as_posix()
         rows.append({"path": rel, "sha256": file_sha256(p), "bytes": p.stat().st_size})

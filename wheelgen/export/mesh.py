@@ -118,7 +118,7 @@ def _ruling_direction(face: TopoDS_Face) -> gp_Dir | None:
 
 def _is_ruling(edge: TopoDS_Edge, direction: gp_Dir) -> bool:
     curve = BRepAdaptor_Curve(edge)
-    return (
+    return bool(
         curve.GetType() == GeomAbs_Line
         and abs(abs(curve.Line().Direction().Dot(direction)) - 1) < 1e-9
     )
@@ -287,7 +287,8 @@ def mesh_shape(
 def _normals(v: np.ndarray, f: np.ndarray) -> np.ndarray:
     n = np.cross(v[f[:, 1]] - v[f[:, 0]], v[f[:, 2]] - v[f[:, 0]])
     length = np.linalg.norm(n, axis=1, keepdims=True)
-    return np.divide(n, length, out=np.zeros_like(n), where=length > 0)
+    unit: np.ndarray = np.divide(n, length, out=np.zeros_like(n), where=length > 0)
+    return unit
 
 
 _STL_DTYPE = np.dtype([("n", "<f4", (3,)), ("v", "<f4", (3, 3)), ("a", "<u2")])

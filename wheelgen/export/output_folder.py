@@ -184,8 +184,9 @@ def _manifest(target: Path, marker: Path, manifest_path: Path) -> dict[str, Any]
     return data
 
 
-def _listed_files(manifest: dict[str, Any]) -> dict[str, tuple[int, str]]:
-    out = {}
+def _listed_files(manifest: dict[str, Any]) -> dict[str, tuple[object, object]]:
+    """Each listed file's size and SHA-256 as the manifest gives them (unchecked)."""
+    out: dict[str, tuple[object, object]] = {}
     for row in manifest.get("files", []):
         if isinstance(row, dict) and isinstance(row.get("path"), str):
             out[row["path"]] = (row.get("bytes"), row.get("sha256"))

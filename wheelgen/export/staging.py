@@ -71,7 +71,7 @@ _STOPS = {signal.SIGINT, signal.SIGTERM}
 def _hold_signals() -> set[signal.Signals] | None:
     if not hasattr(signal, "pthread_sigmask"):
         return None
-    return signal.pthread_sigmask(signal.SIG_BLOCK, _STOPS)
+    return {signal.Signals(s) for s in signal.pthread_sigmask(signal.SIG_BLOCK, _STOPS)}
 
 
 def _release_signals(held: set[signal.Signals] | None) -> None:

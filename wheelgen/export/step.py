@@ -23,6 +23,7 @@ from __future__ import annotations
 import re
 from collections.abc import Callable, Sequence
 from pathlib import Path
+from typing import Any
 
 import cadquery as cq
 from cadquery.occ_impl.assembly import toCAF
@@ -58,7 +59,7 @@ def _statics(pcurves: bool = False) -> None:
     Interface_Static.SetCVal_s("write.step.unit", "MM")
 
 
-def _of_type(model, kind):  # type: ignore[no-untyped-def]  # OCP model, OCP class
+def _of_type(model: Any, kind: Any) -> list[Any]:  # an OCP model and OCP class
     # the type filter runs in C++: a Python loop over a 400-tooth wheel's 266 k
     # entities took 0.9 ms per tooth; the model's order (and so the numbering) is kept
     it = model.Entities()
@@ -147,7 +148,7 @@ def canonical_step(text: str) -> str:
 
     body = [
         "#%d =%s" % (new[o], _subrefs(tail[o], renumber))
-        for o in sorted(tail, key=new.get)
+        for o in sorted(tail, key=lambda o: new[o])
     ]
     return pre + "\nDATA;\n" + "\n".join(chunks[:i0] + body) + "\nENDSEC;" + post
 

@@ -157,7 +157,8 @@ def _support_owners(cs: np.ndarray) -> np.ndarray:
 def _outward(c1: Circle, c2: Circle) -> np.ndarray:
     """Unit normal of the outer tangent from ``c1`` to ``c2``, pointing out of the hull."""
     p1, p2 = _tangent(c1, c2)
-    return (p1 - np.array(c1[:2])) / c1[2]
+    normal: np.ndarray = (p1 - np.array(c1[:2])) / c1[2]
+    return normal
 
 
 def _complete(unique: Sequence[Circle], seq: list[int]) -> list[int]:

@@ -190,7 +190,8 @@ def inside_polygon(points: np.ndarray, poly: np.ndarray) -> np.ndarray:
     cross = (a[:, 1] > py) != (b[:, 1] > py)
     with np.errstate(divide="ignore", invalid="ignore"):
         xs = a[:, 0] + (py - a[:, 1]) * (b[:, 0] - a[:, 0]) / (b[:, 1] - a[:, 1])
-    return (np.count_nonzero(cross & (xs > px), axis=1) % 2) == 1
+    inside: np.ndarray = (np.count_nonzero(cross & (xs > px), axis=1) % 2) == 1
+    return inside
 
 
 def _polygon_depth(pa: np.ndarray, pb: np.ndarray) -> float:
@@ -264,14 +265,11 @@ def _depth(
     still_a = _still(a, rates, frame_rate)
     still_b = _still(b, rates, frame_rate)
     if still_a and still_b:
-        return _polygon_depth(_polyline(tooth_spec(design.wheel(a.wheel))) + pa,
-                              _polyline(tooth_spec(design.wheel(b.wheel))) + pb)  # fmt: skip
+        return _polygon_depth(_outline(design, a) + pa, _outline(design, b) + pb)
     if still_a:
-        poly = _polyline(tooth_spec(design.wheel(a.wheel))) + pa
-        return rb - signed_distance(pb, poly)
+        return rb - signed_distance(pb, _outline(design, a) + pa)
     if still_b:
-        poly = _polyline(tooth_spec(design.wheel(b.wheel))) + pb
-        return ra - signed_distance(pa, poly)
+        return ra - signed_distance(pa, _outline(design, b) + pb)
     return ra + rb - d
 
 
@@ -295,6 +293,13 @@ def _swept(design: Design, body: Body) -> float:
         return outline_radius(tooth_spec(design.wheel(body.wheel)))
     except (ImportError, ValueError):  # no generator for this form yet: the tip circle
         return body.radius
+
+
+def _outline(design: Design, body: Body) -> np.ndarray:
+    """The toothed outline of ``body``'s wheel about its own axis (mm)."""
+    if body.wheel is None:
+        raise ValueError(f"{body.label} is no wheel's teeth")
+    return _polyline(tooth_spec(design.wheel(body.wheel)))
 
 
 def _still(

@@ -68,7 +68,8 @@ def _pol(r: float, a_rad: float) -> np.ndarray:
 
 def _rot(points: np.ndarray, a_rad: float) -> np.ndarray:
     c, s = math.cos(a_rad), math.sin(a_rad)
-    return points @ np.array([[c, -s], [s, c]]).T
+    turned: np.ndarray = points @ np.array([[c, -s], [s, c]]).T
+    return turned
 
 
 def _arc_about_origin(r: float, a0: float, a1: float) -> Segment:

@@ -9,6 +9,7 @@ cylinders; a cock is its bar and foot, two prisms with their holes, fused.
 from __future__ import annotations
 
 import math
+from collections.abc import Sequence
 
 import cadquery as cq
 
@@ -65,7 +66,7 @@ def _cylinder(d: float, z0: float, length: float) -> cq.Solid:
     return cq.Solid.makeCylinder(d / 2, length, cq.Vector(0, 0, z0), _Z)
 
 
-def _fused(name: str, pieces: list[cq.Shape]) -> cq.Shape:
+def _fused(name: str, pieces: Sequence[cq.Shape]) -> cq.Shape:
     shape = pieces[0]
     if len(pieces) > 1:
         shape = shape.fuse(*pieces[1:]).clean()

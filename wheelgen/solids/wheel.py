@@ -9,6 +9,7 @@ hub boss, a cross-pin hole, a pin boss, and a slot that runs into another hole.
 from __future__ import annotations
 
 import math
+from typing import TypeVar
 
 import cadquery as cq
 from OCP.BRepAlgoAPI import BRepAlgoAPI_Cut, BRepAlgoAPI_Fuse
@@ -34,6 +35,8 @@ from .profile import (
 
 __all__ = ["check_solid", "make_wheel", "wheel_from_profile"]
 
+_S = TypeVar("_S", bound=cq.Shape)
+
 
 def _outline_for(part: WheelPart) -> WheelOutline:
     from ..teeth.forms import outline_for
@@ -56,7 +59,7 @@ def _boolean(kind: str, a: cq.Shape, b: cq.Shape, what: str) -> cq.Solid:
     return check_solid(solids[0], what)
 
 
-def check_solid(solid: cq.Shape, what: str) -> cq.Shape:
+def check_solid(solid: _S, what: str) -> _S:
     """Raise :class:`CadBuildError` unless ``solid`` is one valid solid.
 
     The full topology and geometry check takes 0.3-1 s for a 127-tooth wheel, so it
@@ -119,9 +122,10 @@ def wheel_from_profile(part: WheelPart, profile: PlateProfile) -> cq.Solid:
             reach = profile.root_radius + 1.0
         # across the seat, on the direction its flats are turned to (as on the tube)
         t = math.radians(part.seat_angle_deg)
-        c, s = math.cos(t), math.sin(t)
+        cos_t, sin_t = math.cos(t), math.sin(t)
+        start = cq.Vector(-reach * cos_t, -reach * sin_t, zc)
         tool = cq.Solid.makeCylinder(
-            d / 2, 2 * reach, cq.Vector(-reach * c, -reach * s, zc), cq.Vector(c, s, 0)
+            d / 2, 2 * reach, start, cq.Vector(cos_t, sin_t, 0)
         )
         solid = _boolean("cut", solid, tool, f"{part.name} cross-pin hole")
     if part.pin is not None and not part.pin.hole_only:

@@ -236,12 +236,14 @@ def drilling_svg(design: Design, plate: str, unchecked: bool = False) -> str:
             f'<circle cx="{sx(h.x)}" cy="{sy(h.y)}" r="{r:.4f}"><title>hole {h.number}:'
             f" {esc(h.role)} for {esc(h.member)}</title></circle>"
         )
-        c = r + 1.5
+        arm = r + 1.5  # the centre cross reaches past the hole
         out.append(
-            f'<line x1="{sx(h.x - c)}" y1="{sy(h.y)}" x2="{sx(h.x + c)}" y2="{sy(h.y)}"/>'
+            f'<line x1="{sx(h.x - arm)}" y1="{sy(h.y)}" x2="{sx(h.x + arm)}" '
+            f'y2="{sy(h.y)}"/>'
         )
         out.append(
-            f'<line x1="{sx(h.x)}" y1="{sy(h.y - c)}" x2="{sx(h.x)}" y2="{sy(h.y + c)}"/>'
+            f'<line x1="{sx(h.x)}" y1="{sy(h.y - arm)}" x2="{sx(h.x)}" '
+            f'y2="{sy(h.y + arm)}"/>'
         )
     out.append("</g>")
     out.append('<g font-family="sans-serif" font-size="2.5" font-weight="bold">')

@@ -12,6 +12,8 @@ from __future__ import annotations
 import math
 from typing import Mapping
 
+import numpy as np
+
 from ..design.model import Design
 from ..design.units import lengths_of
 from ..frame.plan import FramePlan, plan_frame
@@ -111,6 +113,7 @@ def layout_svg(design: Design, positions: Mapping[str, Point]) -> str:
     centres = axis_centres(design, positions)
     ext = drawing_extent(design, centres)
     frame: FramePlan | None = None
+    loop: np.ndarray | None = None
     if design.frame is not None:
         try:
             frame = plan_frame(design)
@@ -135,7 +138,7 @@ def layout_svg(design: Design, positions: Mapping[str, Point]) -> str:
         f'font-family="sans-serif" font-size="{fmt(fs)}">',
         f"<title>Layout seen from the front ({u.unit})</title>",
     ]
-    if frame is not None and design.frame is not None:
+    if frame is not None and loop is not None and design.frame is not None:
         out.append(
             f'<path d="{path_d([loop], 2)}" fill="#f4f1ea" stroke="#8a8170" '
             f'stroke-width="{fmt(fs / 8)}"><title>plate outline</title></path>'
@@ -149,19 +152,20 @@ def layout_svg(design: Design, positions: Mapping[str, Point]) -> str:
             + (f", {len(frame.cocks)} cock(s)" if frame.cocks else "")
             + "</text>"
         )
-        for c in frame.cocks:
-            (ax, ay), (bx, by) = (c.x, c.y), c.along(c.length)
+        for cock in frame.cocks:
+            (ax, ay), (bx, by) = (cock.x, cock.y), cock.along(cock.length)
             out.append(
                 f'<line x1="{fmt(ax)}" y1="{fmt(-ay)}" x2="{fmt(bx)}" y2="{fmt(-by)}" '
-                f'stroke="#b8a36a" stroke-width="{fmt(c.width)}" stroke-linecap="round" '
-                f'stroke-opacity="0.8"><title>{esc(c.name)}</title></line>'
+                f'stroke="#b8a36a" stroke-width="{fmt(cock.width)}" '
+                f'stroke-linecap="round" stroke-opacity="0.8">'
+                f"<title>{esc(cock.name)}</title></line>"
             )
         r_p = frame.limits.pillar_diameter / 2
-        for p in frame.pillars:
+        for pillar in frame.pillars:
             out.append(
-                f'<circle cx="{fmt(p.x)}" cy="{fmt(-p.y)}" r="{fmt(r_p)}" fill="#8d9096" '
-                f'stroke="#333" stroke-width="{fmt(fs / 10)}"><title>{esc(p.name)}'
-                "</title></circle>"
+                f'<circle cx="{fmt(pillar.x)}" cy="{fmt(-pillar.y)}" r="{fmt(r_p)}" '
+                f'fill="#8d9096" stroke="#333" stroke-width="{fmt(fs / 10)}">'
+                f"<title>{esc(pillar.name)}</title></circle>"
             )
     # pitch circles, biggest first so small ones stay visible on top
     wheels = sorted(
@@ -172,29 +176,29 @@ def layout_svg(design: Design, positions: Mapping[str, Point]) -> str:
     for w in wheels:
         x, y = centres[w.arbor]
         r = w.pitch_diameter / 2
-        c = cols[w.arbor]
+        ink = cols[w.arbor]
         dash = ' stroke-dasharray="1.5 1"' if design.arbor(w.arbor).fixed else ""
         out.append(
             f'<circle cx="{fmt(x)}" cy="{fmt(-y)}" r="{fmt(r)}" fill="none" '
-            f'stroke="{c}" stroke-width="{fmt(fs / 7)}"{dash}>'
+            f'stroke="{ink}" stroke-width="{fmt(fs / 7)}"{dash}>'
             f"<title>{esc(w.name)}: {w.teeth} teeth, module {w.module:g}</title></circle>"
         )
         # labels of wheels on one axis fan out so they do not sit on each other
         key = f"{fmt(x)},{fmt(y)}"
         k = label_turn.get(key, 0)
         label_turn[key] = k + 1
-        a = math.radians(62.0 + 31.0 * k)
-        lx, ly = x + r * math.cos(a), y + r * math.sin(a)
+        label_rad = math.radians(62.0 + 31.0 * k)
+        lx, ly = x + r * math.cos(label_rad), y + r * math.sin(label_rad)
         out.append(
-            f'<text x="{fmt(lx)}" y="{fmt(-ly)}" fill="{c}" stroke="#fff" '
+            f'<text x="{fmt(lx)}" y="{fmt(-ly)}" fill="{ink}" stroke="#fff" '
             f'stroke-width="{fmt(fs / 6)}" paint-order="stroke" '
             f'font-size="{fmt(0.85 * fs)}">{esc(w.name)} {w.teeth}</text>'
         )
     for m in design.meshes:
-        a, b = design.wheel(m.pair[0]), design.wheel(m.pair[1])
-        if a.arbor not in centres or b.arbor not in centres:
+        wa, wb = design.wheel(m.pair[0]), design.wheel(m.pair[1])
+        if wa.arbor not in centres or wb.arbor not in centres:
             continue
-        (ax, ay), (bx, by) = centres[a.arbor], centres[b.arbor]
+        (ax, ay), (bx, by) = centres[wa.arbor], centres[wb.arbor]
         out.append(
             f'<line x1="{fmt(ax)}" y1="{fmt(-ay)}" x2="{fmt(bx)}" y2="{fmt(-by)}" '
             f'stroke="#333" stroke-width="{fmt(fs / 10)}" stroke-dasharray="{fmt(fs / 2)} '
@@ -202,7 +206,7 @@ def layout_svg(design: Design, positions: Mapping[str, Point]) -> str:
         )
         # the pitch point: where the two pitch circles touch on the line of centres
         d = math.hypot(bx - ax, by - ay) or 1.0
-        ra = a.pitch_diameter / 2
+        ra = wa.pitch_diameter / 2
         px, py = ax + (bx - ax) * ra / d, ay + (by - ay) * ra / d
         out.append(
             f'<circle cx="{fmt(px)}" cy="{fmt(-py)}" r="{fmt(fs / 4)}" fill="#333">'
@@ -219,8 +223,8 @@ def layout_svg(design: Design, positions: Mapping[str, Point]) -> str:
             f'{fmt(fs / 5)} {fmt(fs / 5)}"><title>{esc(p.name)}: pin circle</title>'
             "</circle>"
         )
-        b = math.radians(p.bearing_deg)
-        px, py = ax + p.radius * math.cos(b), ay + p.radius * math.sin(b)
+        bearing = math.radians(p.bearing_deg)
+        px, py = ax + p.radius * math.cos(bearing), ay + p.radius * math.sin(bearing)
         out.append(
             f'<circle cx="{fmt(px)}" cy="{fmt(-py)}" r="{fmt(p.pin_diameter / 2)}" '
             f'fill="#9a3d5f"/>'
@@ -240,9 +244,10 @@ def layout_svg(design: Design, positions: Mapping[str, Point]) -> str:
         named.setdefault(f"{fmt(x)},{fmt(y)}", []).append(name)
     for names in named.values():
         x, y = centres[names[0]]
-        a = design.arbor(names[0])
+        arbor = design.arbor(names[0])
         out.append(
-            f'<circle cx="{fmt(x)}" cy="{fmt(-y)}" r="{fmt(max(a.diameter / 2, fs / 3))}" '
+            f'<circle cx="{fmt(x)}" cy="{fmt(-y)}" '
+            f'r="{fmt(max(arbor.diameter / 2, fs / 3))}" '
             f'fill="#fff" stroke="#000" stroke-width="{fmt(fs / 8)}"/>'
         )
         # coaxial names stacked; a carried axis labelled above, clear of its carrier's

@@ -40,7 +40,7 @@ class TrainLink:
 
 def _raw_links(design: Design) -> list[tuple[str, str, str, str, str]]:
     """(arbor a, arbor b, kind, label a->b, label b->a)."""
-    out = []
+    out: list[tuple[str, str, str, str, str]] = []
     for m in design.meshes:
         a, b = design.wheel(m.pair[0]), design.wheel(m.pair[1])
         out.append(
@@ -53,9 +53,9 @@ def _raw_links(design: Design) -> list[tuple[str, str, str, str, str]]:
             )
         )
     for p in design.pinslots:
-        a, b = design.wheel(p.pin).arbor, design.wheel(p.slot).arbor
+        pin, slot = design.wheel(p.pin).arbor, design.wheel(p.slot).arbor
         text = f"pin-and-slot {p.name}"
-        out.append((a, b, "pinslot", text, text))
+        out.append((pin, slot, "pinslot", text, text))
     for arb in design.arbors:
         if arb.carrier is not None:
             c = design.wheel(arb.carrier)
@@ -84,8 +84,8 @@ def train_columns(design: Design) -> dict[str, int]:
         near = [depth[n] for n in nbrs[f] if n in depth]
         depth[f] = max(min(near) - 1, 0) if near else 0
     last = max(depth.values(), default=0) + 1
-    for a in design.arbors:
-        depth.setdefault(a.name, last)  # not connected to the drive
+    for arbor in design.arbors:
+        depth.setdefault(arbor.name, last)  # not connected to the drive
     return depth
 
 
