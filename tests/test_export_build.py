@@ -4,6 +4,8 @@ from __future__ import annotations
 
 import hashlib
 import json
+import subprocess
+import sys
 from pathlib import Path
 
 import pytest
@@ -30,7 +32,8 @@ from wheelgen.teeth.spec import ToothSpec  # noqa: E402
 
 pytestmark = pytest.mark.cad
 
-DESIGN = Path(__file__).parent / "data" / "two_stage.toml"
+ROOT = Path(__file__).resolve().parents[1]
+DESIGN = ROOT / "tests" / "data" / "two_stage.toml"
 
 
 def tree(root: Path) -> dict[str, bytes]:
@@ -127,12 +130,42 @@ def test_rebuild_reuses_the_cache_and_gives_the_same_bytes(first, design):
     ]
 
 
-def test_fresh_build_in_two_processes_gives_identical_bytes(first, design, tmp_path):
-    # no cache, two worker processes: every byte must still match the first build
-    out = tmp_path / "again"
-    build_design(design, out, BuildOptions(jobs=2, use_cache=False))
-    assert tree(out) == first[3]
-    assert sorted(p.name for p in tmp_path.iterdir()) == ["again"]
+# Run in a fresh interpreter: build the design again without the cache on two worker
+# processes, then its DXF files alone in the lines-and-arcs flavour.
+_AGAIN = """
+import sys
+from pathlib import Path
+from wheelgen.design import load_design
+from wheelgen.export.build import BuildOptions, build_design
+design = load_design(sys.argv[1])
+build_design(design, Path(sys.argv[2]), BuildOptions(jobs=2, use_cache=False))
+arcs = BuildOptions(formats=("dxf",), dxf_curves="arcs", use_cache=False)
+build_design(design, Path(sys.argv[3]), arcs)
+"""
+
+
+@pytest.mark.slow
+def test_another_process_and_hash_seed_give_the_same_bytes(first, design, tmp_path):
+    # Every byte of a build is the same whatever the process, its hash seed, the
+    # number of worker processes, or what was exported before in the same process
+    # (each worker exports another run of parts than the first build did): every
+    # format, the assembly, the sheets and the manifest, and both DXF flavours.
+    arcs = tmp_path / "arcs_here"
+    only_arcs = BuildOptions(formats=("dxf",), dxf_curves="arcs", use_cache=False)
+    build_design(design, arcs, only_arcs)
+    again, arcs_again = tmp_path / "again", tmp_path / "arcs_again"
+    env = {"PYTHONHASHSEED": "123", "PATH": "/usr/bin:/bin", "PYTHONPATH": str(ROOT)}
+    done = subprocess.run(
+        [sys.executable, "-c", _AGAIN, str(DESIGN), str(again), str(arcs_again)],
+        env=env,
+        cwd=ROOT,
+        capture_output=True,
+        text=True,
+    )
+    assert done.returncode == 0, done.stderr[-3000:]
+    assert tree(again) == first[3]
+    assert tree(arcs_again) == tree(arcs)
+    assert any(name.endswith(".dxf") for name in tree(arcs))
 
 
 def test_failing_exporter_leaves_previous_output_untouched(first, design, monkeypatch):
