@@ -285,6 +285,7 @@ def _same_outline(read, profile, tol: float, what: str) -> None:
         assert abs(total - exact_length) <= tol * turning + 1e-6 * exact_length, what
 
 
+@pytest.mark.slow
 @pytest.mark.parametrize("curves", DXF_CURVES)
 def test_demo_wheels_read_back_by_ezdxf(demo_dxf, curves):
     _, built, wheels, profiles = demo_dxf

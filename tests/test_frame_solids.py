@@ -218,6 +218,7 @@ def test_browser_draws_the_plate_at_true_size(example, tmp_path):
     assert int(found.group(1)) == pytest.approx(width_mm * 96 / 25.4, abs=1.0)
 
 
+@pytest.mark.slow
 @pytest.mark.parametrize("which", ["example", "coupling", "printed"])
 def test_no_two_parts_share_volume(which, request):
     design, out = request.getfixturevalue(which)
