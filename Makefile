@@ -4,7 +4,7 @@
 PYTHON ?= python3
 VENV := .venv
 PY := $(VENV)/bin/python
-DEMO := designs/harbour_tide_clock.toml
+DEMO := wheelgen/designs/harbour_tide_clock.toml
 
 .PHONY: demo test bench lint clean
 

@@ -16,7 +16,7 @@ from wheelgen.design import load_design, loads_design
 from wheelgen.display import checks, motion, plan
 
 ROOT = Path(__file__).resolve().parents[1]
-DEMO = ROOT / "designs" / "harbour_tide_clock.toml"
+DEMO = ROOT / "wheelgen" / "designs" / "harbour_tide_clock.toml"
 
 # Two hands 55 mm apart, 30 mm long, whose sweeps overlap; "c" turns 2 x 97/89 times per turn of
 # the drive "a", so the pair repeats only after 89 turns of the drive.

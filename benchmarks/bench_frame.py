@@ -15,7 +15,7 @@ import time
 from pathlib import Path
 
 ROOT = Path(__file__).resolve().parents[1]
-DEFAULT = ROOT / "designs" / "harbour_tide_clock.toml"
+DEFAULT = ROOT / "wheelgen" / "designs" / "harbour_tide_clock.toml"
 
 
 def long_train(arbors: int = 20) -> str:

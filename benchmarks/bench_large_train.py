@@ -26,7 +26,7 @@ import time
 from pathlib import Path
 
 ROOT = Path(__file__).resolve().parents[1]
-DEMO = ROOT / "designs" / "harbour_tide_clock.toml"
+DEMO = ROOT / "wheelgen" / "designs" / "harbour_tide_clock.toml"
 LIMIT_S = 120.0
 
 

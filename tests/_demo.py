@@ -7,7 +7,10 @@ from pathlib import Path
 from wheelgen.design import Design, loads_design
 
 DEMO_TEXT = (
-    Path(__file__).resolve().parents[1] / "designs" / "harbour_tide_clock.toml"
+    Path(__file__).resolve().parents[1]
+    / "wheelgen"
+    / "designs"
+    / "harbour_tide_clock.toml"
 ).read_text()
 
 

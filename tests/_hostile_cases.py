@@ -27,7 +27,10 @@ from wheelgen.design.loader import PROCESS_KEYS, WHEEL_KEYS
 __all__ = ["Case", "SPECIAL", "cases"]
 
 DEMO_TEXT = (
-    Path(__file__).resolve().parents[1] / "designs" / "harbour_tide_clock.toml"
+    Path(__file__).resolve().parents[1]
+    / "wheelgen"
+    / "designs"
+    / "harbour_tide_clock.toml"
 ).read_text(encoding="utf-8")
 
 #: File contents that are not text: made by the test as these kinds of file.

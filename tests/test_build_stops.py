@@ -27,7 +27,7 @@ pytestmark = [
 ]
 
 ROOT = Path(__file__).resolve().parents[1]
-DEMO = ROOT / "designs" / "harbour_tide_clock.toml"
+DEMO = ROOT / "wheelgen" / "designs" / "harbour_tide_clock.toml"
 # Deadlines of the waits below: a stuck build or a worker left behind fails the test
 # when they pass (they bound the wait; nothing is timed).
 _START_S, _END_S = 180.0, 30.0

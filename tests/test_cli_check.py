@@ -16,7 +16,7 @@ from hypothesis import strategies as st
 from wheelgen.cli.check import check_command
 
 ROOT = Path(__file__).parents[1]
-DEMO = ROOT / "designs" / "harbour_tide_clock.toml"
+DEMO = ROOT / "wheelgen" / "designs" / "harbour_tide_clock.toml"
 DATA = Path(__file__).parent / "data"
 
 

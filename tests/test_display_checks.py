@@ -133,7 +133,10 @@ def test_printed_hands_need_their_layers_and_lines():
 
 
 DEMO_TEXT = (
-    Path(__file__).resolve().parents[1] / "designs" / "harbour_tide_clock.toml"
+    Path(__file__).resolve().parents[1]
+    / "wheelgen"
+    / "designs"
+    / "harbour_tide_clock.toml"
 ).read_text()
 
 ADVICE_CASES = [

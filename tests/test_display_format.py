@@ -9,7 +9,7 @@ import pytest
 from wheelgen.design import DesignError, load_design, loads_design
 
 ROOT = Path(__file__).resolve().parents[1]
-DEMO = ROOT / "designs" / "harbour_tide_clock.toml"
+DEMO = ROOT / "wheelgen" / "designs" / "harbour_tide_clock.toml"
 DEMO_TEXT = DEMO.read_text()
 
 

@@ -17,7 +17,7 @@ from wheelgen.parts import plan_parts
 from wheelgen.workshop.drilling import chart_holes
 
 ROOT = Path(__file__).resolve().parents[1]
-DEMO = ROOT / "designs" / "harbour_tide_clock.toml"
+DEMO = ROOT / "wheelgen" / "designs" / "harbour_tide_clock.toml"
 DEMO_TEXT = DEMO.read_text()
 WEEK = ROOT / "tests" / "data" / "display" / "week_and_month.toml"
 

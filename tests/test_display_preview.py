@@ -19,7 +19,12 @@ from wheelgen.workshop.dial_preview import dials_svg
 from wheelgen.workshop.preview import preview_plan
 from wheelgen.workshop.report import report_html
 
-DEMO = Path(__file__).resolve().parents[1] / "designs" / "harbour_tide_clock.toml"
+DEMO = (
+    Path(__file__).resolve().parents[1]
+    / "wheelgen"
+    / "designs"
+    / "harbour_tide_clock.toml"
+)
 NS = "{http://www.w3.org/2000/svg}"
 DAY = 86400.0
 

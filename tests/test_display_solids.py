@@ -24,7 +24,7 @@ pytestmark = pytest.mark.cad
 
 ROOT = Path(__file__).resolve().parents[1]
 WEEK = ROOT / "tests" / "data" / "display" / "week_and_month.toml"
-DEMO = ROOT / "designs" / "harbour_tide_clock.toml"
+DEMO = ROOT / "wheelgen" / "designs" / "harbour_tide_clock.toml"
 DISPLAY_KINDS = ("hand", "dial", "knob", "crank")
 
 

@@ -39,7 +39,7 @@ from wheelgen.teeth.involute_tooth import generate_tooth
 from wheelgen.teeth.spec import ToothSpec
 
 ROOT = Path(__file__).resolve().parents[1]
-DEMO = ROOT / "designs" / "harbour_tide_clock.toml"
+DEMO = ROOT / "wheelgen" / "designs" / "harbour_tide_clock.toml"
 TOL = 0.01  # mm, the default mesh tolerance: the arcs' budget
 
 

@@ -30,7 +30,7 @@ from wheelgen.layout.plan import plan_layout
 from wheelgen.parts import plan_parts
 
 DATA = Path(__file__).parent / "data"
-DEMO = Path(__file__).parent.parent / "designs" / "harbour_tide_clock.toml"
+DEMO = Path(__file__).parent.parent / "wheelgen" / "designs" / "harbour_tide_clock.toml"
 PAIR = (DATA / "layout" / "pair.toml").read_text(encoding="utf-8")
 
 

@@ -19,7 +19,7 @@ from wheelgen.design import load_design, loads_design
 from wheelgen.kinematics import solve_rates
 from wheelgen.kinematics.targets import arbor_period, arbor_sense
 
-DEMO = Path(__file__).parents[1] / "designs" / "harbour_tide_clock.toml"
+DEMO = Path(__file__).parents[1] / "wheelgen" / "designs" / "harbour_tide_clock.toml"
 
 
 def design(body: str, drive: str = "a", period: str = "1 d", sense: str = "ccw"):

@@ -26,7 +26,7 @@ from pathlib import Path
 ROOT = Path(__file__).resolve().parents[1]
 PACKAGE = ROOT / "wheelgen"
 GUIDE = ROOT / "DEVELOPERS.md"
-DEMO = ROOT / "designs" / "harbour_tide_clock.toml"
+DEMO = ROOT / "wheelgen" / "designs" / "harbour_tide_clock.toml"
 
 #: Libraries a row may name in its "may import" column (the rest is the stdlib).
 THIRD_PARTY = ("numpy", "scipy", "matplotlib", "ezdxf", "click", "cadquery", "OCP")

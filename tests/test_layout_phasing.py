@@ -138,7 +138,9 @@ def test_preview_and_motion_use_the_same_rest_angles():
     shown = preview_svg(design, positions, plan)
     assert shown == preview_svg(design, positions, plan, angles)
     assert shown != preview_svg(design, positions, plan, {})
-    demo = Path(__file__).parents[1] / "designs" / "harbour_tide_clock.toml"
+    demo = (
+        Path(__file__).parents[1] / "wheelgen" / "designs" / "harbour_tide_clock.toml"
+    )
     result = CliRunner().invoke(main, ["motion", str(demo), "--json"])
     assert result.exit_code == 0, result.output
     assert json.loads(result.output)["rest_angles_deg"] == angles

@@ -24,7 +24,12 @@ from wheelgen.kinematics.angles import (
 )
 from wheelgen.kinematics.rates import solve_rates
 
-DEMO = Path(__file__).resolve().parents[1] / "designs" / "harbour_tide_clock.toml"
+DEMO = (
+    Path(__file__).resolve().parents[1]
+    / "wheelgen"
+    / "designs"
+    / "harbour_tide_clock.toml"
+)
 
 HEAD = """
 [design]

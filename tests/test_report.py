@@ -28,7 +28,7 @@ from wheelgen.workshop.parts_bill import parts_sheet_writer
 from wheelgen.workshop.report import report_html, report_writer
 
 ROOT = Path(__file__).resolve().parent.parent
-DEMO = ROOT / "designs" / "harbour_tide_clock.toml"
+DEMO = ROOT / "wheelgen" / "designs" / "harbour_tide_clock.toml"
 SVG_NS = "http://www.w3.org/2000/svg"
 VOID = {"area", "base", "br", "col", "embed", "hr", "img", "input", "link", "meta",
         "source", "track", "wbr"}  # fmt: skip

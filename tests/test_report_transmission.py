@@ -84,7 +84,7 @@ def test_report_shows_both_forms_side_by_side_and_every_mesh(two_forms):
 
 
 def test_a_design_with_one_form_has_no_comparison():
-    design = load_design(ROOT / "designs" / "harbour_tide_clock.toml")
+    design = load_design(ROOT / "wheelgen" / "designs" / "harbour_tide_clock.toml")
     page = report_html(design, plan_parts(design), analyse(design).findings)
     section = _section(page)
     assert "Why the tooth form matters" not in section

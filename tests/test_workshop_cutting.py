@@ -39,7 +39,12 @@ from wheelgen.workshop.cutting import (
     indexing_text,
 )
 
-DEMO = Path(__file__).resolve().parent.parent / "designs" / "harbour_tide_clock.toml"
+DEMO = (
+    Path(__file__).resolve().parent.parent
+    / "wheelgen"
+    / "designs"
+    / "harbour_tide_clock.toml"
+)
 
 
 def _wheel(teeth: int, module: float = 1.0, shift: float = 0.0, **kw) -> WheelPart:

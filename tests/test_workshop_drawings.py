@@ -33,7 +33,7 @@ from wheelgen.workshop.train_diagram import (
 )
 
 ROOT = Path(__file__).resolve().parent.parent
-DEMO = ROOT / "designs" / "harbour_tide_clock.toml"
+DEMO = ROOT / "wheelgen" / "designs" / "harbour_tide_clock.toml"
 TWO_STAGE = ROOT / "tests" / "data" / "two_stage.toml"
 SVG = "{http://www.w3.org/2000/svg}"
 

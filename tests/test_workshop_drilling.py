@@ -21,7 +21,7 @@ from wheelgen.frame.plan import plan_frame
 from wheelgen.workshop.drilling import drilling_csv, drilling_sheet_writer, drilling_svg
 
 DATA = Path(__file__).parent / "data" / "layout"
-DEMO = Path(__file__).parent.parent / "designs" / "harbour_tide_clock.toml"
+DEMO = Path(__file__).parent.parent / "wheelgen" / "designs" / "harbour_tide_clock.toml"
 NS = "{http://www.w3.org/2000/svg}"
 
 

@@ -28,7 +28,12 @@ from wheelgen.workshop.parts_bill import (
     wheel_profile_area,
 )
 
-DEMO = Path(__file__).resolve().parent.parent / "designs" / "harbour_tide_clock.toml"
+DEMO = (
+    Path(__file__).resolve().parent.parent
+    / "wheelgen"
+    / "designs"
+    / "harbour_tide_clock.toml"
+)
 
 
 class _Tube:

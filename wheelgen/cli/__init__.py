@@ -32,7 +32,8 @@ def main() -> None:
       wheelgen gear -z Z -m M   data sheet of one wheel or a pair
       wheelgen index TEETH      dividing-head indexing for a tooth count
 
-    Without DESIGN, the bundled demo (designs/harbour_tide_clock.toml) is used.
+    Without DESIGN, the bundled demo (harbour_tide_clock.toml, installed with the
+    package) is used.
     """
 
 

@@ -9,7 +9,7 @@ from typing import Any, NoReturn
 
 import click
 
-from ..design import Design, DesignError, load_design
+from ..design import Design, DesignError, demo_path, load_design
 
 __all__ = [
     "DEFAULT_DESIGN",
@@ -24,9 +24,7 @@ __all__ = [
 EXIT_OK, EXIT_FINDINGS, EXIT_INPUT = 0, 1, 2
 
 #: The bundled demo, used when a command is given no design.
-DEFAULT_DESIGN = (
-    Path(__file__).resolve().parents[2] / "designs" / "harbour_tide_clock.toml"
-)
+DEFAULT_DESIGN = demo_path()
 
 
 def fail(message: str, code: int = EXIT_INPUT) -> NoReturn:

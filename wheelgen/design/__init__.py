@@ -1,5 +1,6 @@
 """The train definition: parse and check a TOML train file into frozen dataclasses."""
 
+from .bundled import demo_path as demo_path
 from .errors import DesignError as DesignError
 from .errors import Problem as Problem
 from .loader import load_design as load_design
@@ -23,6 +24,7 @@ from .periods import format_period as format_period
 from .periods import parse_period as parse_period
 
 __all__ = [
+    "demo_path",
     "DesignError",
     "Problem",
     "load_design",
