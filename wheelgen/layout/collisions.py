@@ -173,11 +173,7 @@ def signed_distance(point: np.ndarray, poly: np.ndarray) -> float:
         1,
     )
     d = float(np.min(np.hypot(*(ap - t[:, None] * ab).T)))
-    # even-odd rule, ray towards +X
-    cross = (a[:, 1] > point[1]) != (b[:, 1] > point[1])
-    with np.errstate(divide="ignore", invalid="ignore"):
-        xs = a[:, 0] + (point[1] - a[:, 1]) * ab[:, 0] / ab[:, 1]
-    inside = int(np.count_nonzero(cross & (xs > point[0]))) % 2 == 1
+    inside = bool(inside_polygon(np.asarray(point, float).reshape(1, 2), poly)[0])
     return -d if inside else d
 
 
