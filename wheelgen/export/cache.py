@@ -39,6 +39,7 @@ import time
 from pathlib import Path
 from typing import Any
 
+from ..layout.part_plan import Part
 from ..version import __version__
 
 __all__ = [
@@ -66,7 +67,7 @@ def cache_root_for(out_dir: Path) -> Path:
     return Path(out_dir).absolute().parent / CACHE_DIR_NAME
 
 
-def part_parameters(part: Any) -> dict[str, Any]:
+def part_parameters(part: Part) -> dict[str, Any]:
     """Every field of a part as plain JSON data (nested specs included)."""
     data: dict[str, Any] = json.loads(json.dumps(dataclasses.asdict(part), default=str))
     return data
@@ -87,7 +88,7 @@ def code_fingerprint() -> str:
     return digest.hexdigest()
 
 
-def part_key(part: Any, options: dict[str, Any]) -> str:
+def part_key(part: Part, options: dict[str, Any]) -> str:
     """SHA-256 hex of the part's parameters (without placement), version, code and options."""
     params = part_parameters(part)
     params.pop("placement", None)

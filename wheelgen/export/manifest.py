@@ -18,6 +18,9 @@ from collections.abc import Iterable, Sequence
 from pathlib import Path
 from typing import Any
 
+from ..design.model import Design
+from ..findings import Finding
+from ..layout.part_plan import Part
 from ..version import __version__
 from ..workshop.file_sizes import part_file, size_summary
 from .cache import part_parameters
@@ -36,9 +39,9 @@ def file_sha256(path: Path) -> str:
 
 
 def make_manifest(
-    design: Any,
-    parts: Sequence[Any],
-    findings: Iterable[Any],
+    design: Design,
+    parts: Sequence[Part],
+    findings: Iterable[Finding],
     root: Path,
     files: Iterable[Path],
     checked: bool,

@@ -2,10 +2,9 @@
 
 from __future__ import annotations
 
-from typing import Any
-
 import cadquery as cq
 
+from ..design.model import Design
 from ..layout.part_plan import (
     ArborPart,
     BearingPart,
@@ -69,7 +68,7 @@ def part_location(part: Part) -> cq.Location:
     return cq.Location(cq.Vector(pl.x, pl.y, pl.z), cq.Vector(0, 0, 1), pl.angle_deg)
 
 
-def design_parts(design: Any) -> dict[str, tuple[cq.Shape, cq.Location]]:
+def design_parts(design: Design) -> dict[str, tuple[cq.Shape, cq.Location]]:
     """Every part of a loaded design: name -> (solid in its own frame, placement).
 
     ``least_play`` requests are settled first, as the checks and the build do.
@@ -81,7 +80,7 @@ def design_parts(design: Any) -> dict[str, tuple[cq.Shape, cq.Location]]:
     return {p.name: (make_part(p), part_location(p)) for p in parts}
 
 
-def design_assembly(design: Any) -> cq.Assembly:
+def design_assembly(design: Design) -> cq.Assembly:
     """The whole design as a cadquery Assembly, each part named and placed."""
     assy = cq.Assembly(name=design.name)
     for name, (solid, loc) in design_parts(design).items():
