@@ -16,7 +16,7 @@ from typing import Any
 import click
 
 from ..design.units import UNITS, Units
-from ..export.formats import DXF_CURVES, FORMATS
+from ..export.formats import DXF_CURVES, FORMATS, MESH_TOLERANCE
 from ._common import (
     DEFAULT_DESIGN,
     EXIT_FINDINGS,
@@ -77,7 +77,7 @@ def _parse_formats(text: str) -> tuple[str, ...]:
 @click.option(
     "--tolerance",
     type=Bounded("option.build.tolerance"),
-    default=0.01,
+    default=MESH_TOLERANCE,
     show_default=True,
     help="Largest chord deviation of STL/3MF meshes, and of DXF arcs from the "
     "exact flanks with --dxf-curves arcs, mm.",

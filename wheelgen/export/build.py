@@ -40,7 +40,7 @@ from ..layout.part_plan import BOUGHT_KINDS, DISPLAY_KINDS, FLAT_KINDS
 from ..version import __version__
 from . import sheets
 from .cache import CacheUnusable, DamagedEntry, PartCache, cache_root_for, part_key
-from .formats import DXF_CURVES, FORMATS, PLANAR_FORMATS
+from .formats import DXF_CURVES, FORMATS, MESH_TOLERANCE, PLANAR_FORMATS
 from .manifest import MANIFEST_NAME, make_manifest, write_manifest
 from .output_folder import MARKER_NAME, check_replaceable, marker_text, real_target
 from .staging import Staging, UnsafeNameError, inside, safe_name
@@ -100,8 +100,8 @@ class BuildOptions:
     jobs: int = 1
     force: bool = False
     use_cache: bool = True
-    mesh_tolerance: float = 0.01
-    dxf_curves: str = "splines"
+    mesh_tolerance: float = MESH_TOLERANCE
+    dxf_curves: str = DXF_CURVES[0]
     units: str | None = None
 
     def __post_init__(self) -> None:
