@@ -48,7 +48,7 @@ from ..layout.wheel_profile import Hole, PlateProfile
 from ..solids.spline_fit import SplineFit, fit_segments
 from ..teeth.outline import Segment, WheelOutline, circle_through
 from .biarcs import biarc_segments
-from .formats import DXF_CURVES
+from .formats import DXF_CURVES, MESH_TOLERANCE
 
 __all__ = [
     "Engraving",
@@ -184,7 +184,7 @@ def add_chain(
     segments: Sequence[Segment],
     layer: str,
     curves: str = "splines",
-    tolerance: float = 0.01,
+    tolerance: float = MESH_TOLERANCE,
     fits: Sequence[SplineFit | None] | None = None,
 ) -> None:
     """Draw a chain of exact segments on ``layer`` of an ezdxf layout.
@@ -213,7 +213,7 @@ def add_outline(
     outline: WheelOutline,
     layer: str = "OUTLINE",
     curves: str = "splines",
-    tolerance: float = 0.01,
+    tolerance: float = MESH_TOLERANCE,
 ) -> None:
     """Draw a wheel's toothed outline; tooth 0's curves are made once and turned."""
     fits = fit_segments(outline.tooth)
@@ -300,7 +300,7 @@ def write_dxf(
     path: Path,
     name: str,
     curves: str = "splines",
-    tolerance: float = 0.01,
+    tolerance: float = MESH_TOLERANCE,
     pins: Sequence[tuple[float, float, float]] = (),
     hub_diameter: float = 0.0,
     units: str = "mm",

@@ -37,6 +37,7 @@ from OCP.TopoDS import TopoDS, TopoDS_Compound, TopoDS_Edge, TopoDS_Face, TopoDS
 from OCP.TopTools import TopTools_IndexedMapOfShape
 
 from ..design.names import xml_text
+from .formats import MESH_TOLERANCE
 
 __all__ = ["Mesh", "mesh_shape", "read_stl", "write_3mf", "write_stl"]
 
@@ -263,7 +264,7 @@ def _fast_mesh(shape: TopoDS_Shape, tolerance: float, angular_deg: float) -> Mes
 
 
 def mesh_shape(
-    shape: cq.Shape, tolerance: float = 0.01, angular_deg: float = 30.0
+    shape: cq.Shape, tolerance: float = MESH_TOLERANCE, angular_deg: float = 30.0
 ) -> Mesh:
     """Mesh ``shape`` so that no chord strays more than ``tolerance`` mm from it.
 
