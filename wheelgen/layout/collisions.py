@@ -4,7 +4,7 @@ Every wheel, hub, arbor, sleeve and collar is a *body*: a z-range and a round or
 section. Two bodies on different axes whose z-ranges overlap are compared in the plane:
 
 - first by their circles (a wheel's nominal tip circle, a shaft's outside);
-- where those overlap, by the exact tooth outline (:func:`wheelgen.teeth.spec.outline_for`):
+- where those overlap, by the exact tooth outline (:func:`wheelgen.teeth.forms.outline_for`):
   a wheel that turns relative to the other body sweeps the disc of its outline's largest
   radius; a wheel that stands still relative to it (both fixed, say) keeps its exact
   outline, at the angle it is placed at (0).
