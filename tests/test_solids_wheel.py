@@ -101,14 +101,10 @@ def test_window_fillets_are_tangent_arcs_of_the_cutter_radius():
 
 
 def _centre(a, b, c):
-    d = 2 * (a[0] * (b[1] - c[1]) + b[0] * (c[1] - a[1]) + c[0] * (a[1] - b[1]))
-    ux = (
-        (a @ a) * (b[1] - c[1]) + (b @ b) * (c[1] - a[1]) + (c @ c) * (a[1] - b[1])
-    ) / d
-    uy = (
-        (a @ a) * (c[0] - b[0]) + (b @ b) * (a[0] - c[0]) + (c @ c) * (b[0] - a[0])
-    ) / d
-    return np.array([ux, uy])
+    # derived, not the outline's own formula: the centre x is as far from b and c as
+    # from a, |x - b|^2 = |x - a|^2, which is the linear 2 (b - a) . x = b.b - a.a
+    rows = 2 * np.array([b - a, c - a])
+    return np.linalg.solve(rows, [b @ b - a @ a, c @ c - a @ a])
 
 
 def test_too_many_spokes_for_a_small_wheel_is_refused():
