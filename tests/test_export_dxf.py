@@ -28,8 +28,9 @@ from ezdxf.math import fit_points_to_cad_cv
 
 from wheelgen.cli import main
 from wheelgen.export.biarcs import biarc_segments
-from wheelgen.export.build import DXF_CURVES, BuildOptions, build_design
+from wheelgen.export.build import BuildOptions, build_design
 from wheelgen.export.dxf import write_dxf
+from wheelgen.export.formats import DXF_CURVES
 from wheelgen.layout.part_plan import PinBoss, SlotCut, WheelPart
 from wheelgen.layout.wheel_profile import plate_profile
 from wheelgen.parts import plan_parts
