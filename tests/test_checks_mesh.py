@@ -12,12 +12,12 @@ from wheelgen.checks.mesh_checks import (
     check_mesh,
     check_wheel,
     design_mesh_checks,
-    involute_mesh,
 )
 from wheelgen.design.loader import load_design
 from wheelgen.design.model import Process
 from wheelgen.findings import Finding
 from wheelgen.layout.placement import tooth_spec
+from wheelgen.teeth.involute_mesh import involute_mesh
 from wheelgen.teeth.spec import ToothSpec
 
 DATA = Path(__file__).parent / "data" / "checks"

@@ -14,15 +14,22 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
-from ..design.model import Mesh, Process
+from ..design.model import Design, Mesh, Process
 from ..design.process_limits import centre_tolerance
 from ..findings import Change
 from ..kinematics.rates import mesh_frame
 from ..teeth.limits import short_of
 from .placement import Link, Placing, mesh_centre_distance
-from .plan import Layout
+from .plan import Layout, plan_layout
 
-__all__ = ["MeshCentres", "Move", "centres_fit", "mesh_centres", "move_for"]
+__all__ = [
+    "MeshCentres",
+    "Move",
+    "centres_fit",
+    "mesh_centres",
+    "mesh_distances",
+    "move_for",
+]
 
 Point = tuple[float, float]
 
@@ -223,3 +230,12 @@ def _move(
         return None
     change = _change_for(layout, link, sense, to)
     return Move(axis, to, change, tuple(meshes))
+
+
+def mesh_distances(design: Design) -> dict[int, float]:
+    """Centre distance (mm) of every mesh on the final layout, by mesh ``index``."""
+    try:
+        layout = plan_layout(design)
+    except ValueError:  # a layout that cannot be made: the layout check reports it
+        return {}
+    return {mc.mesh.index: mc.measured for mc in mesh_centres(layout)}
