@@ -239,7 +239,8 @@ def _outer_pivots(pivots: np.ndarray) -> np.ndarray:
     unique = np.unique(pivots, axis=0)
     if len(unique) <= 3:
         return unique
-    return unique[_hull_order(unique, collinear=False)]
+    corners: np.ndarray = unique[_hull_order(unique, collinear=False)]
+    return corners
 
 
 def _area(pts: np.ndarray, idx: Sequence[int]) -> float:
