@@ -51,7 +51,9 @@ def test_json_keys_and_exact_fractions():
     # exact fraction strings; derived by hand in test_kinematics_rates
     assert rows["tide"]["turns_per_drive_turn"] == "371/192"
     assert rows["lay"]["turns_per_drive_turn"] == "-2"
-    assert rows["lay"]["sense"] == "cw"
+    # derived: the drive turns clockwise seen from the front; -2 turns against it
+    assert rows["lay"]["sense"] == "ccw"
+    assert rows["hours"]["sense"] == "cw"
     assert rows["stud"]["sense"] == "still" and rows["stud"]["period_s"] is None
     assert rows["hours"]["period_s"] == 43200.0  # derived: 1 d / 2
     for t in data["targets"]:

@@ -52,10 +52,15 @@ def test_json_extremes():
     assert row["arbor"] == "moon_dial"
     assert row["max_lead_deg"] == pytest.approx(ALPHA, abs=1e-6)
     assert row["max_lag_deg"] == pytest.approx(ALPHA, abs=1e-6)
-    # the extremes come with the slot square to the offset line: 90 and 270 deg
-    assert row["lead_arbor_angle_deg"] == pytest.approx(90.0, abs=0.1)
-    assert row["lag_arbor_angle_deg"] == pytest.approx(270.0, abs=0.1)
-    # derived: the pin is then at 90 - alpha and 270 + alpha deg of its uniform turn
+    # the extremes come with the slot square to the offset line: 270 and 90 deg
+    assert row["lead_arbor_angle_deg"] == pytest.approx(270.0, abs=0.1)
+    assert row["lag_arbor_angle_deg"] == pytest.approx(90.0, abs=0.1)
+    # derived: the demo turns clockwise seen from the front, the time reverse of a
+    # counter-clockwise turn. Counter-clockwise the slot wheel leads at 90 deg when the
+    # pin has turned 90 - alpha, and lags at 270 deg when it has turned 270 + alpha;
+    # reversed in time, the lag at 270 deg (reached after 360 - (270 + alpha) degrees
+    # of the pin's turn) becomes a lead in the clockwise sense, and the lead at 90 deg
+    # a lag after 360 - (90 - alpha) degrees
     cycle = MOON_DAYS * 86400.0
     step = 0.06 / 360 * cycle  # the command samples every 0.05 deg of the pin's turn
     assert row["lead_at_s"] == pytest.approx((90 - ALPHA) / 360 * cycle, abs=step)
@@ -82,8 +87,8 @@ def test_arbor_and_turns_set_the_span(tmp_path):
     rows = list(csv.reader(out.open()))
     assert rows[0] == ["time_s", "moon_dial_deg", "moon_dial_dev_deg"]
     assert len(rows) == 102
-    # derived: two turns from rest, exactly
-    assert float(rows[-1][1]) == pytest.approx(720.0, abs=1e-6)
+    # derived: two turns from rest, exactly, clockwise (negative seen from the front)
+    assert float(rows[-1][1]) == pytest.approx(-720.0, abs=1e-6)
     assert max(float(r[2]) for r in rows[1:]) == pytest.approx(ALPHA, abs=0.02)
 
 

@@ -233,10 +233,10 @@ def test_the_reading_at_rest_turns_the_hand_and_its_seat():
         for h in display_plan(loads_design(text, "d.toml")).hands
         if h.part.arbor == "moon_dial"
     )
-    # derived: the moon hand turns counter-clockwise; day 7.5 of a month of
+    # derived: the moon hand turns clockwise, as the drive does; day 7.5 of a month of
     # 29.5306667 days (the train's period: 11074/375 d) stands that share of a turn
-    # on from the top
-    want = 90.0 + 360.0 * 7.5 / (11074 / 375)
+    # on from the top, clockwise (angles counter-clockwise from +x, in [0, 360))
+    want = (90.0 - 360.0 * 7.5 / (11074 / 375)) % 360.0
     assert hand.placement.angle_deg == pytest.approx(want, abs=1e-9)
     # the square hole is turned back by as much, so the hand reads 7.5 on a square
     # milled at the arbor's angle 0

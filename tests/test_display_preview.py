@@ -28,10 +28,16 @@ DEMO = (
 NS = "{http://www.w3.org/2000/svg}"
 DAY = 86400.0
 
-# Turns per day of each reading arbor, counter-clockwise (the drive turns ccw once a
-# day). derived: hours = 96/48 * 72/72 = 2; tide (Willis, carrier = hours, fixed sun)
-# = 2 * (1 - (11/66) * (13/64)) = 371/192; moon = 25/113 * 15/98 = 375/11074.
-RATES = {"hours": 2.0, "tide": 371 / 192, "moon_dial": 375 / 11074}
+# Turns per day of each reading arbor, counter-clockwise positive. The drive turns
+# clockwise once a day, seen from the front (-1); derived: hours = 96/48 * 72/72 = 2
+# drive turns; tide (Willis, carrier = hours, fixed sun) = 2 * (1 - (11/66) * (13/64))
+# = 371/192; moon = 25/113 * 15/98 = 375/11074; all the same way as the drive.
+DRIVE = -1.0
+RATES = {
+    "hours": DRIVE * 2.0,
+    "tide": DRIVE * 371 / 192,
+    "moon_dial": DRIVE * 375 / 11074,
+}
 PIN_RADIUS, PIN_OFFSET = 8.0, 0.8  # the demo's moon coupling, bearing 0
 
 

@@ -121,9 +121,10 @@ def test_demo_moon_dial_deviation_and_full_cycle():
     alpha = math.degrees(math.asin(0.8 / 8.0))  # WHITWORTH: asin(e / r)
     assert dev.max() == pytest.approx(alpha, abs=1e-4)
     assert dev.min() == pytest.approx(-alpha, abs=1e-4)
-    # derived: over a whole cycle both wheels turn exactly once
-    assert ang["moon"][-1] == pytest.approx(360.0, abs=1e-9)
-    assert ang["moon_dial"][-1] == pytest.approx(360.0, abs=1e-9)
+    # derived: over a whole cycle both wheels turn exactly once, clockwise seen from
+    # the front as the drive does (375/11074 turns per drive turn, same sense)
+    assert ang["moon"][-1] == pytest.approx(-360.0, abs=1e-9)
+    assert ang["moon_dial"][-1] == pytest.approx(-360.0, abs=1e-9)
     assert ang["moon_dial"][0] == 0.0
 
 

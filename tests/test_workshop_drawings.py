@@ -148,6 +148,10 @@ def test_motion_plot_deviation_is_the_coupling_law(demo) -> None:
     # derived, rule of sines: at most arcsin(e / r) = arcsin(0.1) = 5.7392 degrees
     limit = math.degrees(math.asin(p.offset / p.radius))
     assert np.abs(dev).max() == pytest.approx(limit, abs=2e-3)
+    # "ahead" is in the arbor's own sense: the demo's moon hand turns clockwise and is
+    # furthest ahead after (90 - alpha) / 360 of its turn (see test_cli_motion)
+    k = round((90.0 - limit) / 360.0 * (len(dev) - 1))
+    assert dev[k] == pytest.approx(limit, abs=0.05)
     assert speed.min() < 1.0 < speed.max()
     svg = motion_plot_svg(design, "moon_dial", period)
     assert svg == motion_plot_svg(design, "moon_dial", period)  # same bytes each time

@@ -21,6 +21,7 @@ from ..kinematics.angles import (
     arbor_deviations,
     drive_angle_deg,
 )
+from ..kinematics.targets import arbor_sense
 from ._common import EXIT_FINDINGS, EXIT_OK, echo_json, fail, load_or_exit
 from ._options import Bounded
 
@@ -70,11 +71,15 @@ def _extremes(
     # all their samples at once (about _CELLS values per slice)
     step = max(1000, _CELLS // max(1, len(names) + len(model.couplings)))
     best: dict[str, list[float]] = {a: [-np.inf, 0.0, np.inf, 0.0] for a in names}
+    # a lead is ahead in the arbor's own sense of turning, seen from the front
+    sense = {
+        a: -1.0 if arbor_sense(design, model.rates[a]) == "cw" else 1.0 for a in names
+    }
     for start in range(0, count, step):
         part = t[start : start + step]
         devs = arbor_deviations(design, part, model, names)
         for a in names:
-            lead = (-1.0 if model.rates[a] < 0 else 1.0) * devs[a]
+            lead = sense[a] * devs[a]
             i, j = int(np.argmax(lead)), int(np.argmin(lead))
             top = best[a]
             if lead[i] > top[0]:
@@ -162,7 +167,8 @@ def _plot(
     for a in names:
         ax.plot(t / size, devs[a], label=a, linewidth=1.4)
     for r in rows:
-        sense = -1.0 if Fraction(r["turns_per_drive_turn"]) < 0 else 1.0
+        rate = Fraction(r["turns_per_drive_turn"])
+        sense = -1.0 if arbor_sense(design, rate) == "cw" else 1.0
         for key, at in (("max_lead_deg", "lead_at_s"), ("max_lag_deg", "lag_at_s")):
             if r[key] > 0:
                 y = sense * r[key] * (1 if key == "max_lead_deg" else -1)

@@ -24,9 +24,10 @@ def deviation_curve(
 ) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
     """``(times_s, deviation_deg, speed_ratio)`` over one turn of ``arbor``.
 
-    ``deviation_deg`` is the angle (ccw) minus even turning at the mean rate;
-    ``speed_ratio`` the angular speed over the mean speed (1 = even), by central
-    differences on the samples.
+    ``deviation_deg`` is how far the arbor is ahead of even turning at its mean rate,
+    in its own sense of turning (a clockwise arbor is ahead when it has turned further
+    clockwise); ``speed_ratio`` the angular speed over the mean speed (1 = even), by
+    central differences on the samples.
     """
     if samples < 3:
         raise ValueError(f"'samples' must be at least 3, got {samples}")
@@ -35,7 +36,7 @@ def deviation_curve(
     t = np.linspace(0.0, period_s, samples)
     ang = np.asarray(arbor_angles(design, t)[arbor], dtype=float)
     mean = (ang[-1] - ang[0]) / period_s
-    dev = ang - ang[0] - mean * t
+    dev = (ang - ang[0] - mean * t) * (-1.0 if mean < 0 else 1.0)
     speed = np.gradient(ang, t) / mean if mean != 0 else np.ones_like(t)
     return t, dev, speed
 
