@@ -17,8 +17,10 @@ __all__ = [
     "SlotCut",
     "PinBoss",
     "WheelPart",
+    "TurnedSection",
     "ArborPart",
     "SleevePart",
+    "CollarPart",
     "PinPart",
     "FlatEdge",
     "FlatHole",
@@ -36,6 +38,7 @@ __all__ = [
     "Part",
     "SeatShape",
     "DISPLAY_KINDS",
+    "TURNED_KINDS",
     "ItemSeat",
 ]
 
@@ -114,11 +117,42 @@ class WheelPart:
 
 
 @dataclass(frozen=True, slots=True)
+class TurnedSection:
+    """One length of an arbor's or tube's outside, in the part's frame (mm).
+
+    ``z0`` to ``z1`` from the part's back end. ``role`` says what the length is for:
+    ``"pivot"`` (it runs in a plate, a cock, a bush or bearing, or the wheel that
+    carries it), ``"held"`` (fixed in a plate), ``"seat"`` (a wheel is fixed on it),
+    ``"item"`` (a hand, knob or crank), ``"under"`` (a tube turns on it),
+    ``"shoulder"`` (a stop turned on it), ``"collar"`` (a tube's thrust collar) or
+    ``"plain"``; ``what`` names the part it meets. ``diameter`` is the round it is
+    turned to; a ``"square"``, ``"hex"`` or ``"flat"`` ``shape`` is milled or filed on
+    that round to ``across`` flats. ``zone`` is the ISO 286 zone of a fitted length
+    (``""`` when none applies), ``low`` and ``high`` its limits (of ``across`` for a
+    polygon).
+    """
+
+    z0: float
+    z1: float
+    diameter: float
+    role: str
+    what: str = ""
+    shape: str = "round"
+    across: float = 0.0
+    zone: str = ""
+    low: float = 0.0
+    high: float = 0.0
+
+
+@dataclass(frozen=True, slots=True)
 class ArborPart:
     """A round shaft, ``length`` mm long from z = 0 upward.
 
-    ``seats`` are (z_from, z_to, shape) lengths of its end milled square or filed flat
-    for a hand, knob or crank (mm, in the part's frame).
+    ``seats`` are (z_from, z_to, shape) lengths of it milled square or hex for a wheel,
+    drilled for a cross pin, or milled square or filed flat for a hand, knob or crank
+    (mm, in the part's frame); ``collars`` (z_from, z_to, diameter) the shoulders
+    turned on it. ``sections`` describe every length as made (its role and fit),
+    ``stock`` is the bar it is turned from (mm; 0: not worked out).
     """
 
     name: str
@@ -127,11 +161,20 @@ class ArborPart:
     placement: Placement = Placement()
     seats: tuple[tuple[float, float, SeatShape], ...] = ()
     kind: Literal["arbor"] = "arbor"
+    collars: tuple[tuple[float, float, float], ...] = ()
+    sections: tuple[TurnedSection, ...] = ()
+    stock: float = 0.0
 
 
 @dataclass(frozen=True, slots=True)
 class SleevePart:
-    """A tube turning on the member inside it; seats are (z_from, z_to, shape) on its outside."""
+    """A tube turning on the member inside it; seats are (z_from, z_to, shape) on its
+    outside, collars and shoulders (z_from, z_to, diameter) turned on it.
+
+    ``sections`` describe every length of the outside as made; the bore's ISO 286
+    limits are ``bore_zone``, ``bore_low`` and ``bore_high`` (mm; no zone when
+    printed); ``stock`` is the bar or tube it is turned from (0: not worked out).
+    """
 
     name: str
     inside: float
@@ -141,6 +184,32 @@ class SleevePart:
     collars: tuple[tuple[float, float, float], ...] = ()  # (z_from, z_to, diameter)
     placement: Placement = Placement()
     kind: Literal["sleeve"] = "sleeve"
+    sections: tuple[TurnedSection, ...] = ()
+    bore_zone: str = ""
+    bore_low: float = 0.0
+    bore_high: float = 0.0
+    stock: float = 0.0
+
+
+@dataclass(frozen=True, slots=True)
+class CollarPart:
+    """A collar: a ring fixed on ``member`` as a stop, ``length`` mm long from z = 0.
+
+    ``inside`` is its modelled bore, with ISO 286 limits ``bore_zone``, ``bore_low``
+    and ``bore_high`` (no zone when printed); ``fixing`` says how it is held (mm).
+    """
+
+    name: str
+    member: str
+    inside: float
+    outside: float
+    length: float
+    fixing: str
+    placement: Placement = Placement()
+    bore_zone: str = ""
+    bore_low: float = 0.0
+    bore_high: float = 0.0
+    kind: Literal["collar"] = "collar"
 
 
 @dataclass(frozen=True, slots=True)
@@ -386,6 +455,7 @@ Part = Union[
     WheelPart,
     ArborPart,
     SleevePart,
+    CollarPart,
     PinPart,
     PlatePart,
     PillarPart,
@@ -402,5 +472,8 @@ Part = Union[
 BOUGHT_KINDS = frozenset({"screw", "bearing"})
 #: Kinds of part that are flat (a profile cut from sheet): DXF and SVG as well.
 FLAT_KINDS = frozenset({"wheel", "plate", "hand", "dial", "crank"})
+#: Kinds of part turned on a lathe (or printed round): a side view drawn to scale with
+#: every diameter and its fit, as SVG and DXF.
+TURNED_KINDS = frozenset({"arbor", "sleeve", "collar"})
 #: Kinds of part that the display adds (wheelgen.display).
 DISPLAY_KINDS = frozenset({"hand", "dial", "knob", "crank"})

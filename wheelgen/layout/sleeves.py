@@ -212,14 +212,13 @@ def member_outside(design: Design, sizes: dict[str, SleeveSize], name: str) -> f
 def wheel_bore(design: Design, sizes: dict[str, SleeveSize], wheel: Wheel) -> Bore:
     """The seat hole (mm) of ``wheel``: its own ``bore``, else its seat opened up.
 
-    The seat is the outside of the arbor or sleeve under the wheel; on a sleeve a square
-    or hex seat is milled to its flats (:func:`seat_factor`), and the hole's size is
+    The seat is the outside of the arbor or sleeve under the wheel; a square or hex
+    seat is milled to its flats on either (:func:`seat_factor`), and the hole's size is
     then across its flats. The seat is opened up by the running fit (mill, hand) or the
     print clearance, as the train format says (:func:`running_bore`).
     """
     seat = member_outside(design, sizes, wheel.arbor)
-    if wheel.arbor in sizes:
-        seat = round(seat * seat_factor(wheel.seat), 6)
+    seat = round(seat * seat_factor(wheel.seat), 6)
     if wheel.bore is not None:
         d = wheel.bore
         return Bore(seat, d, d, d, "as given ('bore')", "", seat, seat)

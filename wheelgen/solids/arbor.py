@@ -4,9 +4,9 @@ from __future__ import annotations
 
 import cadquery as cq
 
-from ..layout.part_plan import ArborPart, PinPart
+from ..layout.part_plan import ArborPart, CollarPart, PinPart
 
-__all__ = ["make_arbor", "make_pin", "round_bar"]
+__all__ = ["make_arbor", "make_collar", "make_pin", "round_bar"]
 
 
 def round_bar(name: str, diameter: float, length: float) -> cq.Solid:
@@ -22,12 +22,27 @@ def round_bar(name: str, diameter: float, length: float) -> cq.Solid:
 
 
 def make_arbor(part: ArborPart) -> cq.Shape:
-    """An arbor: a round shaft of the length the layout gives, its end seats milled."""
-    if not part.seats:
+    """An arbor: a round shaft of the length the layout gives, its seats milled and its
+    shoulders turned."""
+    if not part.seats and not part.collars:
         return round_bar(part.name, part.diameter, part.length)
     from .sleeve import turned_member
 
-    return turned_member(part.name, 0.0, part.diameter, part.length, part.seats)
+    return turned_member(
+        part.name, 0.0, part.diameter, part.length, part.seats, part.collars
+    )
+
+
+def make_collar(part: CollarPart) -> cq.Shape:
+    """A collar: a ring from z = 0 to its length, bored for its member."""
+    if not 0 < part.inside < part.outside:
+        raise ValueError(
+            f"{part.name}: 'inside' must be > 0 and below 'outside'"
+            f" ({part.outside} mm), got {part.inside}"
+        )
+    from .sleeve import turned_member
+
+    return turned_member(part.name, part.inside, part.outside, part.length, ())
 
 
 def make_pin(part: PinPart) -> cq.Solid:

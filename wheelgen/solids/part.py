@@ -9,6 +9,7 @@ from ..layout.part_plan import (
     ArborPart,
     BearingPart,
     CockPart,
+    CollarPart,
     CrankPart,
     DialPart,
     HandPart,
@@ -21,7 +22,7 @@ from ..layout.part_plan import (
     SleevePart,
     WheelPart,
 )
-from .arbor import make_arbor
+from .arbor import make_arbor, make_collar
 from .display import make_crank, make_dial, make_hand, make_knob
 from .frame import make_bearing, make_cock, make_pillar, make_plate, make_screw
 from .pin import make_pin
@@ -39,6 +40,8 @@ def make_part(part: Part) -> cq.Shape:
         return make_arbor(part)
     if isinstance(part, SleevePart):
         return make_sleeve(part)
+    if isinstance(part, CollarPart):
+        return make_collar(part)
     if isinstance(part, PinPart):
         return make_pin(part)
     if isinstance(part, PlatePart):

@@ -19,6 +19,7 @@ from ..frame.outline import edges_polyline
 from ..layout.part_plan import (
     ArborPart,
     CockPart,
+    CollarPart,
     CrankPart,
     DialPart,
     HandPart,
@@ -73,15 +74,20 @@ def _wheel_svg(part: WheelPart) -> str:
     )
 
 
-def _side_svg(part: ArborPart | SleevePart | PinPart) -> str:
+def _side_svg(part: ArborPart | SleevePart | PinPart | CollarPart) -> str:
     length = part.length
+    collars: tuple[tuple[float, float, float], ...] = ()
+    seats: tuple[tuple[float, float, str], ...] = ()
     if isinstance(part, SleevePart):
         d_out, d_in = part.outside, part.inside
-        collars = part.collars
-        seats = part.seats
+        collars, seats = part.collars, part.seats
+    elif isinstance(part, CollarPart):
+        d_out, d_in = part.outside, part.inside
+    elif isinstance(part, ArborPart):
+        d_out, d_in = part.diameter, 0.0
+        collars, seats = part.collars, part.seats
     else:
         d_out, d_in = part.diameter, 0.0
-        collars, seats = (), getattr(part, "seats", ())
     big = max([d_out] + [d for _, _, d in collars])
     # at least 1:6 high so that a long thin shaft still shows its diameter
     h = max(big * 1.4, length / 6)
@@ -241,7 +247,7 @@ def part_svg(part: Any) -> str:
         return _wheel_svg(part)
     if isinstance(part, (HandPart, DialPart, CrankPart, KnobPart)):
         return _flat_svg(part)
-    if isinstance(part, (ArborPart, SleevePart, PinPart)):
+    if isinstance(part, (ArborPart, SleevePart, PinPart, CollarPart)):
         return _side_svg(part)
     if isinstance(part, PlatePart):
         return _plate_svg(part)

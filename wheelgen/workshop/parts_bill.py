@@ -1,10 +1,12 @@
 """The bill of parts: every part with its stock, quantity, overall size and volume.
 
 Stock is what the part is cut from: sheet of the wheel's face width or the plate's
-thickness (or a hand's, a dial's or a crank arm's), round rod for arbors, pins,
-pillars and knobs, tube (outside x inside diameter) for
-sleeves, a block for a cock; a sleeve whose sizes match a tube listed in the design's
-``[[stock]]`` says so. Bought parts (screws, bushes, bearings) are counted: one row per
+thickness (or a hand's, a dial's or a crank arm's), round rod for arbors (the bar a
+shouldered arbor is turned from), pins, pillars, knobs and collars, tube (outside x
+inside diameter) for sleeves, a block for a cock; a sleeve whose sizes match a tube
+listed in the design's ``[[stock]]`` says so. Every fitted diameter of an arbor, tube
+or collar is listed with its ISO 286 zone and limits (``fitted_diameters_mm``), and
+the wheels' bores with theirs. Bought parts (screws, bushes, bearings) are counted: one row per
 size, with how many and what they fix. The volume is an estimate from plain numbers,
 not from the CAD kernel: a wheel's flat profile area (toothed outline minus bore,
 windows, slot and pin hole, from the same profile the solids are extruded from) times
@@ -35,6 +37,7 @@ from ..layout.part_plan import (
     ArborPart,
     BearingPart,
     CockPart,
+    CollarPart,
     CrankPart,
     DialPart,
     HandPart,
@@ -54,6 +57,7 @@ __all__ = [
     "PARTS_COLUMNS",
     "PARTS_FILE",
     "bill_rows",
+    "fitted_diameters",
     "parts_columns",
     "wheel_profile_area",
     "parts_csv",
@@ -91,6 +95,7 @@ class BillRow:
     volume: float
     note: str = ""
     bore: float | None = None
+    fits: str = ""
 
     @property
     def stock_text(self) -> str:
@@ -142,6 +147,7 @@ def parts_columns(lengths: Lengths = MM) -> tuple[str, ...]:
         col("overall_length"),
         col("volume") + "3",
         col("bore"),
+        col("fitted_diameters"),
         "note",
     )
 
@@ -188,6 +194,9 @@ def _wheel_row(part: WheelPart, u: Lengths = MM) -> BillRow:
         notes.append(f"{part.spokes} spokes")
     if part.bore_fit:
         notes.append(f"bore {part.bore_fit}")
+    fits = ""
+    if part.bore_fit:
+        fits = f"bore {u.short(part.bore)} {part.bore_fit}"
     for x, y, d in part.holes:
         notes.append(
             f"bore {u.num(d)} {u.unit} at ({u.num(x)}, {u.num(y)}) for a carried arbor"
@@ -205,6 +214,7 @@ def _wheel_row(part: WheelPart, u: Lengths = MM) -> BillRow:
         volume=volume,
         note="; ".join(notes),
         bore=part.bore,
+        fits=fits,
     )
 
 
@@ -219,18 +229,78 @@ def _tube_note(design: Any, part: SleevePart) -> str:
     return ""
 
 
-def _sleeve_row(design: Any, part: SleevePart, u: Lengths = MM) -> BillRow:
-    ro, ri = part.outside / 2, part.inside / 2
-    volume = math.pi * (ro**2 - ri**2) * part.length
-    largest = part.outside
-    for z0, z1, d in part.collars:
-        if d > part.outside:
-            volume += math.pi / 4 * (d**2 - part.outside**2) * (z1 - z0)
+def _limits(zone: str, low: float, high: float, u: Lengths = MM) -> str:
+    """``"g6 2.992-2.998"``, or the size alone where no ISO zone applies."""
+    if zone:
+        return f"{zone} {u.num(low)}-{u.num(high)}"
+    return u.short(low)
+
+
+def fitted_diameters(part: ArborPart | SleevePart | CollarPart, u: Lengths = MM) -> str:
+    """Every fitted diameter of a turned part with its zone and limits (in ``u``'s
+    unit), joined by ``"; "``: ``"pivot 3 g6 2.992-2.998 (back_plate)"``."""
+    out: list[str] = []
+    if isinstance(part, (SleevePart, CollarPart)) and part.bore_low > 0:
+        limits = _limits(part.bore_zone, part.bore_low, part.bore_high, u)
+        out.append(f"bore {u.short(part.inside)} {limits}")
+    if isinstance(part, CollarPart):
+        return "; ".join(out)
+    seen: set[tuple[str, float, str, str]] = set()
+    for s in part.sections:
+        if not s.zone and s.role in ("plain", "shoulder", "collar"):
+            continue
+        size = s.across if s.across else s.diameter
+        key = (s.role, size, s.zone, s.what)
+        if key in seen:
+            continue
+        seen.add(key)
+        across = f" across flats ({s.shape})" if s.across else ""
+        what = f" ({s.what})" if s.what else ""
+        limits = _limits(s.zone, s.low, s.high, u)
+        out.append(f"{s.role} {u.short(size)}{across} {limits}{what}")
+    return "; ".join(out)
+
+
+def _turned_volume(
+    outside: float,
+    inside: float,
+    length: float,
+    collars: Sequence[tuple[float, float, float]],
+) -> tuple[float, float]:
+    """Volume (mm³) and largest diameter (mm) of a round bar or tube with collars."""
+    volume = math.pi / 4 * (outside**2 - inside**2) * length
+    largest = outside
+    for z0, z1, d in collars:
+        if d > outside:
+            volume += math.pi / 4 * (d**2 - outside**2) * (z1 - z0)
             largest = max(largest, d)
-    note = _tube_note(design, part)
-    if largest > part.outside:
-        collars = f"collars up to {u.text(largest)}: turn from larger stock"
-        note = f"{note}; {collars}" if note else collars
+    return volume, largest
+
+
+def _made_how(
+    design: Any, stock: float, largest: float, outside: float, u: Lengths = MM
+) -> str:
+    """How a turned part's stock is worked, in words (nothing when printed)."""
+    process = getattr(getattr(design, "process", None), "kind", "mill")
+    if process == "print":
+        return "printed"
+    if stock > 0 and largest > outside + 1e-9:
+        return f"turned from {u.stock(stock)} bar; shoulders up to {u.text(largest)}"
+    if stock > 0 and stock > outside + 1e-9:
+        return f"turned from {u.stock(stock)} bar"
+    return ""
+
+
+def _sleeve_row(design: Any, part: SleevePart, u: Lengths = MM) -> BillRow:
+    volume, largest = _turned_volume(
+        part.outside, part.inside, part.length, part.collars
+    )
+    notes = [n for n in (_tube_note(design, part),) if n]
+    how = _made_how(design, part.stock, largest, part.outside, u)
+    if how:
+        notes.append(how)
+    elif largest > part.outside:
+        notes.append(f"collars up to {u.text(largest)}: turn from larger stock")
     return BillRow(
         part=part.name,
         kind="sleeve",
@@ -242,23 +312,52 @@ def _sleeve_row(design: Any, part: SleevePart, u: Lengths = MM) -> BillRow:
         diameter=largest,
         length=part.length,
         volume=volume,
-        note=note,
+        note="; ".join(notes),
         bore=part.inside,
+        fits=fitted_diameters(part, u),
     )
 
 
-def _rod_row(part: ArborPart | PinPart) -> BillRow:
+def _rod_row(design: Any, part: ArborPart | PinPart, u: Lengths = MM) -> BillRow:
+    collars = part.collars if isinstance(part, ArborPart) else ()
+    volume, largest = _turned_volume(part.diameter, 0.0, part.length, collars)
+    stock = part.stock if isinstance(part, ArborPart) and part.stock > 0 else 0.0
     return BillRow(
         part=part.name,
         kind=part.kind,
         stock="rod",
         thickness=None,
-        stock_outside=part.diameter,
+        stock_outside=stock or part.diameter,
         stock_inside=None,
         quantity=1,
-        diameter=part.diameter,
+        diameter=largest,
         length=part.length,
-        volume=math.pi / 4 * part.diameter**2 * part.length,
+        volume=volume,
+        note=_made_how(design, stock, largest, part.diameter, u),
+        fits=fitted_diameters(part, u) if isinstance(part, ArborPart) else "",
+    )
+
+
+def _collar_row(design: Any, part: CollarPart, u: Lengths = MM) -> BillRow:
+    volume, _ = _turned_volume(part.outside, part.inside, part.length, ())
+    printed = getattr(getattr(design, "process", None), "kind", "mill") == "print"
+    return BillRow(
+        part=part.name,
+        kind="collar",
+        stock="rod",
+        thickness=None,
+        stock_outside=part.outside,
+        stock_inside=None,
+        quantity=1,
+        diameter=part.outside,
+        length=part.length,
+        volume=volume,
+        note=(
+            f"{'printed ' if printed else ''}collar on {part.member}, fixed with"
+            f" {part.fixing}"
+        ),
+        bore=part.inside,
+        fits=fitted_diameters(part, u),
     )
 
 
@@ -486,7 +585,9 @@ def bill_rows(design: Any, parts: Sequence[Any]) -> tuple[BillRow, ...]:
         elif isinstance(part, SleevePart):
             rows.append(_sleeve_row(design, part, u))
         elif isinstance(part, (ArborPart, PinPart)):
-            rows.append(_rod_row(part))
+            rows.append(_rod_row(design, part, u))
+        elif isinstance(part, CollarPart):
+            rows.append(_collar_row(design, part, u))
         elif isinstance(part, PlatePart):
             rows.append(_plate_row(part, u))
         elif isinstance(part, PillarPart):
@@ -540,6 +641,7 @@ def parts_csv(rows: Sequence[BillRow], lengths: Lengths = MM) -> str:
                 num(r.length),
                 volume_text(r.volume, lengths),
                 num(r.bore),
+                r.fits,
                 r.note,
             ]
         )
