@@ -24,6 +24,7 @@ from wheelgen.export.staging import UnsafeNameError  # noqa: E402
 from wheelgen.layout.part_plan import (  # noqa: E402
     BOUGHT_KINDS,
     FLAT_KINDS,
+    TURNED_KINDS,
     ArborPart,
     WheelPart,
 )
@@ -66,7 +67,7 @@ def test_every_part_gets_its_files(first, design):
         assert (f"step/{p.name}.step" in files) == made
         assert (f"stl/{p.name}.stl" in files) == made
         assert (f"3mf/{p.name}.3mf" in files) == made
-        planar = p.kind in FLAT_KINDS
+        planar = p.kind in FLAT_KINDS | TURNED_KINDS  # profiles, or 1:1 drawings
         assert (f"dxf/{p.name}.dxf" in files) == planar
         assert (f"svg/{p.name}.svg" in files) == planar
     assert "step/assembly.step" in files and "manifest.json" in files
@@ -74,6 +75,44 @@ def test_every_part_gets_its_files(first, design):
     for p in parts:
         assert f"PRODUCT('{p.name}'" in text
     assert result.built == len(parts) and result.reused == 0
+
+
+def test_turned_parts_get_their_drawing_at_true_size(first, design):
+    """Read back from the build: each arbor's SVG and DXF draw every length at its
+    diameter (the outline's top edge at radius r) from 0 to the part's length."""
+    import xml.etree.ElementTree as ET
+
+    import ezdxf
+
+    _, out, _, files = first
+    arbors = [p for p in plan_parts(design) if isinstance(p, ArborPart)]
+    assert arbors
+    ns = "{http://www.w3.org/2000/svg}"
+    for part in arbors:
+        root = ET.fromstring(files[f"svg/{part.name}.svg"])
+        assert root.get("width").endswith("mm")
+        group = next(g for g in root.iter(f"{ns}g") if g.get("id") == "outline")
+        svg_lines = [
+            tuple(float(e.get(k)) for k in ("x1", "y1", "x2", "y2"))
+            for e in group.iter(f"{ns}line")
+        ]
+        msp = ezdxf.readfile(out / f"dxf/{part.name}.dxf").modelspace()
+        dxf_lines = [
+            (e.dxf.start.x, e.dxf.start.y, e.dxf.end.x, e.dxf.end.y)
+            for e in msp.query("LINE")
+            if e.dxf.layer == "OUTLINE"
+        ]
+        assert part.sections, part.name
+        for s in part.sections:
+            r = s.diameter / 2
+            for lines, y in ((svg_lines, -r), (dxf_lines, r)):  # SVG's y runs down
+                assert any(
+                    abs(y0 - y) < 1e-3 and abs(y1 - y) < 1e-3
+                    and min(x0, x1) <= s.z0 + 1e-3 and max(x0, x1) >= s.z1 - 1e-3
+                    for x0, y0, x1, y1 in lines
+                ), (part.name, s)  # fmt: skip
+        xs = [x for x0, _, x1, _ in dxf_lines for x in (x0, x1)]
+        assert (min(xs), max(xs)) == pytest.approx((0.0, part.length), abs=1e-6)
 
 
 def test_manifest_lists_every_file_with_its_hash(first, design):
@@ -112,8 +151,10 @@ def test_manifest_gives_the_sizes_a_shop_receives(first, design):
     wheel = next(p for p in m["parts"] if p["name"] == "wheel_b")
     assert set(wheel["file_bytes"]) == {"step", "stl", "3mf", "dxf", "svg"}
     assert wheel["file_bytes"]["dxf"] == sizes["dxf/wheel_b.dxf"]
-    arbor = next(p for p in m["parts"] if p["kind"] != "wheel")
-    assert set(arbor["file_bytes"]) == {"step", "stl", "3mf"}
+    arbor = next(p for p in m["parts"] if p["kind"] == "arbor")
+    assert set(arbor["file_bytes"]) == {"step", "stl", "3mf", "dxf", "svg"}
+    pillar = next(p for p in m["parts"] if p["kind"] == "pillar")
+    assert set(pillar["file_bytes"]) == {"step", "stl", "3mf"}
     assert m["options"]["dxf_curves"] == "splines"
 
 

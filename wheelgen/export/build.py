@@ -35,8 +35,8 @@ from typing import Any
 
 from ..design.bounds import BOUNDS
 from ..design.names import name_key
-from ..design.units import UNITS
-from ..layout.part_plan import BOUGHT_KINDS, DISPLAY_KINDS, FLAT_KINDS
+from ..design.units import UNITS, Lengths
+from ..layout.part_plan import BOUGHT_KINDS, DISPLAY_KINDS, FLAT_KINDS, TURNED_KINDS
 from ..version import __version__
 from . import sheets
 from .cache import CacheUnusable, DamagedEntry, PartCache, cache_root_for, part_key
@@ -178,7 +178,7 @@ def part_file_names(part: Any, formats: Sequence[str]) -> list[tuple[str, str]]:
     for fmt in FORMATS:
         if fmt not in formats:
             continue
-        if fmt in PLANAR_FORMATS and part.kind not in FLAT_KINDS:
+        if fmt in PLANAR_FORMATS and part.kind not in FLAT_KINDS | TURNED_KINDS:
             continue
         out.append((fmt, f"{fmt}/{part.name}.{fmt}"))
     return out
@@ -273,7 +273,18 @@ def _face_pins(part: Any) -> list[tuple[float, float, float]]:
     return [(pin.radius * math.cos(a), pin.radius * math.sin(a), pin.diameter)]
 
 
+def _lengths(units: str) -> Lengths:
+    """The formatter of a build's units (``"mm"`` or ``"in"``)."""
+    return Lengths("in" if units == "in" else "mm")
+
+
 def _write_dxf(w: _PartWork, path: Path) -> None:
+    if w.part.kind in TURNED_KINDS:
+        from ..workshop.turned_drawing import turned_sheet
+        from .dxf import write_sheet_dxf
+
+        write_sheet_dxf(turned_sheet(w.part, _lengths(w.units)), path, w.units)
+        return
     if w.part.kind == "plate":
         from .dxf import write_plate_dxf
 
@@ -305,6 +316,12 @@ def _write_dxf(w: _PartWork, path: Path) -> None:
 
 
 def _write_svg(w: _PartWork, path: Path) -> None:
+    if w.part.kind in TURNED_KINDS:
+        from ..workshop.turned_drawing import sheet_svg, turned_sheet
+
+        sheet = turned_sheet(w.part, _lengths(w.units))
+        path.write_text(sheet_svg(sheet), encoding="utf-8", newline="\n")
+        return
     if w.part.kind == "plate":
         from .svg_template import write_plate_svg
 

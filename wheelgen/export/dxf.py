@@ -47,10 +47,12 @@ from ..layout.part_plan import PlatePart
 from ..layout.wheel_profile import Hole, PlateProfile
 from ..solids.spline_fit import SplineFit, fit_segments
 from ..teeth.outline import Segment, WheelOutline, circle_through
+from ..workshop.turned_drawing import SHEET_LAYERS, Sheet
 from .biarcs import biarc_segments
 from .formats import DXF_CURVES, MESH_TOLERANCE
 
 __all__ = [
+    "write_sheet_dxf",
     "Engraving",
     "FLAT_LAYERS",
     "HOLE_LAYERS",
@@ -402,4 +404,38 @@ def write_plate_dxf(part: PlatePart, path: Path, units: str = "mm") -> Path:
         attrs = {"layer": "CENTRES"}
         msp.add_line((h.x - c, h.y), (h.x + c, h.y), dxfattribs=attrs)
         msp.add_line((h.x, h.y - c), (h.x, h.y + c), dxfattribs=attrs)
+    return save_dxf(doc, path, units)
+
+
+_ALIGN = {
+    "start": TextEntityAlignment.LEFT,
+    "middle": TextEntityAlignment.CENTER,
+    "end": TextEntityAlignment.RIGHT,
+}
+
+
+def write_sheet_dxf(sheet: Sheet, path: Path, units: str = "mm") -> Path:
+    """Write a workshop drawing (an arbor's, a tube's or a collar's) as a DXF (R2010,
+    mm, 1:1): its lines, circles and texts on the layers of
+    :data:`wheelgen.workshop.turned_drawing.SHEET_LAYERS`. The same sheet gives the same
+    bytes. Drawn in inches when ``units`` is ``"in"`` (the figures are the sheet's:
+    :func:`~wheelgen.workshop.turned_drawing.turned_sheet` writes them in inches)."""
+    doc = dxf_document(sheet.name, SHEET_LAYERS)
+    doc.linetypes.add("DASHED", pattern=[2.0, 1.2, -0.8])
+    doc.linetypes.add("CENTER", pattern=[6.6, 4.0, -1.0, 0.6, -1.0])
+    doc.layers.get("HIDDEN").dxf.linetype = "DASHED"
+    doc.layers.get("CENTRE").dxf.linetype = "CENTER"
+    msp = doc.modelspace()
+    for x0, y0, x1, y1, layer in sheet.lines:
+        msp.add_line((x0, y0), (x1, y1), dxfattribs={"layer": layer})
+    for x, y, r, layer in sheet.circles:
+        msp.add_circle((x, y), r, dxfattribs={"layer": layer})
+    for t in sheet.texts:
+        entity = msp.add_text(
+            t.text,
+            height=t.height,
+            rotation=t.rotation_deg,
+            dxfattribs={"layer": t.layer},
+        )
+        entity.set_placement((t.x, t.y), align=_ALIGN[t.anchor])
     return save_dxf(doc, path, units)

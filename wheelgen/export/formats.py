@@ -10,7 +10,8 @@ __all__ = ["DXF_CURVES", "FORMATS", "MESH_TOLERANCE", "PLANAR_FORMATS"]
 
 #: Every export format, in the order files are written.
 FORMATS: tuple[str, ...] = ("step", "stl", "3mf", "dxf", "svg")
-#: Formats that only flat parts (wheels, plates, hands, dials, crank arms) get.
+#: Formats that only flat parts (wheels, plates, hands, dials, crank arms) get as their
+#: profile, and turned parts (arbors, tubes, collars) as their dimensioned 1:1 drawing.
 PLANAR_FORMATS = frozenset({"dxf", "svg"})
 #: How DXF files may draw curves: B-splines (control and fit points), or lines and
 #: arcs only (see :mod:`wheelgen.export.dxf`).

@@ -152,7 +152,8 @@ class ArborPart:
     drilled for a cross pin, or milled square or filed flat for a hand, knob or crank
     (mm, in the part's frame); ``collars`` (z_from, z_to, diameter) the shoulders
     turned on it. ``sections`` describe every length as made (its role and fit),
-    ``stock`` is the bar it is turned from (mm; 0: not worked out).
+    ``stock`` is the bar it is turned from (mm; 0: not worked out); ``notes`` say how
+    its wheels and collars are fixed and what sets its end shake.
     """
 
     name: str
@@ -164,6 +165,7 @@ class ArborPart:
     collars: tuple[tuple[float, float, float], ...] = ()
     sections: tuple[TurnedSection, ...] = ()
     stock: float = 0.0
+    notes: tuple[str, ...] = ()
 
 
 @dataclass(frozen=True, slots=True)
@@ -173,7 +175,8 @@ class SleevePart:
 
     ``sections`` describe every length of the outside as made; the bore's ISO 286
     limits are ``bore_zone``, ``bore_low`` and ``bore_high`` (mm; no zone when
-    printed); ``stock`` is the bar or tube it is turned from (0: not worked out).
+    printed); ``stock`` is the bar or tube it is turned from (0: not worked out);
+    ``notes`` say how its wheels are fixed.
     """
 
     name: str
@@ -189,6 +192,7 @@ class SleevePart:
     bore_low: float = 0.0
     bore_high: float = 0.0
     stock: float = 0.0
+    notes: tuple[str, ...] = ()
 
 
 @dataclass(frozen=True, slots=True)

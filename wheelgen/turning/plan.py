@@ -610,6 +610,7 @@ def _make(
         replace(s, gap=round(s.gap, 6)) if math.isfinite(s.gap) else s for s in stops
     ]
     stops = [_rename(s, names) for s in stops]
+    made = replace(made, notes=_part_notes(design, seats, stops, shake_total, notes))
     info = TurnedMember(
         part.name,
         round(z0, 6),
@@ -622,6 +623,34 @@ def _make(
         tuple(notes),
     )
     return made, collar_parts, info
+
+
+def _part_notes(
+    design: Design,
+    seats: list[_Span],
+    stops: list[Stop],
+    shake: float | None,
+    notes: list[str],
+) -> tuple[str, ...]:
+    """What the maker must know, in words: each wheel's fixing and stop, the end shake."""
+    out = []
+    shapes = {w.what: w.shape for w in seats}
+    by = {s.holds: s for s in stops}
+    for wheel, shape in shapes.items():
+        stop = by.get(wheel)
+        where = ""
+        if stop is not None and math.isfinite(stop.gap):
+            where = (
+                ", flush with the end"
+                if stop.what == "flush with the end"
+                else f", pushed against {stop.what}"
+            )
+        out.append(f"{wheel}: fixed with {fixing(design.process, shape)}{where}")
+    if shake is not None:
+        fwd, back = by.get("forward"), by.get("back")
+        parts = [f"{s.what} ({s.gap:.2f} mm)" for s in (fwd, back) if s is not None]
+        out.append(f"end shake {shake:.2f} mm: " + "; ".join(parts))
+    return tuple(out + notes)
 
 
 def _rename(stop: Stop, names: dict[tuple[float, float], str]) -> Stop:
