@@ -20,6 +20,7 @@ SheetWriter = Callable[[Any, Sequence[Any], Sequence[Any], Path], list[Path]]
 
 from ..workshop.cutting import cutting_sheet_writer  # noqa: E402  (after the type alias)
 from ..workshop.drilling import drilling_sheet_writer  # noqa: E402
+from ..workshop.elevation import elevation_writer  # noqa: E402
 from ..workshop.parts_bill import parts_sheet_writer  # noqa: E402
 from ..workshop.report import report_writer  # noqa: E402
 
@@ -28,5 +29,6 @@ SHEET_WRITERS: tuple[SheetWriter, ...] = (
     cutting_sheet_writer,
     parts_sheet_writer,
     drilling_sheet_writer,
+    elevation_writer,
     report_writer,
 )

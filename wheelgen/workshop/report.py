@@ -3,9 +3,9 @@
 Everything is inside the file: drawings are inline SVG, plots are SVG data URIs, the
 stylesheet is our own and short; there is no script, no web font and no link out, so
 the page opens from a USB stick in a classroom and prints on plain paper. Sections:
-title and job, layout drawing, train diagram with every arbor's period, findings,
-target verdicts, uneven motion plots, each mesh's transmission error over one
-tooth pitch, the animated preview, parts (a drawing each and
+title and job, layout drawing, sectional elevation, train diagram with every arbor's
+period, findings, target verdicts, uneven motion plots, each mesh's transmission error
+over one tooth pitch, the animated preview, parts (a drawing each and
 the bill), the cutting sheet, the drilling chart, and the build's files with their
 sizes. The page is written from the numbers (the same functions that write
 ``cutting.csv`` and ``parts.csv``), never by reading those files back; of the other
@@ -36,6 +36,7 @@ from ..version import __version__
 from .cutting import CuttingRow, cutting_rows, indexing_text, pitch_text
 from .dial_preview import dials_svg
 from .drilling import chart_holes, drilling_svg
+from .elevation import elevation_svg
 from .file_sizes import file_format, list_files, part_file, size_summary, size_text
 from .layout_drawing import layout_svg
 from .motion_plot import motion_plot_svg
@@ -95,6 +96,7 @@ nav ol { columns: 2; font-size: 0.92em; }
 
 _SECTIONS = (
     ("layout", "Layout"),
+    ("elevation", "Sectional elevation"),
     ("train", "Train"),
     ("findings", "Findings"),
     ("targets", "Targets"),
@@ -106,6 +108,11 @@ _SECTIONS = (
     ("drilling", "Drilling chart"),
     ("files", "Files and sizes"),
 )
+
+
+def _drawing(svg: str) -> str:
+    """An SVG document as an inline drawing that scales to the page."""
+    return svg.replace("<svg ", '<svg class="drawing" ', 1)
 
 
 def _e(text: object) -> str:
@@ -628,6 +635,16 @@ def report_html(
             "cocks (tan bars), pitch circles in their arbor's colour (dashed: fixed), "
             "meshes as dashed lines between centres with a dot at the pitch point, "
             "pin-and-slot couplings in red.</figcaption></figure>"
+        ),
+        "elevation": (
+            f'<figure><div class="wide">{_drawing(elevation_svg(parts))}</div>'
+            "<figcaption>Seen from the side and cut through the axes, heights (z, mm) "
+            "true and up the page, the back of the movement at the bottom: each "
+            "axis at its true distance from the one before it, taken across the "
+            "plates from left to right (a developed section). Every part is named "
+            "with the heights it spans; wheels are drawn to their tip diameter, "
+            "arbors and tubes with every turned length. The same drawing at 1:1 is "
+            "drawings/elevation.svg.</figcaption></figure>"
         ),
         "train": (
             f'<figure><div class="wide">{train_diagram_svg(design, solution)}</div>'
