@@ -22,7 +22,6 @@ import pytest
 
 from tests._demo import DEMO_TEXT
 from wheelgen.design import loads_design
-from wheelgen.frame import plan_parts
 from wheelgen.layout.part_plan import (
     ArborPart,
     CollarPart,
@@ -32,6 +31,7 @@ from wheelgen.layout.part_plan import (
     SleevePart,
     WheelPart,
 )
+from wheelgen.parts import plan_parts
 from wheelgen.workshop.elevation import elevation_svg, elevation_writer
 
 NS = "{http://www.w3.org/2000/svg}"

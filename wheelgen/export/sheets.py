@@ -18,6 +18,7 @@ __all__ = ["SheetWriter", "SHEET_WRITERS"]
 
 SheetWriter = Callable[[Any, Sequence[Any], Sequence[Any], Path], list[Path]]
 
+from ..workshop.assembly import assembly_writer  # noqa: E402
 from ..workshop.cutting import cutting_sheet_writer  # noqa: E402  (after the type alias)
 from ..workshop.drilling import drilling_sheet_writer  # noqa: E402
 from ..workshop.elevation import elevation_writer  # noqa: E402
@@ -30,5 +31,6 @@ SHEET_WRITERS: tuple[SheetWriter, ...] = (
     parts_sheet_writer,
     drilling_sheet_writer,
     elevation_writer,
+    assembly_writer,
     report_writer,
 )

@@ -21,7 +21,7 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 from pathlib import Path
-from typing import Any, Sequence
+from typing import Any, Collection, Sequence
 
 from ..layout.part_plan import (
     ArborPart,
@@ -59,8 +59,8 @@ ELEVATION_KINDS = frozenset(
 
 _SAME_AXIS = 1e-6  # mm: two placements this close stand on one axis
 _PLATE_OVERHANG = 4.0  # mm past the outermost part
-_TEXT = 2.2  # mm: label height
-_GAP = 2.9  # mm between label lines
+_TEXT = 2.5  # mm: label height
+_GAP = 3.2  # mm between label lines
 
 # Fill and edge of each kind: muted, readable in grey.
 _STYLE = {
@@ -163,9 +163,12 @@ def _shape(part: Part) -> list[tuple[float, float, float, float]]:
     return []
 
 
-def elevation_blocks(parts: Sequence[Part]) -> tuple[list[Column], list[Block]]:
+def elevation_blocks(
+    parts: Sequence[Part], only: Collection[str] | None = None
+) -> tuple[list[Column], list[Block]]:
     """The developed section's axes and rectangles, in painting order (see the module
-    docstring); plates span every other block and a little more."""
+    docstring); plates span every other block and a little more. ``only``: draw just
+    these parts, where they stand among all of ``parts``."""
     columns = _columns(parts)
     if not columns:
         return [], []
@@ -190,6 +193,9 @@ def elevation_blocks(parts: Sequence[Part]) -> tuple[list[Column], list[Block]]:
     # tubes outside in: the outer one first, so the one inside is painted over it
     wide = {b.part: -(b.x1 - b.x0) for b in blocks if b.kind in ("sleeve", "arbor")}
     blocks.sort(key=lambda b: (rank[b.kind], wide.get(b.part, 0.0)))
+    if only is not None:
+        keep = set(only)
+        blocks = [b for b in blocks if b.part in keep]
     return columns, blocks
 
 
@@ -228,26 +234,30 @@ def _spread(wanted: list[float]) -> list[float]:
 def elevation_svg(
     parts: Sequence[Part],
     *,
-    highlight: str | None = None,
+    only: Collection[str] | None = None,
+    highlight: Collection[str] | None = None,
     labels: bool = True,
     title: str = "",
 ) -> str:
     """The sectional elevation as an SVG document (1 user unit = 1 mm, page in mm).
 
     Every drawn part is a group ``<g data-part=name data-kind=kind>`` of rectangles;
-    ``highlight`` draws one part in a strong colour (the assembly figures);
-    ``labels`` adds a name and height range beside each part and a height scale.
+    ``only`` draws just those parts in their places, ``highlight`` draws those in a
+    strong colour and the rest in grey (the assembly figures); ``labels`` adds a name
+    and height range beside each part and a height scale.
     """
-    columns, blocks = elevation_blocks(parts)
-    if not blocks:
+    columns, everything = elevation_blocks(parts)
+    _, blocks = elevation_blocks(parts, only)
+    if not everything:
         return (
             '<svg xmlns="http://www.w3.org/2000/svg" width="10mm" height="10mm" '
             'viewBox="0 0 10 10"/>\n'
         )
-    x_lo = min(b.x0 for b in blocks)
-    x_hi = max(b.x1 for b in blocks)
-    z_lo = min(b.z0 for b in blocks)
-    z_hi = max(b.z1 for b in blocks)
+    # the page is the whole movement's, whatever is drawn on it
+    x_lo = min(b.x0 for b in everything)
+    x_hi = max(b.x1 for b in everything)
+    z_lo = min(b.z0 for b in everything)
+    z_hi = max(b.z1 for b in everything)
     body: list[str] = []
     # the axes
     for c in columns:
@@ -263,7 +273,7 @@ def elevation_svg(
                 body.append("</g>")
             fill, edge = _STYLE[b.kind]
             if highlight is not None:
-                fill, edge = ("#d9452b", "#7a1d0f") if b.part == highlight else (
+                fill, edge = ("#d9452b", "#7a1d0f") if b.part in highlight else (
                     "#e4e4e4", "#9a9a9a")  # fmt: skip
             body.append(
                 f'<g data-part="{esc(b.part)}" data-kind="{b.kind}" fill="{fill}" '
@@ -274,7 +284,8 @@ def elevation_svg(
             f'<rect x="{fmt(b.x0)}" y="{fmt(-b.z1)}" width="{fmt(b.x1 - b.x0)}" '
             f'height="{fmt(b.z1 - b.z0)}"/>'
         )
-    body.append("</g>")
+    if blocks:
+        body.append("</g>")
     left_w = right_w = 2.0
     if labels:
         mid = (x_lo + x_hi) / 2

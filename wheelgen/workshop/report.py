@@ -5,8 +5,8 @@ stylesheet is our own and short; there is no script, no web font and no link out
 the page opens from a USB stick in a classroom and prints on plain paper. Sections:
 title and job, layout drawing, sectional elevation, train diagram with every arbor's
 period, findings, target verdicts, uneven motion plots, each mesh's transmission error
-over one tooth pitch, the animated preview, parts (a drawing each and
-the bill), the cutting sheet, the drilling chart, and the build's files with their
+over one tooth pitch, the animated preview, parts (a drawing each and the bill), the
+cutting sheet, the drilling chart, the assembly steps, and the build's files with their
 sizes. The page is written from the numbers (the same functions that write
 ``cutting.csv`` and ``parts.csv``), never by reading those files back; of the other
 files only their sizes are read.
@@ -33,6 +33,7 @@ from ..kinematics.targets import (
 )
 from ..layout.placement import arbor_positions
 from ..version import __version__
+from .assembly import ASSEMBLY_FILE, assembly_steps
 from .cutting import CuttingRow, cutting_rows, indexing_text, pitch_text
 from .dial_preview import dials_svg
 from .drilling import chart_holes, drilling_svg
@@ -82,6 +83,11 @@ svg.drawing { width: 100%; height: auto; max-height: 75vh; border: 1px solid #cc
 img.plot { width: 100%; max-width: 40em; }
 .chart svg { width: 100%; height: auto; max-height: 75vh; border: 1px solid #ccc; }
 .wide { overflow-x: auto; }
+ol.steps { padding-left: 0; list-style: none; display: flex; flex-wrap: wrap;
+           gap: 0.6em; }
+ol.steps li { width: 19em; page-break-inside: avoid; break-inside: avoid; }
+ol.steps svg { width: 100%; height: auto; border: 1px solid #ddd; }
+ol.steps .n { font-weight: bold; color: #1f5f8b; }
 svg.train { width: auto; max-width: none; max-height: none; }
 nav ol { columns: 2; font-size: 0.92em; }
 @media print {
@@ -106,13 +112,21 @@ _SECTIONS = (
     ("parts", "Parts"),
     ("cutting", "Cutting sheet"),
     ("drilling", "Drilling chart"),
+    ("assembly", "Assembly"),
     ("files", "Files and sizes"),
 )
 
 
-def _drawing(svg: str) -> str:
-    """An SVG document as an inline drawing that scales to the page."""
-    return svg.replace("<svg ", '<svg class="drawing" ', 1)
+def _at_scale(svg: str, px_per_mm: float) -> str:
+    """An SVG document drawn in millimetres, inline at ``px_per_mm`` (wider than the
+    page it scrolls, so that its small print stays readable)."""
+    head, rest = svg.split(">", 1)
+    for key in ("width", "height"):
+        start = head.index(f'{key}="') + len(key) + 2
+        end = head.index('"', start)
+        mm = float(head[start:end].removesuffix("mm"))
+        head = f"{head[:start]}{mm * px_per_mm:.0f}{head[end:]}"
+    return head + ">" + rest
 
 
 def _e(text: object) -> str:
@@ -564,6 +578,32 @@ def _drilling(design: Design, unchecked: bool) -> str:
     return "".join(out)
 
 
+def _assembly(design: Design, parts: Sequence[Any]) -> str:
+    """Every step of assembly.csv, numbered, each with the elevation of what it is
+    fitted into so far and the part it fits drawn in red."""
+    items = []
+    for st in assembly_steps(design, parts):
+        fig = elevation_svg(parts, only=st.shown, highlight=st.group, labels=False)
+        onto = f" onto <b>{_e(st.onto)}</b>" if st.onto else ""
+        note = f"<br>{_e(st.note)}" if st.note else ""
+        items.append(
+            f'<li><figure>{fig}<figcaption><span class="n">{st.number}.</span> '
+            f"<b>{_e(st.part)}</b>: {_e(st.action)}{onto}{note}</figcaption>"
+            "</figure></li>"
+        )
+    return (
+        "<p>The order in which the parts go together, worked out from their heights "
+        "and sizes so that no part is ever pushed over one already in place that is "
+        "larger than its bore. The back plate lies on the bench, inner face up: "
+        "<i>from the front</i> is from above, <i>from the back</i> from below. An "
+        "arbor is made up off the movement with what it carries and then put in; the "
+        "front plate is made up with whatever it alone holds and lowered on last. "
+        "Each figure is the sectional elevation of what the part is fitted into, the "
+        f"part in red. The same steps are in {_e(ASSEMBLY_FILE)}.</p>"
+        f'<ol class="steps">{"".join(items)}</ol>'
+    )
+
+
 def _files(parts: Sequence[Any], files: Sequence[tuple[str, int]] | None) -> str:
     if files is None:
         return "<p>The files are listed when <code>wheelgen build</code> writes the report.</p>"
@@ -637,7 +677,7 @@ def report_html(
             "pin-and-slot couplings in red.</figcaption></figure>"
         ),
         "elevation": (
-            f'<figure><div class="wide">{_drawing(elevation_svg(parts))}</div>'
+            f'<figure><div class="wide">{_at_scale(elevation_svg(parts), 4.0)}</div>'
             "<figcaption>Seen from the side and cut through the axes, heights (z, mm) "
             "true and up the page, the back of the movement at the bottom: each "
             "axis at its true distance from the one before it, taken across the "
@@ -661,6 +701,7 @@ def report_html(
         "parts": _parts(parts, bill, u),
         "cutting": _cutting(cutting, u),
         "drilling": _drilling(design, has_errors(findings)),
+        "assembly": _assembly(design, parts),
         "files": _files(parts, files),
     }
     sections = "".join(
