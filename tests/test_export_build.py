@@ -115,6 +115,22 @@ def test_turned_parts_get_their_drawing_at_true_size(first, design):
         assert (min(xs), max(xs)) == pytest.approx((0.0, part.length), abs=1e-6)
 
 
+def test_assembly_order_names_every_part_of_the_assembly_once(first, design):
+    """assembly.csv against the written assembly.step: each product in one step."""
+    import csv
+    import io
+    import re
+
+    _, _, _, files = first
+    step = files["step/assembly.step"].decode("latin-1")
+    products = set(re.findall(r"PRODUCT\('([^']+)'", step))
+    rows = list(csv.DictReader(io.StringIO(files["assembly.csv"].decode("utf-8"))))
+    named = [r["part"] for r in rows]
+    assert len(named) == len(set(named))
+    assert set(named) == products - {design.name}  # the root product: the design
+    assert "drawings/elevation.svg" in files
+
+
 def test_manifest_lists_every_file_with_its_hash(first, design):
     _, out, _, files = first
     m = json.loads(files["manifest.json"])
