@@ -248,6 +248,11 @@ def elevation_svg(
     """
     columns, everything = elevation_blocks(parts)
     _, blocks = elevation_blocks(parts, only)
+    if highlight is not None:  # what is being fitted on top, so it shows whole
+        lit = set(highlight)
+        blocks = [b for b in blocks if b.part not in lit] + [
+            b for b in blocks if b.part in lit
+        ]
     if not everything:
         return (
             '<svg xmlns="http://www.w3.org/2000/svg" width="10mm" height="10mm" '
