@@ -132,9 +132,13 @@ def build_command(
     (every part in place, with the screws and any bushes or bearings), stl/ and 3mf/
     meshes lying on z = 0, dxf/ and svg/ 1:1 drawings of every wheel, plate, hand
     and crank arm (a dial's svg is its face to print and glue on, its dxf has the
-    graduations on the ENGRAVE layer), the workshop sheets (cutting.csv: cutter, indexing and inspection sizes of every
+    graduations on the ENGRAVE layer) and the dimensioned 1:1 drawing of every
+    arbor, tube and collar, the workshop sheets (cutting.csv: cutter, indexing and inspection sizes of every
     wheel; parts.csv: bill of parts with screws; drilling/<plate>.csv and .svg: the
-    outline and every hole's position from the drive arbor), report.html (one page
+    outline and every hole's position from the drive arbor;
+    drawings/elevation.svg: the sectional elevation, every part at its true
+    heights; assembly.csv: the order in which the parts go together), report.html
+    (one page
     with drawings, findings, motion, an animated preview and the size of every
     file), and manifest.json with the SHA-256 and size of each file. DXF files hold
     the outline, bore, windows, slots, pin holes and holes for carried arbors as cut
