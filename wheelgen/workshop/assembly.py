@@ -447,7 +447,9 @@ class _Planner:
     def _in(self, unit: str) -> list[str]:
         return [p for p, u in self.placed.items() if u == unit]
 
-    def _side(self, moving: Sequence[str], unit: str) -> tuple[str | None, list]:
+    def _side(
+        self, moving: Sequence[str], unit: str
+    ) -> tuple[str | None, list[tuple[str, str]]]:
         """The side from which ``moving`` goes clear into ``unit``; else the pairs
         that meet from the better side."""
         fixed = self._in(unit)
@@ -527,7 +529,7 @@ class _Planner:
         part = self.shop.parts[member]
         for n in getattr(part, "notes", ()):
             if n.startswith(f"{wheel}: "):
-                return n.removeprefix(f"{wheel}: ")
+                return str(n).removeprefix(f"{wheel}: ")
         return ""
 
     def _put_in(
@@ -631,14 +633,21 @@ class _Planner:
         by_kind: dict[str, list[Part]] = {}
         for p in self.parts:
             by_kind.setdefault(p.kind, []).append(p)
-        plates = sorted(by_kind.get("plate", []), key=lambda p: p.placement.z)
+        plates = sorted(
+            (p for p in self.parts if isinstance(p, PlatePart)),
+            key=lambda p: p.placement.z,
+        )
         pillars = [p.name for p in by_kind.get("pillar", [])]
         back = plates[0].name if plates else ""
         front = plates[-1].name if len(plates) > 1 else ""
         cock_plate = {
-            c.name: self._plate_of(c, plates) for c in by_kind.get("cock", [])
+            c.name: self._plate_of(c, plates)
+            for c in self.parts
+            if isinstance(c, CockPart)
         }
-        screws = {s.name: self._screwed(s) for s in by_kind.get("screw", [])}
+        screws = {
+            s.name: self._screwed(s) for s in self.parts if isinstance(s, ScrewPart)
+        }
         front_side = {front} if front else set()
         front_side |= {c for c, pl in cock_plate.items() if pl == front and front}
         members = sorted(

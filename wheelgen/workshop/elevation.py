@@ -298,7 +298,7 @@ def elevation_svg(
         for side in (True, False):
             mine = sorted((a for a in found if a[3] == side), key=lambda a: a[2])
             width = max((0.6 * _TEXT * len(t) for t, *_ in mine), default=0.0) + 8.0
-            edge = x_lo - width if side else x_hi + width
+            rim = x_lo - width if side else x_hi + width
             ys = _spread([a[2] for a in mine])
             for (text, ax, az, _), ly in zip(mine, ys):
                 tx = x_lo - 6.0 if side else x_hi + 6.0
@@ -314,9 +314,9 @@ def elevation_svg(
                     f'font-size="{fmt(_TEXT)}" text-anchor="{anchor}">{esc(text)}</text>'
                 )
             if side:
-                left_w = x_lo - edge
+                left_w = x_lo - rim
             else:
-                right_w = edge - x_hi
+                right_w = rim - x_hi
             if mine:
                 z_lo = min(z_lo, ys[0] - _TEXT)
                 z_hi = max(z_hi, ys[-1] + _TEXT)
