@@ -231,12 +231,21 @@ def test_the_file_has_its_columns(demo) -> None:
     assert [int(r["step"]) for r in rows] == list(range(1, len(rows) + 1))
 
 
-@pytest.mark.parametrize("which", ["demo", "two_stage"])
+@pytest.mark.parametrize(
+    "which",
+    [
+        "demo",
+        "two_stage.toml",
+        # tubes nested three deep on a fixed stud whose wheel is at the front: the
+        # tubes go on before that wheel
+        "layout/epicyclic_nested.toml",
+    ],
+)
 def test_every_part_once_and_never_over_a_larger_one(demo, which: str) -> None:
     if which == "demo":
         design, parts, text = demo
     else:
-        design = load_design(TWO_STAGE)
+        design = load_design(DATA / which)
         parts = plan_parts(design)
         text = assembly_csv(design, parts)
     assert replay(design, parts, text) == []

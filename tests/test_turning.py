@@ -19,7 +19,7 @@ from pathlib import Path
 import pytest
 
 from tests._demo import DEMO_TEXT
-from wheelgen.design import loads_design
+from wheelgen.design import load_design, loads_design
 from wheelgen.layout.part_plan import ArborPart, CollarPart, SleevePart, WheelPart
 from wheelgen.parts import plan_parts
 from wheelgen.turning import turned_members
@@ -269,3 +269,19 @@ def test_moving_a_wheel_moves_the_shoulder() -> None:
         ((a, b, _),) = lay.collars
         z = lay.placement.z
         assert (a + z, b + z) == pytest.approx((5.0, height))
+
+
+def test_no_tube_lies_between_two_turned_stops() -> None:
+    """A tube slides onto its member from one end: a stop turned on the member at
+    both ends of it would keep it off (derived). Tubes nested three deep on a stud."""
+    design = load_design(DATA / "layout" / "epicyclic_nested.toml")
+    for part in plan_parts(design):
+        if not isinstance(part, (ArborPart, SleevePart)):
+            continue
+        turned = [s for s in part.sections if s.role in ("shoulder", "collar")]
+        for s in part.sections:
+            if s.role != "under":
+                continue
+            below = any(t.z1 <= s.z0 + 1e-6 for t in turned)
+            above = any(t.z0 >= s.z1 - 1e-6 for t in turned)
+            assert not (below and above), (part.name, s.what)

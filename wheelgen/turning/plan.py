@@ -16,8 +16,8 @@ works out how it is made and held along its axis. For every member:
    nothing passes over it (no tube, no bearing) and where it keeps
    :data:`~wheelgen.turning.limits.STOP_CLEARANCE` from every body of another axis,
    every frame part and the display; a gap between two wheels is preferred, then a
-   gap beside a wheel and a tube, then beside a wheel and a plate. A wheel never lies
-   between two turned stops (it could not be put on).
+   gap beside a wheel and a tube, then beside a wheel and a plate. A wheel or a tube
+   turning on the member never lies between two turned stops (it could not be put on).
 3. **Collars.** Every other wheel is pushed against a neighbour within 0.2 mm, or
    stands flush with the member's end, or gets a collar (a ring fixed on the member)
    beside it, the gap filled when it is short. Then the end shake: an arbor must be
@@ -404,6 +404,7 @@ def _make(
     stops: list[Stop] = []
     seats = [s for s in spans if s.kind == "seat"]
     turned = [s for s in spans if s.kind == "collar"]  # a tube's thrust collars
+    unders = [s for s in spans if s.kind == "under"]  # the tubes that turn on it
 
     def free(a: float, b: float) -> bool:
         if b - a < _TOL:
@@ -446,7 +447,7 @@ def _make(
         )  # fmt: skip
         if rank == 9 or b - a < _SHORTEST or not fits(a, b):
             continue
-        if _traps(seats, turned, a, b):
+        if _traps(seats + unders, turned, a, b):
             continue
         dia = big
         for t in turned:
@@ -681,7 +682,8 @@ def _gaps(
 
 
 def _traps(seats: list[_Span], turned: list[_Span], a: float, b: float) -> bool:
-    """Would a shoulder from ``a`` to ``b`` leave a wheel between two turned stops?"""
+    """Would a shoulder from ``a`` to ``b`` leave a wheel (or a tube turning on the
+    member) between two turned stops, where it could not be put on?"""
     fixed = [(s.z0, s.z1) for s in turned] + [(a, b)]
     for w in seats:
         below = any(f1 <= w.z0 + _TOL for _, f1 in fixed)

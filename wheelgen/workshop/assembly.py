@@ -373,6 +373,7 @@ class _Planner:
         self.placed: dict[str, str] = {}  # part -> the unit it is in ("" movement)
         self.members = {p.name for p in parts if isinstance(p, (ArborPart, SleevePart))}
         self.kids = self._kids()
+        self._nest_tubes()
         #: parts left off until the members named are in
         self.waiting: dict[str, set[str]] = {}
 
@@ -402,6 +403,30 @@ class _Planner:
             if a.carrier is not None and a.name in out and a.carrier in wheel_of:
                 out[wheel_of[a.carrier]].append(a.name)
         return out
+
+    def _nest_tubes(self) -> None:
+        """A tube that cannot slide on from the front over what its member carries (a
+        shoulder or wheel at the member's front end) but can from the back is made up
+        onto its member off the movement, before the member goes in."""
+        arbors = {a.name: a for a in self.design.arbors}
+        tubes = [
+            a.name
+            for a in self.design.arbors
+            if a.around is not None and a.name in self.members and a.around in self.kids
+        ]
+        # inner tubes first, so that an outer one meets its member as made up
+        tubes.sort(key=lambda t: len(self.design.inner_members(t)))
+        for t in tubes:
+            member = arbors[t].around
+            assert member is not None
+            if any(t in ks for ks in self.kids.values()):
+                continue  # carried
+            mine = self._group(t, set())
+            theirs = [g for g in self._group(member, set()) if g not in mine]
+            if self.shop.blocking(mine, theirs, FRONT) and not self.shop.blocking(
+                mine, theirs, BACK
+            ):
+                self.kids[member].append(t)
 
     def _pin_wheel(self, pin: PinPart) -> str | None:
         for p in self.parts:
@@ -566,7 +591,7 @@ class _Planner:
             for way in (FRONT, BACK):
                 if self.shop.blocking(gu, fixed, way):
                     continue
-                mine = self._group(member, skip)
+                mine = self._group(member, set())  # all it carries, left off or not
                 stop = {f for _, f in self.shop.blocking(gu, mine, way)}
                 if stop and not stop & self.members:
                     skip |= stop
