@@ -108,9 +108,13 @@ def test_the_parts_sheet_gives_inch_stock_with_fractions(inch):
         r["part"]: r
         for r in _rows(parts_csv(bill_rows(inch, plan_parts(inch)), _u(inch)))
     }
-    assert rows["centre"]["stock_size"] == "rod 0.125 in (1/8)"
-    assert rows["centre"]["stock_outside_in"] == "0.1250"
-    assert rows["lay"]["stock_size"] == "rod 0.0938 in (3/32)"
+    # the arbors are turned with a shoulder from bar bought in 32nds of an inch
+    # (derived: the 1/8 in centre's 0.189 in shoulder plus 0.5 mm turning allowance
+    # is 0.2087 in, next 32nd up 7/32; the 3/32 in lay's 0.1417 in shoulder: 3/16)
+    assert rows["centre"]["stock_size"] == "rod 0.2188 in (7/32)"
+    assert rows["centre"]["stock_outside_in"] == "0.2188"
+    assert "shoulders up to 0.189 in" in rows["centre"]["note"]
+    assert rows["lay"]["stock_size"] == "rod 0.1875 in (3/16)"
     assert rows["back_plate"]["stock_size"] == "sheet 0.0938 in (3/32)"
     # the stock tube of the list, 3/16 x 0.1252 in, runs on the 1/8 in centre arbor
     assert rows["hour"]["stock_size"] == "tube 0.1875 in (3/16) x 0.1252 in"

@@ -31,6 +31,7 @@ __all__ = [
     "END_SHAKE",
     "STOP_CLEARANCE",
     "STOCK_STEP",
+    "STOCK_STEP_INCH",
     "collar_length",
     "end_shake",
     "fixing",
@@ -49,6 +50,8 @@ STOP_CLEARANCE = 0.5
 #: mm: bar and tube for turning are bought in these steps of diameter (common
 #: practice, no source).
 STOCK_STEP = 0.5
+#: mm: in an inch workshop bar comes in 32nds of an inch (common practice, no source).
+STOCK_STEP_INCH = 25.4 / 32
 # mm of material a turner takes off the bar's skin (common practice, no source)
 _TURNING_ALLOWANCE = 0.5
 
@@ -98,9 +101,11 @@ def shaft_limits(size: float, zone: str) -> tuple[float, float]:
     return round(size + lower / 1000, 6), round(size + upper / 1000, 6)
 
 
-def stock_diameter(largest: float) -> float:
-    """Bar (mm) to turn a member whose largest diameter is ``largest`` from."""
-    return round_up(largest + _TURNING_ALLOWANCE, STOCK_STEP)
+def stock_diameter(largest: float, units: str = "mm") -> float:
+    """Bar (mm) to turn a member whose largest diameter is ``largest`` from: the next
+    size up in the workshop's steps (32nds of an inch in a design in inches)."""
+    step = STOCK_STEP_INCH if units == "in" else STOCK_STEP
+    return round_up(largest + _TURNING_ALLOWANCE, step)
 
 
 def fixing(process: Process, shape: str = "round") -> str:

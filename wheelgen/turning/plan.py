@@ -565,7 +565,9 @@ def _make(
             seats=tuple(sorted(seats_rel + wheel_seats)),
             collars=new_collars,
             sections=sections,
-            stock=0.0 if proc.kind == "print" else stock_diameter(largest),
+            stock=0.0
+            if proc.kind == "print"
+            else stock_diameter(largest, design.units),
         )
     else:
         size = layout.sizes.get(part.name)
@@ -581,7 +583,9 @@ def _make(
             bore_zone=bore.zone,
             bore_low=bore.low,
             bore_high=bore.high,
-            stock=0.0 if proc.kind == "print" or tube else stock_diameter(largest),
+            stock=0.0
+            if proc.kind == "print" or tube
+            else stock_diameter(largest, design.units),
         )
 
     def named(s: _Span | None) -> str:
