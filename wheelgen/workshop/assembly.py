@@ -202,12 +202,11 @@ def rings(part: Part) -> tuple[Ring, ...]:
         bore = part.across / 2 + part.clearance
         shape = part.seat if part.seat != "collet" else "round"
         return (Ring(n, at, z, z + part.length, bore, part.diameter / 2, shape),)
-    if isinstance(part, CrankPart):
-        bore = part.across / 2 + part.clearance
-        shape = part.seat if part.seat != "collet" else "round"
-        reach = part.throw + part.arm / 2
-        return (Ring(n, at, z, z + part.thickness, bore, reach, shape),)
-    return ()
+    # the last kind of part: a crank, its arm swept round as a disc
+    bore = part.across / 2 + part.clearance
+    shape = part.seat if part.seat != "collet" else "round"
+    reach = part.throw + part.arm / 2
+    return (Ring(n, at, z, z + part.thickness, bore, reach, shape),)
 
 
 def _pillar(part: PillarPart) -> tuple[Ring, ...]:
