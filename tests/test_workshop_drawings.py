@@ -169,5 +169,6 @@ def test_part_drawings_are_svg(demo) -> None:
         assert root.find(f"{SVG}title").text == part.name
         kinds.add(part.kind)
     assert kinds == {
-        "wheel", "arbor", "sleeve", "dial", "hand", "knob", "plate", "pillar", "cock"
+        "wheel", "arbor", "sleeve", "collar", "dial", "hand", "knob", "plate",
+        "pillar", "cock",
     }  # fmt: skip
