@@ -98,7 +98,9 @@ def test_form_cutter_numbers(teeth: int, number: int) -> None:
 def test_triangular_wheel_has_no_involute_items() -> None:
     (row,) = cutting_rows([_wheel(40, form="triangular")])
     assert row.cutter_number is None and row.cutter_range is None
-    assert row.span_width is None and row.over_pins is None
+    assert row.span_width is None
+    # checked over pins on its straight flanks instead (tests/test_workshop_cutter.py)
+    assert row.cutter is not None and row.over_pins == row.cutter.over_pins
     assert row.blank_diameter > 40.0  # tip above the reference circle m z
 
 
@@ -127,17 +129,18 @@ def test_demo_sheet_equals_gear_data_sheet() -> None:
         data = gear_data(part.tooth)
         assert row.span_teeth == data.span_teeth, part.name
         assert row.span_width == data.span_width, part.name
-        assert row.pin_diameter == data.pin_diameter, part.name
-        assert row.over_pins == data.over_pins, part.name
+        if part.tooth.form == "involute":
+            assert row.pin_diameter == data.pin_diameter, part.name
+            assert row.over_pins == data.over_pins, part.name
         assert row.blank_diameter == data.blank_diameter, part.name
-        assert row.full_depth == data.depth_of_cut, part.name
+        assert row.full_depth == pytest.approx(data.depth_of_cut, abs=1e-9), part.name
 
 
 def test_csv_round_trip(tmp_path: Path) -> None:
     design = load_design(DEMO)
     parts = plan_parts(design)
     paths = cutting_sheet_writer(design, parts, [], tmp_path)
-    assert paths == [tmp_path / "cutting.csv"]
+    assert paths[0] == tmp_path / "cutting.csv"
     text = paths[0].read_text(encoding="utf-8")
     assert text == cutting_csv(cutting_rows(parts))
     table = list(csv.DictReader(io.StringIO(text)))
@@ -152,8 +155,11 @@ def test_csv_round_trip(tmp_path: Path) -> None:
         else:
             # the CSV prints 4 decimals
             assert float(t["over_pins_mm"]) == pytest.approx(r.over_pins, abs=5e-5)
-            assert float(t["span_width_mm"]) == pytest.approx(r.span_width, abs=5e-5)
-            assert int(t["span_teeth_k"]) == r.span_teeth
+            if r.span_width is not None:
+                assert float(t["span_width_mm"]) == pytest.approx(
+                    r.span_width, abs=5e-5
+                )
+                assert int(t["span_teeth_k"]) == r.span_teeth
 
 
 def test_cutter_notes_for_small_and_shifted_wheels() -> None:

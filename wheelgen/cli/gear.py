@@ -25,6 +25,7 @@ from ..teeth.forms import outline_for
 from ..teeth.gear_data import GearData, gear_data
 from ..teeth.mesh_data import MeshData, mesh_data
 from ..teeth.spec import ToothSpec, thinning_for
+from ..teeth.triangular_cut import triangular_cut
 from ..teeth.triangular_data import TriangularData, triangular_data
 from ._common import EXIT_OK, echo_json, fail
 from ._options import Bounded, Length
@@ -147,6 +148,7 @@ def _mesh_lines(mesh: MeshData, lengths: Lengths = MM) -> list[str]:
 
 def _triangular_sheet(
     data: TriangularData,
+    spec: ToothSpec,
     name: str,
     lengths: Lengths = MM,
     diametral_pitch: float | None = None,
@@ -189,10 +191,16 @@ def _triangular_sheet(
             f"  space at root         {_mm(data.root_width)} across the flanks, "
             f"{_mm(data.root_land)} flat after {_mm(data.root_rounding)} rounding"
         )
+    cut = triangular_cut(spec)
     lines += [
-        f"  cutter                {data.cutter_angle_deg:.4f} deg included, "
-        f"{_mm(data.cutter_depth)} deep, {_mm(data.cutter_tip_width)} across the "
-        f"tip, tip radius {_mm(data.cutter_tip_radius)}",
+        f"  cutter                {cut.space_angle_deg:.4f} deg included (the basic "
+        f"space), {_mm(cut.tip_width)} across the tip, tip radius "
+        f"{_mm(cut.tip_radius)}",
+        f"  feed                  {_mm(cut.infeed)} from the rim: the full depth "
+        f"{_mm(cut.full_depth)} and {_mm(cut.extra_infeed)} more for the thinning",
+        f"  pins                  {_mm(cut.over_pins)} across two "
+        f"{'balls' if cut.teeth % 2 else 'pins'} of {_mm(cut.pin_diameter)} in "
+        "opposite spaces, at that feed",
         f"  blank diameter        {_mm(data.blank_diameter)}",
     ]
     lines += [f"  warning: {w}" for w in data.warnings]
@@ -610,8 +618,26 @@ def _triangular_output(
 ) -> tuple[dict[str, Any], list[str]]:
     dp = spec.diametral_pitch
     data = triangular_data(spec)
-    out = {"form": "triangular", **_clean(data.as_dict()), "diametral_pitch": dp}
-    lines = _triangular_sheet(data, "wheel", lengths, dp)
+    cut = triangular_cut(spec)
+    out = {
+        "form": "triangular",
+        **_clean(data.as_dict()),
+        "diametral_pitch": dp,
+        "form_cutter": _clean(
+            {
+                "space_angle_deg": cut.space_angle_deg,
+                "full_depth": cut.full_depth,
+                "extra_infeed": cut.extra_infeed,
+                "infeed": cut.infeed,
+                "tip_width": cut.tip_width,
+                "tip_radius": cut.tip_radius,
+                "shoulder_radius": cut.shoulder_radius,
+                "pin_diameter": cut.pin_diameter,
+                "over_pins": cut.over_pins,
+            }
+        ),
+    }
+    lines = _triangular_sheet(data, spec, "wheel", lengths, dp)
     if mate_spec is not None:
         mate_data = triangular_data(mate_spec)
         pair = _triangular_pair(spec, mate_spec, centre_distance)
@@ -623,7 +649,7 @@ def _triangular_output(
         }
         lines += (
             [""]
-            + _triangular_sheet(mate_data, "mate", lengths, dp)
+            + _triangular_sheet(mate_data, mate_spec, "mate", lengths, dp)
             + [""]
             + _triangular_pair_lines(pair, mate_spec.teeth, lengths)
             # the sheet shows the transmission error itself

@@ -36,9 +36,11 @@ class TriangularData:
     ``tip_width`` is the tooth's chord where its straight flanks reach the tip circle,
     ``tip_land`` what is left of it between the tip roundings; ``root_width`` the
     space's chord where the flanks reach the root circle (0: they meet above it in a
-    V), ``root_land`` what is left between the root roundings. The cutter is
-    ``cutter_angle_deg`` included, ``cutter_depth`` deep from the blank's rim,
-    ``cutter_tip_width`` across its flat and rounded by ``cutter_tip_radius``.
+    V), ``root_land`` what is left between the root roundings. A cutter ground to
+    the space as cut is ``cutter_angle_deg`` included, ``cutter_depth`` deep from
+    the blank's rim, ``cutter_tip_width`` across its flat and rounded by
+    ``cutter_tip_radius``; the usual cutter, ground to the basic space and fed a
+    little further for the backlash, is :func:`wheelgen.teeth.triangular_cut`'s.
     """
 
     teeth: int

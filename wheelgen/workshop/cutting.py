@@ -8,12 +8,19 @@ sheet and the gear data sheet cannot disagree; the indexing from
 :func:`wheelgen.workshop.indexing.indexing_plan`. Lengths in mm; the sheet is written
 in the design's units (:class:`wheelgen.design.units.Lengths`), each column naming
 its unit, and its tooth size as the module (mm) or the diametral pitch (inches).
+
+The span and over-pins sizes are those of the tooth as cut, thinned by half the
+backlash; the cutter reaches them when fed in ``infeed`` from the blank's rim, a
+little more than the full depth (:func:`extra_infeed`). Triangular teeth get their form
+cutter (the space angle, its tip and shoulder roundings, :mod:`wheelgen.teeth.
+triangular_cut`) and are checked over pins that touch the flanks on the pitch circle.
 """
 
 from __future__ import annotations
 
 import csv
 import io
+import math
 from dataclasses import dataclass
 from pathlib import Path
 from typing import Any, Sequence
@@ -21,6 +28,8 @@ from typing import Any, Sequence
 from ..design.units import MM, Lengths, lengths_of
 from ..layout.part_plan import WheelPart
 from ..teeth.gear_data import gear_data
+from ..teeth.triangular_cut import TriangularCut, triangular_cut
+from .cutter_drawing import cutter_svg
 from .indexing import IndexPlan, indexing_plan
 
 __all__ = [
@@ -32,6 +41,8 @@ __all__ = [
     "indexing_text",
     "cutting_csv",
     "cutting_sheet_writer",
+    "cutter_drawing_file",
+    "extra_infeed",
     "holes_text",
     "pitch_text",
 ]
@@ -76,6 +87,14 @@ class CuttingRow:
     bore_fit: str = ""
     holes: tuple[tuple[float, float, float], ...] = ()
     diametral_pitch: float | None = None  # teeth per inch, for a DP wheel
+    thinning: float = 0.0
+    infeed: float = 0.0
+    cutter: TriangularCut | None = None
+
+    @property
+    def extra_infeed(self) -> float:
+        """How much further than the full depth the cutter goes in (mm)."""
+        return self.infeed - self.full_depth
 
 
 def cutting_columns(lengths: Lengths = MM) -> tuple[str, ...]:
@@ -103,12 +122,34 @@ def cutting_columns(lengths: Lengths = MM) -> tuple[str, ...]:
         col("bore"),
         "bore_fit",
         col("arbor_holes"),
+        col("thinning"),
+        col("infeed"),
+        "space_angle_deg",
+        col("cutter_tip_width"),
+        col("cutter_tip_radius"),
+        col("cutter_shoulder_radius"),
+        "cutter_drawing",
         "notes",
     )
 
 
 #: CSV header in millimetres, in column order; units are in the names.
 CUTTING_COLUMNS: tuple[str, ...] = cutting_columns()
+
+
+def cutter_drawing_file(wheel: str) -> str:
+    """Where the 1:1 drawing of a triangular wheel's form cutter goes in the build."""
+    return f"cutters/{wheel}.svg"
+
+
+def extra_infeed(thinning: float, pressure_angle_deg: float) -> float:
+    """Feed (mm) beyond the full depth that thins an involute tooth by ``thinning``.
+
+    ISO 21771:2007 gives the tooth thickness on the reference circle as
+    s = m (pi / 2 + 2 x tan a): moving the cutter in by d = x m takes 2 d tan a off
+    it, so the thinning needs d = thinning / (2 tan a) (derived).
+    """
+    return thinning / (2.0 * math.tan(math.radians(pressure_angle_deg)))
 
 
 def cutting_rows(parts: Sequence[Any]) -> tuple[CuttingRow, ...]:
@@ -123,6 +164,14 @@ def cutting_rows(parts: Sequence[Any]) -> tuple[CuttingRow, ...]:
         spec = part.tooth
         data = gear_data(spec)
         involute = spec.form == "involute"
+        cut = None if involute else triangular_cut(spec)
+        if cut is None:
+            infeed = data.depth_of_cut + extra_infeed(
+                spec.thinning, spec.pressure_angle_deg
+            )
+            pin, pins = data.pin_diameter, data.over_pins
+        else:
+            infeed, pin, pins = cut.infeed, cut.pin_diameter, cut.over_pins
         rows.append(
             CuttingRow(
                 wheel=part.name,
@@ -133,19 +182,22 @@ def cutting_rows(parts: Sequence[Any]) -> tuple[CuttingRow, ...]:
                 shift=spec.shift if involute else 0.0,
                 face_width=part.face_width,
                 blank_diameter=data.blank_diameter,
-                full_depth=data.depth_of_cut,
+                full_depth=data.depth_of_cut if cut is None else cut.full_depth,
                 cutter_number=data.cutter_number if involute else None,
                 cutter_range=data.cutter_range if involute else None,
                 indexing=indexing_plan(spec.teeth),
                 span_teeth=data.span_teeth,
                 span_width=data.span_width,
-                pin_diameter=data.pin_diameter,
-                over_pins=data.over_pins,
+                pin_diameter=pin,
+                over_pins=pins,
                 warnings=tuple(data.warnings) + _cutter_notes(spec, data.cutter_number),
                 bore=part.bore,
                 bore_fit=part.bore_fit,
                 holes=part.holes,
                 diametral_pitch=spec.diametral_pitch,
+                thinning=spec.thinning,
+                infeed=infeed,
+                cutter=cut,
             )
         )
     return tuple(rows)
@@ -215,6 +267,7 @@ def _system_note(row: CuttingRow, lengths: Lengths) -> tuple[str, ...]:
 
 def _csv_row(row: CuttingRow, lengths: Lengths) -> list[str]:
     num = lengths.num
+    cut = row.cutter
     return [
         row.wheel,
         str(row.teeth),
@@ -234,8 +287,29 @@ def _csv_row(row: CuttingRow, lengths: Lengths) -> list[str]:
         num(row.bore, 3),
         row.bore_fit,
         holes_text(row.holes, lengths),
-        "; ".join(_system_note(row, lengths) + row.warnings),
+        num(row.thinning, 4),
+        num(row.infeed, 4),
+        "" if cut is None else f"{cut.space_angle_deg:.4f}",
+        "" if cut is None else num(cut.tip_width, 4),
+        "" if cut is None else num(cut.tip_radius, 4),
+        "" if cut is None else num(cut.shoulder_radius, 4),
+        "" if cut is None else cutter_drawing_file(row.wheel),
+        "; ".join(
+            _system_note(row, lengths) + row.warnings + _infeed_note(row, lengths)
+        ),
     ]
+
+
+def _infeed_note(row: CuttingRow, lengths: Lengths = MM) -> tuple[str, ...]:
+    """The feed in words: where the thinning comes from and what to measure."""
+    if row.thinning <= 0:
+        return ()
+    check = "over pins" if row.span_width is None else "span and over-pins sizes"
+    return (
+        f"the {check} include the backlash thinning of {lengths.fixed(row.thinning)}: "
+        f"feed the cutter {lengths.fixed(row.infeed)} from the rim, "
+        f"{lengths.fixed(row.extra_infeed)} beyond the full depth",
+    )
 
 
 def holes_text(
@@ -260,8 +334,25 @@ def cutting_csv(rows: Sequence[CuttingRow], lengths: Lengths = MM) -> str:
 def cutting_sheet_writer(
     design: Any, parts: Sequence[Any], findings: Sequence[Any], staging_dir: Path
 ) -> list[Path]:
-    """Sheet writer for ``wheelgen build``: writes ``cutting.csv`` into ``staging_dir``."""
+    """Sheet writer for ``wheelgen build``: ``cutting.csv`` and the cutter drawings.
+
+    A printed design gets no cutting sheet (its print sheet says how to make the
+    parts); every triangular wheel of another gets ``cutters/<wheel>.svg``.
+    """
+    if design.process.kind == "print":
+        return []
     path = Path(staging_dir) / CUTTING_FILE
-    text = cutting_csv(cutting_rows(parts), lengths_of(design))
-    path.write_text(text, encoding="utf-8")
-    return [path]
+    rows = cutting_rows(parts)
+    path.write_text(cutting_csv(rows, lengths_of(design)), encoding="utf-8")
+    written = [path]
+    specs = {p.name: p.tooth for p in parts if isinstance(p, WheelPart)}
+    for row in rows:
+        if row.cutter is None:
+            continue
+        drawing = Path(staging_dir) / cutter_drawing_file(row.wheel)
+        drawing.parent.mkdir(exist_ok=True)
+        drawing.write_text(
+            cutter_svg(row.wheel, specs[row.wheel], row.cutter), encoding="utf-8"
+        )
+        written.append(drawing)
+    return written
