@@ -103,7 +103,7 @@ _NUMBER_KEYS = [
     ('name = "moon_wheel"', [*(k for k, v in WHEEL_KEYS.items() if v[1] != "string"),
                              "teeth", "height"]),
     ("[defaults]", ["module", "face_width", "backlash"]),
-    ("[process]", [k for k, v in PROCESS_KEYS.items() if v[0] != "string"]),
+    ("[process]", [*(k for k, v in PROCESS_KEYS.items() if v[0] != "string"), "bed"]),
     ("[frame]", ["plates", "thickness", "margin", "clearance", "corner", "pillars",
                  "pillar_diameter", "rectangle", "polygon"]),
     ('name = "lay"', ["at", "diameter"]),

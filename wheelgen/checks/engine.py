@@ -18,6 +18,7 @@ from ..frame.checks import frame_findings
 from ..kinematics.rates import solve_rates
 from ..kinematics.targets import evaluate_targets
 from .analysis import Analysis, DesignCheck
+from .bed_check import bed_findings
 from .changes import apply_changes
 from .layout_checks import layout_findings
 from .mesh_checks import design_mesh_checks
@@ -65,6 +66,7 @@ def design_checks() -> tuple[DesignCheck, ...]:
         pinslot_findings,
         _frame,
         _display,
+        bed_findings,
     )
 
 

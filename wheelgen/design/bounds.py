@@ -211,6 +211,11 @@ BOUNDS: dict[str, Bound] = {
     "min_layers": Bound(
         1, 100, "layers", "a face of at least 1 and at most 100 layers", whole=True,
     ),
+    "bed": Bound(
+        20, 2000, "mm", "printer beds are made from about 100 mm (small desk "
+        "printers) to a metre or two (large-format machines); below 20 mm no part of a "
+        "train fits (common practice, no source)",
+    ),
     # -- periods and rates ----------------------------------------------------------------
     "period_s": Bound(
         Fraction(1, 10**6), 10**6 * _YEAR_S, "s", "beyond a microsecond and a "

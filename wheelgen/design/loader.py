@@ -848,8 +848,11 @@ class _Loader:
         if t is None:
             return Process(kind=kind)  # type: ignore[arg-type]  # checked by _choice above
         ctx = ("process", 0, "[process]")
-        self.unknown_keys(t, tuple(PROCESS_KEYS), ctx)
+        self.unknown_keys(t, (*PROCESS_KEYS, "bed"), ctx)
         values: dict[str, Any] = {}
+        bed = self.bed_size(t, ctx)
+        if bed is not None:
+            values["bed"] = bed
         for key, (vkind, check) in PROCESS_KEYS.items():
             v = self.value(t, key, vkind, ctx, check=check)
             if v is not None:
@@ -865,6 +868,28 @@ class _Loader:
             )
             values.pop("fit")
         return Process(kind=kind, **values)  # type: ignore[arg-type]  # checked by _choice above
+
+    def bed_size(
+        self, t: dict[str, Any], ctx: tuple[str, int, str]
+    ) -> tuple[float, float] | None:
+        """``bed = [x, y]``: the printer's build plate in mm, or None if not given."""
+        if "bed" not in t:
+            return None
+        v = t["bed"]
+        bound = BOUNDS["bed"]
+        values = [_position(x) for x in v] if isinstance(v, list) else []
+        if len(values) != 2 or not all(
+            x is not None and bound.holds(x) for x in values
+        ):
+            self.problem(
+                self.where(*ctx, "bed"),
+                f"bed = {_show(v)}",
+                'two lengths in brackets, such as [250.0, 210.0] or ["10 in", "8 in"], '
+                "each " + bound.allowed(),
+                _reason(_bounded("bed")) if isinstance(v, list) and len(v) == 2 else "",
+            )
+            return None
+        return (float(values[0] or 0.0), float(values[1] or 0.0))
 
     def frame_table(self, doc: dict[str, Any]) -> Frame | None:
         t = self.table(doc, "frame")
@@ -1503,7 +1528,7 @@ class _Loader:
                 t,
                 ("kind", "outside", "inside", "width"),
                 ctx,
-                required=("outside", "inside"),
+                required=("outside",),
             )
             kind = self.value(
                 t,
@@ -1511,11 +1536,22 @@ class _Loader:
                 "string",
                 ctx,
                 default="tube",
-                check=_choice("tube", "bush", "bearing"),
+                check=_choice("tube", "bush", "bearing", "rod"),
             )
             outside = self.value(
                 t, "outside", "length", ctx, required=True, check=_length("size")
             )
+            if kind == "rod":
+                for key in ("inside", "width"):
+                    if key in t:
+                        self.problem(
+                            self.where("stock", i, item, key),
+                            f"'{key}' on a rod",
+                            "only 'outside' on a rod (it is solid and cut to length)",
+                        )
+                if outside is not None and "inside" not in t and "width" not in t:
+                    out.append(Stock(outside, 0.0, self.where("stock", i, item), kind))
+                continue
             inside = self.value(
                 t, "inside", "length", ctx, required=True, check=_length("size")
             )

@@ -42,6 +42,7 @@ __all__ = [
     "HandSeat",
     "Graduations",
     "HAND_SEAT_BY_PROCESS",
+    "DEFAULT_BED",
     "LeastPlay",
 ]
 
@@ -54,7 +55,7 @@ Sense = Literal["cw", "ccw"]
 #: and its crank): the one word for that.
 RelativeSense = Literal["same", "opposite"]
 Pivot = Literal["hole", "bush", "bearing"]
-StockKind = Literal["tube", "bush", "bearing"]
+StockKind = Literal["tube", "bush", "bearing", "rod"]
 HandSeat = Literal["square", "flat", "collet"]
 Graduations = Literal["auto", "hours", "days", "month", "year", "degrees", "labels"]
 
@@ -90,6 +91,12 @@ class Where:
         return ", ".join(parts)
 
 
+#: The build plate a printed design is laid out for when it names none, x and y in mm:
+#: the smaller desk printers' beds are 200 to 250 mm square, so parts planned for
+#: 200 mm fit on most (common practice, no source).
+DEFAULT_BED: tuple[float, float] = (200.0, 200.0)
+
+
 @dataclass(frozen=True, slots=True)
 class Process:
     """How the parts are made and the limits that follow from it (mm)."""
@@ -109,6 +116,7 @@ class Process:
     centre_tolerance: float | None = (
         None  # mm a placed centre may be off; None = default
     )
+    bed: tuple[float, float] = DEFAULT_BED  # print: the build plate, x and y, mm
 
     @property
     def hand_seat(self) -> HandSeat:
@@ -271,9 +279,10 @@ class Target:
 
 @dataclass(frozen=True, slots=True)
 class Stock:
-    """A tube, bush or ball bearing on hand: diameters and width in mm.
+    """A tube, bush, ball bearing or rod on hand: diameters and width in mm.
 
-    ``width`` is the axial length of a bush or bearing (``None`` for a tube).
+    ``width`` is the axial length of a bush or bearing (``None`` for a tube or rod);
+    a rod is solid (``inside`` 0).
     """
 
     outside: float

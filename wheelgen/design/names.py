@@ -43,7 +43,9 @@ NAME_ALLOWED = (
     "not '-' first), as names become file names of parts"
 )
 #: Names the build uses for files of its own.
-RESERVED_NAMES = frozenset({"assembly", "manifest", "report", "parts", "cutting"})
+RESERVED_NAMES = frozenset(
+    {"assembly", "manifest", "report", "parts", "cutting", "print", "fit-test"}
+)
 
 
 def name_problem(name: object) -> str | None:

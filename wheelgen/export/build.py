@@ -723,6 +723,8 @@ def build_design(
             for k in used:
                 cache.mark_used(k)
             cache.prune()
+        if design.process.kind == "print" and "stl" in options.formats:
+            _write_fit_test(design, parts, stage, options)
         for writer in sheets.SHEET_WRITERS:  # read now: others may extend it
             for written in writer(design, parts, findings, stage.dir):
                 resolved = Path(written).resolve()
@@ -763,6 +765,16 @@ def build_design(
         manifest=manifest,
         notes=notes,
     )
+
+
+def _write_fit_test(
+    design: Any, parts: Sequence[Any], stage: Staging, options: BuildOptions
+) -> None:
+    """A printed design's fit test coupon, beside the parts' STL files."""
+    from ..workshop.print_plan import FIT_TEST_FILE
+    from .fit_test import write_fit_test
+
+    write_fit_test(design, parts, stage.path(FIT_TEST_FILE), options.mesh_tolerance)
 
 
 def _design_file(design: Any) -> str | None:

@@ -9,9 +9,7 @@ of dates and counters.
 
 from __future__ import annotations
 
-import io
 import math
-import zipfile
 from dataclasses import dataclass
 from pathlib import Path
 
@@ -36,8 +34,8 @@ from OCP.TopLoc import TopLoc_Location
 from OCP.TopoDS import TopoDS, TopoDS_Compound, TopoDS_Edge, TopoDS_Face, TopoDS_Shape
 from OCP.TopTools import TopTools_IndexedMapOfShape
 
-from ..design.names import xml_text
 from .formats import MESH_TOLERANCE
+from .mesh_files import STL_DTYPE, read_stl, write_3mf_objects
 
 __all__ = ["Mesh", "mesh_shape", "read_stl", "write_3mf", "write_stl"]
 
@@ -292,13 +290,10 @@ def _normals(v: np.ndarray, f: np.ndarray) -> np.ndarray:
     return unit
 
 
-_STL_DTYPE = np.dtype([("n", "<f4", (3,)), ("v", "<f4", (3, 3)), ("a", "<u2")])
-
-
 def write_stl(mesh: Mesh, path: Path, name: str) -> Path:
     """Binary STL in mm; the 80-byte header names the part and the unit."""
     header = f"wheelgen {name} mm".encode("ascii", "replace")[:80].ljust(80, b" ")
-    rec = np.zeros(len(mesh.triangles), dtype=_STL_DTYPE)
+    rec = np.zeros(len(mesh.triangles), dtype=STL_DTYPE)
     rec["n"] = _normals(mesh.vertices, mesh.triangles)
     rec["v"] = mesh.vertices[mesh.triangles]
     with open(path, "wb") as fh:
@@ -308,73 +303,6 @@ def write_stl(mesh: Mesh, path: Path, name: str) -> Path:
     return path
 
 
-def read_stl(path: Path) -> tuple[np.ndarray, np.ndarray]:
-    """A binary STL as (welded vertices, triangles); for tests and checks."""
-    raw = Path(path).read_bytes()
-    count = int(np.frombuffer(raw[80:84], "<u4")[0])
-    rec = np.frombuffer(raw[84:], dtype=_STL_DTYPE, count=count)
-    corners = rec["v"].reshape(-1, 3).astype(np.float64)
-    unique, inverse = np.unique(corners, axis=0, return_inverse=True)
-    return unique, inverse.reshape(-1, 3)
-
-
-_CONTENT_TYPES = (
-    '<?xml version="1.0" encoding="UTF-8"?>\n'
-    '<Types xmlns="http://schemas.openxmlformats.org/package/2006/content-types">'
-    '<Default Extension="rels" ContentType="application/vnd.openxmlformats-package.relationships+xml"/>'
-    '<Default Extension="model" ContentType="application/vnd.ms-package.3dmanufacturing-3dmodel+xml"/>'
-    "</Types>\n"
-)
-_RELS = (
-    '<?xml version="1.0" encoding="UTF-8"?>\n'
-    '<Relationships xmlns="http://schemas.openxmlformats.org/package/2006/relationships">'
-    '<Relationship Target="/3D/3dmodel.model" Id="rel0" '
-    'Type="http://schemas.microsoft.com/3dmanufacturing/2013/01/3dmodel"/>'
-    "</Relationships>\n"
-)
-
-
-def _xml_escape(text: str) -> str:
-    return xml_text(text)
-
-
-def _model_xml(mesh: Mesh, name: str) -> str:
-    out = io.StringIO()
-    out.write('<?xml version="1.0" encoding="UTF-8"?>\n')
-    out.write(
-        '<model unit="millimeter" xml:lang="en-US" '
-        'xmlns="http://schemas.microsoft.com/3dmanufacturing/core/2015/02">\n'
-    )
-    out.write(f' <metadata name="Title">{_xml_escape(name)}</metadata>\n')
-    out.write(" <resources>\n")
-    out.write(
-        f'  <object id="1" type="model" name="{_xml_escape(name)}">\n   <mesh>\n    <vertices>\n'
-    )
-    out.writelines(
-        f'     <vertex x="{x:.6f}" y="{y:.6f}" z="{z:.6f}"/>\n'
-        for x, y, z in mesh.vertices.tolist()
-    )
-    out.write("    </vertices>\n    <triangles>\n")
-    out.writelines(
-        f'     <triangle v1="{a}" v2="{b}" v3="{c}"/>\n'
-        for a, b, c in mesh.triangles.tolist()
-    )
-    out.write("    </triangles>\n   </mesh>\n  </object>\n </resources>\n")
-    out.write(' <build>\n  <item objectid="1"/>\n </build>\n</model>\n')
-    return out.getvalue()
-
-
 def write_3mf(mesh: Mesh, path: Path, name: str) -> Path:
     """A 3MF package in millimetres; fixed zip dates: equal meshes, equal bytes."""
-    entries = (
-        ("[Content_Types].xml", _CONTENT_TYPES),
-        ("_rels/.rels", _RELS),
-        ("3D/3dmodel.model", _model_xml(mesh, name)),
-    )
-    with zipfile.ZipFile(path, "w") as zf:
-        for entry, text in entries:
-            info = zipfile.ZipInfo(entry, date_time=(2000, 1, 1, 0, 0, 0))
-            info.compress_type = zipfile.ZIP_DEFLATED
-            info.external_attr = 0o644 << 16
-            zf.writestr(info, text.encode("utf-8"))
-    return path
+    return write_3mf_objects(path, name, [(name, mesh.vertices, mesh.triangles)])

@@ -24,10 +24,12 @@ from ..workshop.drilling import drilling_sheet_writer  # noqa: E402
 from ..workshop.elevation import elevation_writer  # noqa: E402
 from ..workshop.parts_bill import parts_sheet_writer  # noqa: E402
 from ..workshop.report import report_writer  # noqa: E402
+from .beds import print_sheet_writer  # noqa: E402
 
 #: Every sheet writer, run in this order after the part files are in place.
 SHEET_WRITERS: tuple[SheetWriter, ...] = (
     cutting_sheet_writer,
+    print_sheet_writer,
     parts_sheet_writer,
     drilling_sheet_writer,
     elevation_writer,
