@@ -134,11 +134,14 @@ def build_command(
     and crank arm (a dial's svg is its face to print and glue on, its dxf has the
     graduations on the ENGRAVE layer) and the dimensioned 1:1 drawing of every
     arbor, tube and collar, the workshop sheets (cutting.csv: cutter, indexing and inspection sizes of every
-    wheel; parts.csv: bill of parts with screws; drilling/<plate>.csv and .svg: the
-    outline and every hole's position from the drive arbor;
-    drawings/elevation.svg: the sectional elevation, every part at its true
-    heights; assembly.csv: the order in which the parts go together), report.html
-    (one page
+    wheel and how far to feed the cutter to reach them, with cutters/<wheel>.svg,
+    the 1:1 form cutter of triangular teeth; parts.csv: bill of parts with screws;
+    drilling/<plate>.csv and .svg: the outline and every hole's position from the
+    drive arbor; drawings/elevation.svg: the sectional elevation, every part at its
+    true heights; assembly.csv: the order in which the parts go together; for a
+    printed design print.csv instead of cutting.csv, with each part's orientation,
+    the build plates bed/bed-1.3mf, ... and the fit test coupon stl/fit-test.stl),
+    report.html (one page
     with drawings, findings, motion, an animated preview and the size of every
     file), and manifest.json with the SHA-256 and size of each file. DXF files hold
     the outline, bore, windows, slots, pin holes and holes for carried arbors as cut

@@ -151,6 +151,11 @@ def _stadium(
     return pts
 
 
+_LIST_FONT = 3.0  # mm: hole numbers and the hole list, about 8.5 pt printed 1:1
+_LIST_STEP = 4.2  # mm between the lines of the hole list
+_CHAR = 0.6  # mean width of a character, of the font size (sans-serif)
+
+
 def drilling_svg(design: Design, plate: str, unchecked: bool = False) -> str:
     """The drilling chart of ``plate`` as a 1:1 SVG drawing (drawn in mm, labelled in
     the design's units)."""
@@ -166,9 +171,34 @@ def drilling_svg(design: Design, plate: str, unchecked: bool = False) -> str:
         xs += [cx - r, cx + r]
         ys += [cy - r, cy + r]
     margin = 10.0
-    x0, x1 = min(xs) - margin, max(xs) + margin + 95.0  # room for the hole list
-    y0, y1 = min(ys) - margin - 12.0, max(ys) + margin + 14.0  # title above, bar below
-    y0 = min(y0, y1 - 24.0 - 3.2 * (len(holes) + 1))  # the list fits beside
+    tol = plan.limits.position_tolerance
+    side = "seen from the front" + (" (its inner face)" if plate == "back" else "")
+    title = (
+        f"{design.title}: {plate} plate, {side}, {u.words if u.inches else 'mm'}, 1:1"
+    )
+    if unchecked:
+        title += " (UNCHECKED: the design has error-level findings)"
+    entries = [
+        f"{h.number}: {h.member} ({h.role}) \u00d8{u.num(h.nominal)} {h.fit}, "
+        f"{u.num(h.x, 4)}, {u.num(h.y, 4)}"
+        for h in holes
+    ]
+    datum = (
+        f"datum: axis of arbor {design.drive.arbor}; X right, Y up; every hole's position"
+        f" \u00b1{u.num(tol)} {u.unit}, its diameter within the limits on the chart"
+    )
+    # the hole list goes under the drawing, so that the chart stays as narrow as the
+    # plate and reads at a larger scale where it is shown smaller than 1:1
+    list_h = _LIST_STEP * (len(holes) + 1) + 4.0
+    text_w = max(
+        [_CHAR * _LIST_FONT * len(e) for e in entries]
+        + [_CHAR * 3.5 * len(title), _CHAR * 2.5 * len(datum), u.bar.length + 70.0]
+    )
+    x0 = min(xs) - margin
+    x1 = max(max(xs) + margin, x0 + text_w + 6.0)
+    y1 = max(ys) + margin + 14.0  # the title above
+    y_low = min(ys) - margin  # the drawing's lowest point
+    y0 = y_low - list_h - 12.0  # the list, then the check bar below
     width, height = x1 - x0, y1 - y0
 
     def sx(x: float) -> str:
@@ -177,13 +207,6 @@ def drilling_svg(design: Design, plate: str, unchecked: bool = False) -> str:
     def sy(y: float) -> str:
         return f"{y1 - y:.4f}"  # SVG's y runs down; the chart's runs up
 
-    tol = plan.limits.position_tolerance
-    side = "seen from the front" + (" (its inner face)" if plate == "back" else "")
-    title = (
-        f"{design.title}: {plate} plate, {side}, {u.words if u.inches else 'mm'}, 1:1"
-    )
-    if unchecked:
-        title += " (UNCHECKED: the design has error-level findings)"
     out = [
         '<?xml version="1.0" encoding="UTF-8"?>',
         (
@@ -192,12 +215,7 @@ def drilling_svg(design: Design, plate: str, unchecked: bool = False) -> str:
         ),
         f"<title>{esc(title)}</title>",
         f'<text x="2" y="5" font-family="sans-serif" font-size="3.5">{esc(title)}</text>',
-        (
-            '<text x="2" y="9" font-family="sans-serif" font-size="2.5">datum: axis of'
-            f" arbor {esc(design.drive.arbor)}; X right, Y up; every hole's position"
-            f" \u00b1{u.num(tol)} {u.unit}, its diameter within the limits on the"
-            " chart</text>"
-        ),
+        f'<text x="2" y="9" font-family="sans-serif" font-size="2.5">{esc(datum)}</text>',
         (
             f'<path id="{plate}-outline" d="M{" ".join(f"{sx(x)},{sy(y)}" for x, y in loop)}Z"'
             ' fill="none" stroke="#000" stroke-width="0.3"><title>plate outline</title>'
@@ -246,24 +264,26 @@ def drilling_svg(design: Design, plate: str, unchecked: bool = False) -> str:
             f'y2="{sy(h.y + arm)}"/>'
         )
     out.append("</g>")
-    out.append('<g font-family="sans-serif" font-size="2.5" font-weight="bold">')
+    out.append(
+        f'<g font-family="sans-serif" font-size="{_LIST_FONT}" font-weight="bold">'
+    )
     for h in holes:
         out.append(
             f'<text x="{sx(h.x + h.nominal / 2 + 0.8)}" y="{sy(h.y + h.nominal / 2 + 0.6)}"'
             f">{h.number}</text>"
         )
     out.append("</g>")
-    out.append(f'<g font-family="sans-serif" font-size="2.2" id="{plate}-hole-list">')
-    list_x, list_y = sx(max(xs) + margin), 16.0
+    out.append(
+        f'<g font-family="sans-serif" font-size="{_LIST_FONT}" id="{plate}-hole-list">'
+    )
+    list_x, list_y = "5", y1 - y_low + _LIST_STEP + 2.0
     out.append(
         f'<text x="{list_x}" y="{list_y:.4f}" font-weight="bold">hole: holds, diameter'
         f" and fit, X, Y ({u.unit})</text>"
     )
-    for k, h in enumerate(holes, start=1):
+    for k, entry in enumerate(entries, start=1):
         out.append(
-            f'<text x="{list_x}" y="{list_y + 3.2 * k:.4f}">{h.number}: {esc(h.member)}'
-            f" ({esc(h.role)}) \u00d8{u.num(h.nominal)} {esc(h.fit)}, {u.num(h.x, 4)},"
-            f" {u.num(h.y, 4)}</text>"
+            f'<text x="{list_x}" y="{list_y + _LIST_STEP * k:.4f}">{esc(entry)}</text>'
         )
     out.append("</g>")
     bar_x, bar_y, bar = 5.0, height - 8.0, u.bar

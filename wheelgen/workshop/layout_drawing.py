@@ -20,6 +20,10 @@ from ..frame.plan import FramePlan, plan_frame
 from ._svg import colour, esc, fmt, path_d
 
 __all__ = [
+    "CHAR_WIDTH",
+    "LabelPlacer",
+    "boxes_meet",
+    "text_box",
     "layout_svg",
     "axis_centres",
     "carried_by",
@@ -97,6 +101,87 @@ def label_size(extent: tuple[float, ...]) -> float:
     return span / 45.0
 
 
+#: Width of one character as a fraction of the font size: a mean over the letters,
+#: digits and underscores of names in a sans-serif face, a little generous so that an
+#: estimated box holds the drawn text (bold adds a twentieth).
+CHAR_WIDTH = 0.62
+_ASCENT, _DESCENT = 0.8, 0.25  # of the font size, above and below the baseline
+
+Box = tuple[float, float, float, float]
+
+
+def text_box(
+    x: float, y: float, text: str, size: float, anchor: str, bold: bool = False
+) -> Box:
+    """The box ``(x0, y0, x1, y1)`` (mm, y up) a line of ``text`` takes, drawn at
+    ``x``, ``y`` (its baseline) in ``size`` with ``anchor`` start, middle or end."""
+    w = len(text) * size * (CHAR_WIDTH * (1.05 if bold else 1.0))
+    x0 = {"start": x, "middle": x - w / 2, "end": x - w}[anchor]
+    return (x0, y - _DESCENT * size, x0 + w, y + _ASCENT * size)
+
+
+def boxes_meet(a: Box, b: Box) -> bool:
+    """Do two boxes overlap (touching edges do not count)?"""
+    return a[0] < b[2] and b[0] < a[2] and a[1] < b[3] and b[1] < a[3]
+
+
+Spot = tuple[float, float, str]  # baseline x, y (mm, y up) and text-anchor
+
+
+class LabelPlacer:
+    """Places labels one by one at the first of their candidate spots where the text
+    meets no label placed before (else where it meets the fewest)."""
+
+    def __init__(self) -> None:
+        self.taken: list[Box] = []
+
+    def place(
+        self, text: str, size: float, spots: list[Spot], bold: bool = False
+    ) -> Spot:
+        best, best_hits = spots[0], None
+        for spot in spots:
+            box = text_box(spot[0], spot[1], text, size, spot[2], bold)
+            hits = sum(boxes_meet(box, t) for t in self.taken)
+            if hits == 0:
+                best, best_hits = spot, 0
+                break
+            if best_hits is None or hits < best_hits:
+                best, best_hits = spot, hits
+        self.taken.append(text_box(best[0], best[1], text, size, best[2], bold))
+        return best
+
+
+def _around_point(x: float, y: float, fs: float) -> list[Spot]:
+    """Spots for a name beside a point: below right first, then stepping away."""
+    spots: list[Spot] = []
+    for k in range(8):
+        spots += [
+            (x + fs / 2, y - (1.3 + k) * fs, "start"),
+            (x + fs / 2, y + (0.6 + k) * fs, "start"),
+            (x - fs / 2, y - (1.3 + k) * fs, "end"),
+            (x - fs / 2, y + (0.6 + k) * fs, "end"),
+        ]
+    return spots
+
+
+def _round_circle(
+    x: float, y: float, r: float, start_deg: float, fs: float
+) -> list[Spot]:
+    """Spots for a wheel's name on its pitch circle, from ``start_deg`` round both
+    ways in 10-degree steps, then on circles a line and more further out (a small
+    wheel in a crowded middle); the text runs outward from the circle."""
+    spots: list[Spot] = []
+    for ring in range(5):
+        rr = r + 1.2 * fs * ring
+        for k in range(37):
+            for sign in (1, -1) if k else (1,):
+                a = math.radians(start_deg + sign * 10.0 * k)
+                px, py = x + rr * math.cos(a), y + rr * math.sin(a)
+                anchor = "start" if math.cos(a) >= -0.2 else "end"
+                spots.append((px, py - (0.8 * fs if math.sin(a) < 0 else 0.0), anchor))
+    return spots
+
+
 def _arbor_colours(design: Design) -> dict[str, str]:
     return {a.name: colour(i) for i, a in enumerate(design.arbors)}
 
@@ -132,6 +217,7 @@ def layout_svg(design: Design, positions: Mapping[str, Point]) -> str:
     x0, y0, x1, y1 = ext[0] - margin, ext[1] - margin, ext[2] + margin, ext[3] + margin
     y1 += 2 * fs  # room for the plate note above the plates
     cols = _arbor_colours(design)
+    plate_note = ""
     out = [
         f'<svg xmlns="http://www.w3.org/2000/svg" class="drawing layout" '
         f'viewBox="{fmt(x0)} {fmt(-y1)} {fmt(x1 - x0)} {fmt(y1 - y0)}" '
@@ -144,13 +230,15 @@ def layout_svg(design: Design, positions: Mapping[str, Point]) -> str:
             f'stroke-width="{fmt(fs / 8)}"><title>plate outline</title></path>'
         )
         plates = ", ".join(u.short(h) for h in design.frame.plates)
-        out.append(
-            f'<text x="{fmt(ext[0])}" y="{fmt(-ext[3] - fs)}" fill="#6b6354">'
+        plate_note = (
             f"plates: inner faces at {plates} {u.unit}, "
             f"{u.text(design.frame.thickness)} thick;"
             f" {len(frame.pillars)} pillars"
             + (f", {len(frame.cocks)} cock(s)" if frame.cocks else "")
-            + "</text>"
+        )
+        out.append(
+            f'<text x="{fmt(ext[0])}" y="{fmt(-ext[3] - fs)}" fill="#6b6354">'
+            f"{esc(plate_note)}</text>"
         )
         for cock in frame.cocks:
             (ax, ay), (bx, by) = (cock.x, cock.y), cock.along(cock.length)
@@ -173,6 +261,7 @@ def layout_svg(design: Design, positions: Mapping[str, Point]) -> str:
         key=lambda w: -w.pitch_diameter,
     )
     label_turn: dict[str, int] = {}
+    wheel_labels: list[tuple[float, float, float, float, str, str]] = []
     for w in wheels:
         x, y = centres[w.arbor]
         r = w.pitch_diameter / 2
@@ -183,17 +272,12 @@ def layout_svg(design: Design, positions: Mapping[str, Point]) -> str:
             f'stroke="{ink}" stroke-width="{fmt(fs / 7)}"{dash}>'
             f"<title>{esc(w.name)}: {w.teeth} teeth, module {w.module:g}</title></circle>"
         )
-        # labels of wheels on one axis fan out so they do not sit on each other
+        # labels of wheels on one axis start fanned out; the placer moves on round
+        # the circle from there until the label meets no other
         key = f"{fmt(x)},{fmt(y)}"
         k = label_turn.get(key, 0)
         label_turn[key] = k + 1
-        label_rad = math.radians(62.0 + 31.0 * k)
-        lx, ly = x + r * math.cos(label_rad), y + r * math.sin(label_rad)
-        out.append(
-            f'<text x="{fmt(lx)}" y="{fmt(-ly)}" fill="{ink}" stroke="#fff" '
-            f'stroke-width="{fmt(fs / 6)}" paint-order="stroke" '
-            f'font-size="{fmt(0.85 * fs)}">{esc(w.name)} {w.teeth}</text>'
-        )
+        wheel_labels.append((x, y, r, 62.0 + 31.0 * k, f"{w.name} {w.teeth}", ink))
     for m in design.meshes:
         wa, wb = design.wheel(m.pair[0]), design.wheel(m.pair[1])
         if wa.arbor not in centres or wb.arbor not in centres:
@@ -212,6 +296,7 @@ def layout_svg(design: Design, positions: Mapping[str, Point]) -> str:
             f'<circle cx="{fmt(px)}" cy="{fmt(-py)}" r="{fmt(fs / 4)}" fill="#333">'
             f"<title>{esc(m.label)}</title></circle>"
         )
+    coupling_labels: list[tuple[float, float, str]] = []
     for p in design.pinslots:
         pw, sw = design.wheel(p.pin), design.wheel(p.slot)
         if pw.arbor not in centres or sw.arbor not in centres:
@@ -233,12 +318,9 @@ def layout_svg(design: Design, positions: Mapping[str, Point]) -> str:
             f'<line x1="{fmt(ax)}" y1="{fmt(-ay)}" x2="{fmt(bx)}" y2="{fmt(-by)}" '
             f'stroke="#9a3d5f" stroke-width="{fmt(fs / 6)}"/>'
         )
-        out.append(
-            f'<text x="{fmt(px + fs / 2)}" y="{fmt(-py - fs / 2)}" fill="#9a3d5f" '
-            f'font-size="{fmt(0.85 * fs)}">{esc(p.name)} (offset {u.text(p.offset)})'
-            "</text>"
-        )
+        coupling_labels.append((px, py, f"{p.name} (offset {u.text(p.offset)})"))
     # arbor centres and names on top
+    arbor_labels: list[tuple[float, float, list[str]]] = []
     named: dict[str, list[str]] = {}
     for name, (x, y) in centres.items():
         named.setdefault(f"{fmt(x)},{fmt(y)}", []).append(name)
@@ -250,16 +332,34 @@ def layout_svg(design: Design, positions: Mapping[str, Point]) -> str:
             f'r="{fmt(max(arbor.diameter / 2, fs / 3))}" '
             f'fill="#fff" stroke="#000" stroke-width="{fmt(fs / 8)}"/>'
         )
-        # coaxial names stacked; a carried axis labelled above, clear of its carrier's
-        up = carried_by(design, names[0]) is not None
-        for i, name in enumerate(names):
-            ty = y + (1.2 + i) * fs if up else y - (1.3 + i) * fs
-            if up:
-                ty = y + (1.0 + len(names) - 1 - i) * fs
+        arbor_labels.append((x, y, names))
+    # names last, on top, placed so that no two meet: the arbors' names first (stacked
+    # for a coaxial set), then the couplings', then the wheels' round their circles
+    placer = LabelPlacer()
+    if frame is not None and design.frame is not None:
+        placer.taken.append(text_box(ext[0], ext[3] + fs, plate_note, fs, "start"))
+    for x, y, names in arbor_labels:
+        for name in names:
+            tx, ty, anchor = placer.place(name, fs, _around_point(x, y, fs), bold=True)
             out.append(
-                f'<text x="{fmt(x + fs / 2)}" y="{fmt(-ty)}" '
+                f'<text x="{fmt(tx)}" y="{fmt(-ty)}" text-anchor="{anchor}" '
                 f'font-weight="bold" stroke="#fff" stroke-width="{fmt(fs / 5)}" '
                 f'paint-order="stroke">{esc(name)}</text>'
             )
+    small = 0.85 * fs
+    for px, py, text in coupling_labels:
+        tx, ty, anchor = placer.place(text, small, _around_point(px, py, small))
+        out.append(
+            f'<text x="{fmt(tx)}" y="{fmt(-ty)}" text-anchor="{anchor}" '
+            f'fill="#9a3d5f" stroke="#fff" stroke-width="{fmt(fs / 6)}" '
+            f'paint-order="stroke" font-size="{fmt(small)}">{esc(text)}</text>'
+        )
+    for x, y, r, start, text, c in wheel_labels:
+        tx, ty, anchor = placer.place(text, small, _round_circle(x, y, r, start, small))
+        out.append(
+            f'<text x="{fmt(tx)}" y="{fmt(-ty)}" text-anchor="{anchor}" fill="{c}" '
+            f'stroke="#fff" stroke-width="{fmt(fs / 6)}" paint-order="stroke" '
+            f'font-size="{fmt(small)}">{esc(text)}</text>'
+        )
     out.append("</svg>")
     return "\n".join(out)

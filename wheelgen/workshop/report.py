@@ -34,16 +34,34 @@ from ..kinematics.targets import (
 from ..layout.placement import arbor_positions
 from ..version import __version__
 from .assembly import ASSEMBLY_FILE, assembly_steps
-from .cutting import CuttingRow, cutting_rows, indexing_text, pitch_text
+from .bed_drawing import bed_svg
+from .cutter_drawing import cutter_svg
+from .cutting import (
+    CuttingRow,
+    cutter_drawing_file,
+    cutting_rows,
+    indexing_text,
+    pitch_text,
+)
 from .dial_preview import dials_svg
 from .drilling import chart_holes, drilling_svg
 from .elevation import elevation_svg
 from .file_sizes import file_format, list_files, part_file, size_summary, size_text
+from .fit_coupon import fit_test_plan
 from .layout_drawing import layout_svg
 from .motion_plot import motion_plot_svg
 from .part_drawing import part_svg
 from .parts_bill import BillRow, bill_rows, volume_text
 from .preview import PreviewPlan, preview_plan, preview_svg
+from .print_plan import (
+    FIT_TEST_FILE,
+    LONG_ROD_RATIO,
+    ORIENTATIONS,
+    PART_SPACING,
+    PrintLayout,
+    bed_file,
+    print_layout,
+)
 from .te_plot import TeCurve, mesh_te_curves, te_comparison_svg, te_plot_svg
 from .train_diagram import train_diagram_svg
 
@@ -88,14 +106,13 @@ ol.steps { padding-left: 0; list-style: none; display: flex; flex-wrap: wrap;
 ol.steps li { width: 19em; page-break-inside: avoid; break-inside: avoid; }
 ol.steps svg { width: 100%; height: auto; border: 1px solid #ddd; }
 ol.steps .n { font-weight: bold; color: #1f5f8b; }
-svg.train { width: auto; max-width: none; max-height: none; }
+svg.train { width: auto; max-width: 100%; max-height: none; }
 nav ol { columns: 2; font-size: 0.92em; }
 @media print {
   body { margin: 0; max-width: none; }
   nav { display: none; }
   h2 { page-break-after: avoid; break-after: avoid; }
   svg.drawing { max-height: none; }
-  svg.train { width: 100%; }
   .chart svg { max-height: none; }
 }
 """
@@ -465,15 +482,28 @@ def _total_volume(cm3: float, u: Lengths) -> str:
     return f"{cm3:.2f} cm\u00b3"
 
 
-def _cutting(rows: Sequence[CuttingRow], u: Lengths = MM) -> str:
+def _inline(svg: str) -> str:
+    """A drawing file's SVG, inline in the page: no XML declaration, scaled to fit."""
+    svg = svg[svg.index("<svg") :]
+    return svg.replace("<svg ", '<svg class="drawing" ', 1)
+
+
+def _cutting(rows: Sequence[CuttingRow], parts: Sequence[Any], u: Lengths = MM) -> str:
+    specs = {p.name: p.tooth for p in parts if p.kind == "wheel"}
     if not rows:
         return "<p>No wheels to cut.</p>"
-    out = []
+    blanks, checks = [], []
     for r in rows:
         cutter = ""
         if r.cutter_number is not None:
             dp = "" if r.diametral_pitch is None else f"{r.diametral_pitch:g} DP "
             cutter = f"{dp}No. {r.cutter_number} ({r.cutter_range})"
+        elif r.cutter is not None:
+            cutter = (
+                f"{r.cutter.space_angle_deg:.2f}\u00b0 included, tip R "
+                f"{u.num(r.cutter.tip_radius)}, shoulders R "
+                f"{u.num(r.cutter.shoulder_radius)}"
+            )
         span = (
             ""
             if r.span_width is None
@@ -484,7 +514,7 @@ def _cutting(rows: Sequence[CuttingRow], u: Lengths = MM) -> str:
             if r.over_pins is None
             else f"{u.num(r.over_pins, 4)} over \u00d8{u.num(r.pin_diameter)} pins"
         )
-        out.append(
+        blanks.append(
             [
                 _e(r.wheel),
                 _e(r.teeth),
@@ -496,12 +526,19 @@ def _cutting(rows: Sequence[CuttingRow], u: Lengths = MM) -> str:
                 _e(u.num(r.blank_diameter)),
                 _e(u.num(r.full_depth)),
                 _e(cutter),
+            ]
+        )
+        checks.append(
+            [
+                _e(r.wheel),
                 _e(indexing_text(r.indexing)),
+                _e(u.num(r.thinning, 4)),
+                _e(u.num(r.infeed, 4)),
                 _e(span),
                 _e(pins),
             ]
         )
-    head = [
+    head_blank = [
         "wheel",
         "teeth",
         "diametral pitch" if u.inches else "module",
@@ -512,19 +549,125 @@ def _cutting(rows: Sequence[CuttingRow], u: Lengths = MM) -> str:
         u.head("blank \u00d8"),
         u.head("full depth"),
         "form cutter",
+    ]
+    head_check = [
+        "wheel",
         "indexing",
+        u.head("thinning"),
+        u.head("feed in"),
         f"span W<sub>k</sub> ({u.unit}) over k teeth",
         u.head("over pins"),
     ]
     notes = [f"<li>{_e(r.wheel)}: {_e(w)}</li>" for r in rows for w in r.warnings]
     extra = f"<ul>{''.join(notes)}</ul>" if notes else ""
-    return (
-        _table(head, out, {1, 2, 5, 6, 7, 8, 11, 12})
-        + "<p>Indexing: <i>t turns + h/c</i> is t whole crank turns plus h hole spaces "
-        "on the c-hole circle. Form cutters use the diametral-pitch set numbering "
-        "(No. 1 for the most teeth); the tooth range is given because some module "
-        "sets number the other way round.</p>" + extra
+    drawings = [
+        f"<code>{_e(cutter_drawing_file(r.wheel))}</code>" for r in rows if r.cutter
+    ]
+    figures = "".join(
+        f"<figure>{_inline(cutter_svg(r.wheel, specs[r.wheel], r.cutter))}"
+        f"<figcaption>The form cutter of {_e(r.wheel)} "
+        f"(<code>{_e(cutter_drawing_file(r.wheel))}</code>, 1:1 when printed from "
+        "that file).</figcaption></figure>"
+        for r in rows
+        if r.cutter is not None
     )
+    tri = ""
+    if drawings:
+        tri = (
+            "<p>Triangular teeth are cut with a form (fly) cutter ground to the space "
+            "between two basic teeth, its included angle the tooth angle plus "
+            "360\u00b0 / teeth; the 1:1 drawing of each cutter is in "
+            + ", ".join(drawings)
+            + ". They are checked over two pins that touch the flanks on the pitch "
+            "circle.</p>" + figures
+        )
+    return (
+        "<h3>Blanks and cutters</h3>"
+        + _table(head_blank, blanks, {1, 2, 5, 6, 7, 8})
+        + "<h3>Indexing, feed and checking</h3>"
+        + _table(head_check, checks, {2, 3, 4, 5})
+        + "<p>Feed in: how far the cutter goes in from the blank's rim. It is the full "
+        "depth plus a little more, which thins each tooth by the thinning listed (half "
+        "the backlash); the span and over-pins sizes are those of the thinned tooth, "
+        "so feed until they are reached. Indexing: <i>t turns + h/c</i> is t whole "
+        "crank turns plus h hole spaces on the c-hole circle. Form cutters use the "
+        "diametral-pitch set numbering (No. 1 for the most teeth); the tooth range is "
+        "given because some module sets number the other way round.</p>" + tri + extra
+    )
+
+
+def _print_sheet(design: Design, parts: Sequence[Any], layout: PrintLayout) -> str:
+    """The print sheet: the fit test first, then how each part lies and the plates."""
+    fit = fit_test_plan(design, parts)
+    fit_rows = [
+        [
+            _e(label),
+            _e(f"{c:.2f}"),
+            _e(f"{h:.2f}"),
+            _e(f"{p:.2f}"),
+        ]
+        for label, c, h, p in zip(
+            fit.labels, fit.clearances, fit.hole_diameters, fit.pin_diameters
+        )
+    ]
+    out = [
+        "<h3>First: the fit test</h3>"
+        f"<p><code>{_e(FIT_TEST_FILE)}</code> is two small plates. The hole plate has "
+        f"a plain \u00d8{fit.nominal:g} mm hole (label 0) and holes opened by each "
+        "radial clearance below; the pin plate a plain "
+        f"\u00d8{fit.nominal:g} mm pin (label 0) and pins thinned by the same "
+        "clearances. Print it with the settings you will use for the parts; push the "
+        "plain pin into each hole and each pin into the plain hole. The labels are the "
+        "radial clearance in hundredths of a millimetre; this design uses "
+        f"{design.process.clearance:g} mm (<code>[process] clearance</code>, label "
+        f"{round(design.process.clearance * 100):d}). If that fit binds or "
+        "rattles, set <code>clearance</code> to the smallest label that turns "
+        "freely, divided by 100, and build again.</p>"
+        + _table(
+            ["label", "radial clearance (mm)", "hole \u00d8 (mm)", "pin \u00d8 (mm)"],
+            fit_rows,
+            {1, 2, 3},
+        )
+    ]
+    rows = [
+        [
+            _e(r.part),
+            _e(r.kind),
+            _e(ORIENTATIONS[r.orientation]),
+            _e("" if r.bed is None else r.bed),
+            _e("" if r.height is None else f"{r.height:.1f}"),
+            _e(r.note),
+        ]
+        for r in layout.rows
+        if r.kind != "coupon"
+    ]
+    out.append(
+        "<h3>How each part lies</h3><p>Wheels, plates, hands and dials lie flat on "
+        "their larger face; tubes, pillars and short rods stand upright so that they "
+        "come out round; rods longer than "
+        f"{LONG_ROD_RATIO:g} diameters lie flat; an arbor the stock list has as rod "
+        "is cut from the rod. The same is in <code>print.csv</code>.</p>"
+        + _table(
+            ["part", "kind", "orientation", "plate", "height (mm)", "note"],
+            rows,
+            {3, 4},
+        )
+    )
+    bx, by = layout.bed
+    figs = [
+        f"<figure>{bed_svg(n, layout.bed, objects)}<figcaption>Plate {n}: "
+        f"<code>{_e(bed_file(n))}</code>, {len(objects)} part(s) on "
+        f"{bx:g} \u00d7 {by:g} mm.</figcaption></figure>"
+        for n, objects in layout.plates
+    ]
+    if figs:
+        out.append(
+            f"<h3>Build plates</h3><p>The parts laid out on {len(figs)} plate(s) of "
+            f"{bx:g} \u00d7 {by:g} mm (<code>[process] bed</code>), "
+            f"{PART_SPACING:g} mm apart and from the edges; each plate is one 3MF "
+            "file to open in the slicer.</p>" + "".join(figs)
+        )
+    return "".join(out)
 
 
 def _drilling(design: Design, unchecked: bool) -> str:
@@ -655,8 +798,13 @@ def report_html(
     solution: TrainSolution | None = None,
     targets: Sequence[TargetResult] | None = None,
     files: Sequence[tuple[str, int]] | None = None,
+    layout: PrintLayout | None = None,
 ) -> str:
-    """The whole report page as text; ``files`` are (path, bytes) of the build's files."""
+    """The whole report page as text; ``files`` are (path, bytes) of the build's files.
+
+    A printed design gets the print sheet (``layout``, its plates laid out from the
+    part files; without it the orientations alone) instead of the cutting sheet.
+    """
     solution = solve_rates(design) if solution is None else solution
     targets = evaluate_targets(design, solution) if targets is None else targets
     positions = arbor_positions(design)
@@ -667,7 +815,7 @@ def report_html(
     cutting = cutting_rows(parts)
     bill = bill_rows(design, parts)
     u = lengths_of(design)
-    nav = "".join(f'<li><a href="#{k}">{_e(v)}</a></li>' for k, v in _SECTIONS)
+    printing = design.process.kind == "print"
     body = {
         "layout": (
             f"<figure>{layout_svg(design, positions)}<figcaption>Seen from the front, "
@@ -699,14 +847,26 @@ def report_html(
         "transmission": _transmission(mesh_te_curves(design)),
         "preview": _preview(design, positions, plan),
         "parts": _parts(parts, bill, u),
-        "cutting": _cutting(cutting, u),
+        "cutting": (
+            _print_sheet(
+                design,
+                parts,
+                layout if layout is not None else print_layout(design, parts, None),
+            )
+            if printing
+            else _cutting(cutting, parts, u)
+        ),
         "drilling": _drilling(design, has_errors(findings)),
         "assembly": _assembly(design, parts),
         "files": _files(parts, files),
     }
+    titles = dict(_SECTIONS)
+    if printing:
+        titles["cutting"] = "Print sheet"
+    nav = "".join(f'<li><a href="#{k}">{_e(titles[k])}</a></li>' for k, _ in _SECTIONS)
     sections = "".join(
-        f'<section id="{k}"><h2>{i}. {_e(v)}</h2>{body[k]}</section>'
-        for i, (k, v) in enumerate(_SECTIONS, start=1)
+        f'<section id="{k}"><h2>{i}. {_e(titles[k])}</h2>{body[k]}</section>'
+        for i, (k, _) in enumerate(_SECTIONS, start=1)
     )
     return (
         "<!DOCTYPE html>\n"
@@ -726,5 +886,11 @@ def report_writer(
     """Sheet writer for ``wheelgen build``: writes ``report.html`` into ``staging_dir``."""
     path = Path(staging_dir) / REPORT_FILE
     files = list_files(staging_dir, skip={REPORT_FILE})
-    path.write_text(report_html(design, parts, findings, files=files), encoding="utf-8")
+    layout = None
+    if design.process.kind == "print":
+        layout = print_layout(design, parts, staging_dir)
+    path.write_text(
+        report_html(design, parts, findings, files=files, layout=layout),
+        encoding="utf-8",
+    )
     return [path]

@@ -1,10 +1,10 @@
 """The train diagram: which arbor drives which, with tooth counts and periods.
 
-Arbors are boxes in columns by their distance (in meshes and couplings) from the
-drive; each box gives the arbor's wheels, period and sense from the exact solution.
+Arbors are boxes in rows down the page by their distance (in meshes and couplings)
+from the drive; each box gives the arbor's wheels, period and sense from the exact solution.
 An arrow from one box to the next is a mesh (labelled ``driver z -> driven z``), a
 pin-and-slot coupling (dashed) or a carrier that carries an arbor (dotted). A fixed
-arbor sits one column before the arbor it meshes with, as the reaction member. The
+arbor sits one row before the arbor it meshes with, as the reaction member. The
 drawing is in page pixels, not millimetres.
 """
 
@@ -19,13 +19,38 @@ from ..kinematics.rates import TrainSolution
 from ..kinematics.targets import arbor_period, arbor_sense
 from ._svg import esc, fmt
 
-__all__ = ["TrainLink", "train_links", "train_columns", "train_diagram_svg"]
+__all__ = [
+    "PAGE_WIDTH",
+    "TrainLink",
+    "label_width",
+    "train_links",
+    "train_columns",
+    "train_diagram_svg",
+]
 
 _FONT = 12.0  # px
 _CHAR = 6.6  # px: mean width of one character of the sans-serif font at _FONT
 _LINE = 15.0  # px between text lines in a box
-_GAP_X = 190.0  # px between columns, room for the arrow labels
-_GAP_Y = 26.0
+_GAP_X = 40.0  # px between two boxes side by side
+_GAP_Y = 26.0  # px between the lines of a wrapped row
+_ROW_GAP = 90.0  # px between two rows, room for the arrows and their labels
+#: Where along an arrow its label may stand, tried in this order.
+_LABEL_AT = (0.5, 0.35, 0.65, 0.22, 0.78, 0.12, 0.88)
+Point = tuple[float, float]
+Box = tuple[float, float, float, float]
+#: Widest the diagram is drawn, px: the report's text column (62 em at 16 px, less its
+#: padding), so that it prints and reads at its own size.
+PAGE_WIDTH = 960.0
+_DASH = {
+    "mesh": "",
+    "pinslot": ' stroke-dasharray="6 4"',
+    "carrier": ' stroke-dasharray="2 3"',
+}
+
+
+def label_width(text: str) -> float:
+    """Width (px) of an arrow's label: its characters at the label's font."""
+    return len(text) * _CHAR * (_FONT - 1) / _FONT
 
 
 @dataclass(frozen=True, slots=True)
@@ -123,30 +148,48 @@ def _box_lines(design: Design, solution: TrainSolution, arbor: str) -> list[str]
     return lines
 
 
+def _cubic(p0: Point, c0: Point, c1: Point, p1: Point, t: float) -> Point:
+    u = 1 - t
+    return (
+        u**3 * p0[0] + 3 * u * u * t * c0[0] + 3 * u * t * t * c1[0] + t**3 * p1[0],
+        u**3 * p0[1] + 3 * u * u * t * c0[1] + 3 * u * t * t * c1[1] + t**3 * p1[1],
+    )
+
+
+def _meets(a: Box, b: Box) -> bool:
+    return a[0] < b[2] and b[0] < a[2] and a[1] < b[3] and b[1] < a[3]
+
+
 def train_diagram_svg(design: Design, solution: TrainSolution) -> str:
-    """The diagram as one ``<svg>`` element (text)."""
+    """The diagram as one ``<svg>`` element (text), at most :data:`PAGE_WIDTH` wide.
+
+    The train runs down the page: a row for each step from the drive, its arbors side
+    by side (a row wider than the page wraps onto a second line, as text does). An
+    arrow runs from one box's edge to the next's, its label placed along it where it
+    meets no box and no other label.
+    """
     cols = train_columns(design)
+    links = train_links(design)
     boxes = {a.name: _box_lines(design, solution, a.name) for a in design.arbors}
     width = {n: max(len(t) for t in lines) * _CHAR + 16 for n, lines in boxes.items()}
     height = {n: len(lines) * _LINE + 10 for n, lines in boxes.items()}
-    ncol = max(cols.values()) + 1
-    col_w = [
-        max((width[n] for n in cols if cols[n] == c), default=0.0) for c in range(ncol)
-    ]
-    col_x = [20.0]
-    for c in range(1, ncol):
-        col_x.append(col_x[-1] + col_w[c - 1] + _GAP_X)
-    pos: dict[str, tuple[float, float]] = {}
-    col_h = []
-    for c in range(ncol):
-        y = 20.0
+    nrow = max(cols.values()) + 1
+    pos: dict[str, Point] = {}
+    y = 20.0
+    for r in range(nrow):
+        x, line_h = 20.0, 0.0
         for a in design.arbors:
-            if cols[a.name] == c:
-                pos[a.name] = (col_x[c], y)
-                y += height[a.name] + _GAP_Y
-        col_h.append(y)
-    total_w = col_x[-1] + col_w[-1] + 20
-    total_h = max(col_h) + 10
+            if cols[a.name] != r:
+                continue
+            if x > 20.0 and x + width[a.name] + 20 > PAGE_WIDTH:
+                x, y = 20.0, y + line_h + _GAP_Y  # wrap the row
+                line_h = 0.0
+            pos[a.name] = (x, y)
+            x += width[a.name] + _GAP_X
+            line_h = max(line_h, height[a.name])
+        y += line_h + _ROW_GAP
+    total_w = max(pos[n][0] + width[n] for n in pos) + 20
+    total_h = y - _ROW_GAP + 20
     out = [
         f'<svg xmlns="http://www.w3.org/2000/svg" class="drawing train" '
         f'viewBox="0 0 {fmt(total_w)} {fmt(total_h)}" width="{fmt(total_w)}" '
@@ -156,38 +199,51 @@ def train_diagram_svg(design: Design, solution: TrainSolution) -> str:
         'markerWidth="7" markerHeight="7" orient="auto-start-reverse">'
         '<path d="M0,0L10,5L0,10z" fill="#333"/></marker></defs>',
     ]
+    taken: list[Box] = [
+        (x, y, x + width[n], y + height[n]) for n, (x, y) in pos.items()
+    ]
     labels = []
-    for link in train_links(design):
+    for link in links:
         sx, sy = pos[link.source]
         tx, ty = pos[link.target]
-        y0 = sy + height[link.source] / 2
-        y1 = ty + height[link.target] / 2
-        if cols[link.source] < cols[link.target]:
-            x0, x1 = sx + width[link.source], tx
-        elif cols[link.source] > cols[link.target]:
-            x0, x1 = sx, tx + width[link.target]
-        else:  # same column: loop out on the right
-            x0, x1 = sx + width[link.source], tx + width[link.target]
-        bend = max(abs(x1 - x0) / 2, 40.0)
-        c0 = x0 + (bend if x1 >= x0 or x0 == x1 else -bend)
-        c1 = x1 - (bend if x1 > x0 else -bend)
-        if cols[link.source] == cols[link.target]:
-            c0, c1 = x0 + 60, x1 + 60
-        dash = {
-            "mesh": "",
-            "pinslot": ' stroke-dasharray="6 4"',
-            "carrier": ' stroke-dasharray="2 3"',
-        }
+        if abs(sy - ty) < 1e-9:  # side by side: from one side to the other
+            left = sx < tx
+            p0 = (sx + width[link.source] if left else sx, sy + height[link.source] / 2)
+            p1 = (tx if left else tx + width[link.target], ty + height[link.target] / 2)
+            c0, c1 = p0, p1
+        else:  # down (or up) the page: from one box's bottom to the other's top
+            down = sy < ty
+            p0 = (
+                sx + width[link.source] / 2,
+                sy + (height[link.source] if down else 0.0),
+            )
+            p1 = (
+                tx + width[link.target] / 2,
+                ty + (0.0 if down else height[link.target]),
+            )
+            step = (p1[1] - p0[1]) / 2
+            c0, c1 = (p0[0], p0[1] + step), (p1[0], p1[1] - step)
         out.append(
-            f'<path d="M{fmt(x0)},{fmt(y0)} C{fmt(c0)},{fmt(y0)} {fmt(c1)},{fmt(y1)} '
-            f'{fmt(x1)},{fmt(y1)}" fill="none" stroke="#333" stroke-width="1.3"'
-            f'{dash[link.kind]} marker-end="url(#wg-train-arrow)"/>'
+            f'<path d="M{fmt(p0[0])},{fmt(p0[1])} C{fmt(c0[0])},{fmt(c0[1])} '
+            f'{fmt(c1[0])},{fmt(c1[1])} {fmt(p1[0])},{fmt(p1[1])}" fill="none" '
+            f'stroke="#333" stroke-width="1.3"{_DASH[link.kind]} '
+            'marker-end="url(#wg-train-arrow)"/>'
         )
-        # label at the curve's middle (t = 1/2 of the cubic)
-        mx = (x0 + 3 * c0 + 3 * c1 + x1) / 8
-        my = (y0 + y1) / 2
+        w = label_width(link.label)
+        best: tuple[int, Point] | None = None
+        for t in _LABEL_AT:
+            mx, my = _cubic(p0, c0, c1, p1, t)
+            box = (mx - w / 2, my - _FONT, mx + w / 2, my + 3)
+            hits = sum(_meets(box, b) for b in taken)
+            if best is None or hits < best[0]:
+                best = (hits, (mx, my))
+            if hits == 0:
+                break
+        assert best is not None
+        mx, my = best[1]
+        taken.append((mx - w / 2, my - _FONT, mx + w / 2, my + 3))
         labels.append(
-            f'<text x="{fmt(mx)}" y="{fmt(my - 4)}" text-anchor="middle" '
+            f'<text x="{fmt(mx)}" y="{fmt(my)}" text-anchor="middle" '
             f'font-size="{fmt(_FONT - 1)}" stroke="#fff" stroke-width="3" '
             f'paint-order="stroke" fill="#222">{esc(link.label)}</text>'
         )
