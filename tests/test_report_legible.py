@@ -28,8 +28,7 @@ DATA = ROOT / "tests" / "data"
 SVG = "{http://www.w3.org/2000/svg}"
 DESIGNS = [
     ROOT / "designs" / "harbour_tide_clock.toml",
-    DATA / "two_stage.toml",
-    DATA / "two_forms.toml",
+    *sorted(DATA.glob("*.toml")),
     *sorted((DATA / "frame").glob("*.toml")),
     *sorted((DATA / "display").glob("*.toml")),
 ]
