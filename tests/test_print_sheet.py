@@ -300,3 +300,14 @@ def test_a_part_larger_than_the_bed_is_a_warning() -> None:
     assert not [
         f for f in run_checks(loads_design(big, "w.toml")) if f.check == "process.bed"
     ]
+
+
+def test_fit_test_pins_stay_printable() -> None:
+    from wheelgen.design.process_limits import PRINT_WALL_LINES
+
+    text = _design_text().replace("clearance = 0.2\n", "clearance = 3.0\n")
+    design = loads_design(text, "w.toml")
+    plan = fit_test_plan(design, plan_parts(design))
+    # derived: 3 mm arbors, 3.1 mm the largest clearance: pins would go through zero
+    assert plan.nominal > 3.0
+    assert min(plan.pin_diameters) >= PRINT_WALL_LINES * design.process.nozzle - 1e-9

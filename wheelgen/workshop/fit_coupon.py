@@ -12,6 +12,7 @@ from __future__ import annotations
 from dataclasses import dataclass
 from typing import Any, Sequence
 
+from ..design.process_limits import PRINT_WALL_LINES
 from ..layout.part_plan import ArborPart
 from .print_plan import PART_SPACING
 
@@ -59,7 +60,11 @@ class FitTestPlan:
 
 def fit_test_plan(design: Any, parts: Sequence[Any]) -> FitTestPlan:
     """The coupon for ``design``: its most common arbor diameter (3 mm if none) at the
-    design's running clearance (``[process] clearance``) and two steps either side."""
+    design's running clearance (``[process] clearance``) and two steps either side.
+
+    The nominal diameter grows where the thinnest pin would otherwise be narrower than
+    the two nozzle lines a printed wall needs.
+    """
     diameters = [p.diameter for p in parts if isinstance(p, ArborPart)]
     nominal = (
         max(set(diameters), key=lambda d: (diameters.count(d), -d))
@@ -72,6 +77,8 @@ def fit_test_plan(design: Any, parts: Sequence[Any]) -> FitTestPlan:
     )
     layer = design.process.layer
     nozzle = design.process.nozzle
+    # the thinnest pin keeps two nozzle lines across, whatever the clearance
+    nominal = max(nominal, 2 * max(clearances) + 2 * PRINT_WALL_LINES * nozzle)
     digit_h = max(5.0, 10 * nozzle)
     pitch = max(nominal + 2 * max(clearances) + 6.0, 1.6 * digit_h + 4.0)
     n = len(clearances) + 1
