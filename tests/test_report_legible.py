@@ -27,7 +27,7 @@ ROOT = Path(__file__).resolve().parent.parent
 DATA = ROOT / "tests" / "data"
 SVG = "{http://www.w3.org/2000/svg}"
 DESIGNS = [
-    ROOT / "designs" / "harbour_tide_clock.toml",
+    ROOT / "wheelgen" / "designs" / "harbour_tide_clock.toml",
     *sorted(DATA.glob("*.toml")),
     *sorted((DATA / "frame").glob("*.toml")),
     *sorted((DATA / "display").glob("*.toml")),
@@ -152,7 +152,7 @@ def test_nothing_runs_past_the_page_in_a_browser(path: Path, tmp_path: Path) -> 
     from PIL import Image
 
     from wheelgen.checks import run_checks
-    from wheelgen.frame import plan_parts
+    from wheelgen.parts import plan_parts
     from wheelgen.workshop.report import report_html
 
     design = load_design(path)

@@ -32,10 +32,11 @@ import numpy as np
 import pytest
 
 from wheelgen.design import load_design
-from wheelgen.layout import plan_parts
 from wheelgen.layout.part_plan import WheelPart
+from wheelgen.parts import plan_parts
 from wheelgen.teeth import gear_data
-from wheelgen.teeth.spec import ToothSpec, outline_for
+from wheelgen.teeth.forms import outline_for
+from wheelgen.teeth.spec import ToothSpec
 from wheelgen.teeth.triangular_cut import basic_space_angle_deg, triangular_cut
 from wheelgen.workshop.cutter_drawing import cutter_profile
 from wheelgen.workshop.cutting import (
@@ -46,7 +47,12 @@ from wheelgen.workshop.cutting import (
 )
 
 DATA = Path(__file__).resolve().parent / "data"
-DEMO = Path(__file__).resolve().parent.parent / "designs" / "harbour_tide_clock.toml"
+DEMO = (
+    Path(__file__).resolve().parent.parent
+    / "wheelgen"
+    / "designs"
+    / "harbour_tide_clock.toml"
+)
 
 
 def _tri(z: int, m: float = 1.0, angle: float = 60.0, **kw: float) -> ToothSpec:

@@ -11,7 +11,7 @@ from __future__ import annotations
 from typing import Any
 
 from ..design.model import Design
-from .findings import Finding
+from ..findings import Finding
 
 __all__ = ["EDGE_SPACING", "bed_findings", "flat_footprint"]
 
@@ -25,7 +25,7 @@ def flat_footprint(part: Any) -> tuple[float, float] | None:
     import numpy as np
 
     if part.kind == "wheel":
-        from ..teeth.spec import outline_for
+        from ..teeth.forms import outline_for
 
         d = 2 * float(outline_for(part.tooth).radii["tip"])
         return d, d
@@ -49,7 +49,7 @@ def bed_findings(design: Design, analysis: Any = None) -> list[Finding]:
     """A warning for each printed flat part that fits the bed neither way round."""
     if design.process.kind != "print":
         return []
-    from ..frame import plan_parts
+    from ..parts import plan_parts
 
     try:
         parts = plan_parts(design)

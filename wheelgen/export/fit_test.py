@@ -51,8 +51,8 @@ def fit_test_solid(plan: FitTestPlan) -> Any:
         ]
     )
     holes = holes.fuse(*labels(0.0)).clean()
-    pins = cq.Solid.makeBox(w, d, t, cq.Vector(0, plan.pin_plate_y, 0))
-    pins = pins.fuse(
+    pin_plate = cq.Solid.makeBox(w, d, t, cq.Vector(0, plan.pin_plate_y, 0))
+    pins = pin_plate.fuse(
         *[
             cylinder(dia, x, plan.pin_y, t, plan.pin_length)
             for x, dia in [

@@ -15,8 +15,9 @@ import math
 
 import numpy as np
 
+from ..teeth.forms import outline_for
 from ..teeth.outline import WheelOutline
-from ..teeth.spec import ToothSpec, outline_for
+from ..teeth.spec import ToothSpec
 from ..teeth.triangular_cut import TriangularCut
 from ._svg import esc, fmt
 
