@@ -173,7 +173,14 @@ def test_plates_hold_every_printed_part_inside_and_apart(built) -> None:
         elif isinstance(part, PillarPart):
             assert h == pytest.approx(part.length, abs=1e-3), name
         elif isinstance(part, ArborPart):
-            assert h == pytest.approx(part.diameter, abs=0.02), name  # lying
+            # lying: as high as its largest diameter (a collar or shoulder), measured
+            # on its own STL about its axis
+            v, _ = read_stl(out / "stl" / f"{name}.stl")
+            largest = 2 * float(np.hypot(v[:, 0], v[:, 1]).max())
+            assert largest >= part.diameter - 1e-6
+            # the mesh is within its 0.01 mm chord tolerance of the circle: lying, no
+            # vertex need be at the very top
+            assert h == pytest.approx(largest, abs=0.011), name
     sheet = (out / "print.csv").read_text()
     assert "lay,arbor,not printed: cut from stock rod" in sheet
 
