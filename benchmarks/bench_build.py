@@ -24,7 +24,7 @@ import cadquery  # noqa: E402, F401  (imported up front: its start-up is not mea
 from wheelgen.export.build import BuildOptions, build_design  # noqa: E402
 from wheelgen.export.mesh import mesh_shape, write_stl  # noqa: E402
 from wheelgen.export.step import write_step  # noqa: E402
-from wheelgen.layout.part_plan import WheelPart  # noqa: E402
+from wheelgen.layout.part_kinds import WheelPart  # noqa: E402
 from wheelgen.solids.wheel import make_wheel  # noqa: E402
 from wheelgen.teeth.spec import ToothSpec  # noqa: E402
 

@@ -48,7 +48,7 @@ def long_train(arbors: int = 20) -> str:
 def bench(design, label: str, runs: int = 3) -> None:
     from wheelgen.frame.checks import findings_for_frame
     from wheelgen.frame.plan import _plan
-    from wheelgen.layout.plan import plan_layout
+    from wheelgen.layout.train_layout import plan_layout
 
     layout = plan_layout(design)
     best = float("inf")

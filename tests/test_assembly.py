@@ -2,7 +2,7 @@
 
 Truth, outside the code under test: the replay below is its own model, written from
 the parts' fields (derived: a part's frame has its back face at z = 0 along +Z, the
-contract of ``wheelgen.layout.part_plan``). Each step moves the part named, with every
+contract of ``wheelgen.layout.part_kinds``). Each step moves the part named, with every
 part fitted onto it before (a made-up arbor), along its axis from the side its action
 names, onto what its ``onto`` column names. On one axis, a moving length may pass a
 fixed one only over it (the fixed length no larger across than the moving one's bore;
@@ -24,7 +24,7 @@ import pytest
 
 from tests._demo import DEMO_TEXT
 from wheelgen.design import load_design, loads_design
-from wheelgen.layout.part_plan import (
+from wheelgen.layout.part_kinds import (
     ArborPart,
     CockPart,
     CollarPart,

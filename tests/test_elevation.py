@@ -3,7 +3,7 @@
 Truth, outside the code under test:
 
 - heights: every part's frame has its back face at z = 0 along +Z (the parts'
-  contract, ``wheelgen.layout.part_plan``), so a wheel spans its placement's z to z
+  contract, ``wheelgen.layout.part_kinds``), so a wheel spans its placement's z to z
   plus its face width (and hub), a plate its thickness, a dial disc from its feet'
   length to that plus its thickness, a hand its thickness (derived: from the part's
   own fields, not from the drawing code);
@@ -22,7 +22,7 @@ import pytest
 
 from tests._demo import DEMO_TEXT
 from wheelgen.design import loads_design
-from wheelgen.layout.part_plan import (
+from wheelgen.layout.part_kinds import (
     ArborPart,
     CollarPart,
     DialPart,

@@ -21,7 +21,7 @@ from wheelgen.export.output_folder import (  # noqa: E402
     OutputFolderError,
 )
 from wheelgen.export.staging import UnsafeNameError  # noqa: E402
-from wheelgen.layout.part_plan import (  # noqa: E402
+from wheelgen.layout.part_kinds import (  # noqa: E402
     BOUGHT_KINDS,
     FLAT_KINDS,
     TURNED_KINDS,

@@ -15,7 +15,7 @@ import numpy as np
 import pytest
 
 from wheelgen.export.svg_template import SCALE_BAR_MM, write_svg
-from wheelgen.layout.part_plan import WheelPart
+from wheelgen.layout.part_kinds import WheelPart
 from wheelgen.layout.wheel_profile import plate_profile
 from wheelgen.teeth.forms import outline_for
 from wheelgen.teeth.spec import ToothSpec

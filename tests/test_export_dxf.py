@@ -31,7 +31,7 @@ from wheelgen.export.biarcs import biarc_segments
 from wheelgen.export.build import BuildOptions, build_design
 from wheelgen.export.dxf import write_dxf
 from wheelgen.export.formats import DXF_CURVES
-from wheelgen.layout.part_plan import PinBoss, SlotCut, WheelPart
+from wheelgen.layout.part_kinds import PinBoss, SlotCut, WheelPart
 from wheelgen.layout.wheel_profile import plate_profile
 from wheelgen.parts import plan_parts
 from wheelgen.solids.spline_fit import SPLINE_FIT_TOLERANCE, fit_segments

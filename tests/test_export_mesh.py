@@ -17,7 +17,7 @@ sys.path.insert(0, str(Path(__file__).parent))
 from _solids_helpers import involute_half_angle, involute_outline  # noqa: E402
 
 from wheelgen.export.mesh import mesh_shape, read_stl, write_3mf, write_stl  # noqa: E402
-from wheelgen.layout.part_plan import (  # noqa: E402
+from wheelgen.layout.part_kinds import (  # noqa: E402
     ArborPart,
     PinBoss,
     SleevePart,

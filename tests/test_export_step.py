@@ -19,7 +19,7 @@ from _dxf_readback import distance_to_loops  # noqa: E402
 from OCP.BRepExtrema import BRepExtrema_DistShapeShape  # noqa: E402
 
 from wheelgen.export.step import compact_step, write_step  # noqa: E402
-from wheelgen.layout.part_plan import WheelPart  # noqa: E402
+from wheelgen.layout.part_kinds import WheelPart  # noqa: E402
 from wheelgen.solids.spline_fit import SPLINE_FIT_TOLERANCE  # noqa: E402
 from wheelgen.solids.wheel import make_wheel  # noqa: E402
 from wheelgen.teeth.forms import outline_for  # noqa: E402

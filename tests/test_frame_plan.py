@@ -25,8 +25,8 @@ from wheelgen.design import DesignError, load_design, loads_design
 from wheelgen.frame import frame_findings, frame_parts, plan_frame
 from wheelgen.frame.outline import edges_polyline, outline_distance
 from wheelgen.layout.collisions import inside_polygon
-from wheelgen.layout.part_plan import ArborPart, BearingPart, PillarPart, ScrewPart
-from wheelgen.layout.plan import plan_layout
+from wheelgen.layout.part_kinds import ArborPart, BearingPart, PillarPart, ScrewPart
+from wheelgen.layout.train_layout import plan_layout
 from wheelgen.parts import plan_parts
 
 DATA = Path(__file__).parent / "data"

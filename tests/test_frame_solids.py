@@ -27,7 +27,7 @@ pytest.importorskip("cadquery")
 from tests._assembly import placed_solids, shared_volumes  # noqa: E402
 from wheelgen.design import load_design  # noqa: E402
 from wheelgen.export.build import BuildOptions, build_design  # noqa: E402
-from wheelgen.layout.part_plan import BOUGHT_KINDS  # noqa: E402
+from wheelgen.layout.part_kinds import BOUGHT_KINDS  # noqa: E402
 from wheelgen.parts import plan_parts  # noqa: E402
 
 pytestmark = pytest.mark.cad
@@ -74,7 +74,7 @@ def _chart(out: Path, plate: str) -> list[dict[str, str]]:
 
 
 def _datum(design) -> tuple[float, float]:
-    from wheelgen.layout.plan import plan_layout
+    from wheelgen.layout.train_layout import plan_layout
 
     return plan_layout(design).position(design.drive.arbor)
 

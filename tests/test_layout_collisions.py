@@ -139,7 +139,7 @@ def test_carried_wheel_sweeps_round_its_carrier(post_y, depth):
 def test_carrier_wheel_gets_a_running_bore_for_the_carried_arbor():
     # the layout's own parts, before the arbors are finished as made (collars for end
     # shake lengthen them: tests/test_turning.py)
-    from wheelgen.layout.parts import train_parts
+    from wheelgen.layout.train_parts import train_parts
 
     parts = {p.name: p for p in train_parts(planet(42.5))}
     # planet arbor 3 mm (default): hole in the middle of H7, 3.000..3.010 mm (ISO 286-2,

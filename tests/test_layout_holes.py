@@ -16,7 +16,7 @@ from pathlib import Path
 from tests._demo import DEMO_TEXT, demo_text
 from wheelgen.checks import run_checks
 from wheelgen.design import load_design, loads_design
-from wheelgen.layout.part_plan import WheelPart
+from wheelgen.layout.part_kinds import WheelPart
 from wheelgen.layout.wheel_profile import plate_profile
 from wheelgen.parts import plan_parts
 from wheelgen.teeth.forms import outline_for

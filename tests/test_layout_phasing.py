@@ -1,7 +1,7 @@
 """Each wheel's angle at rest: every pair interleaves on its line of centres.
 
 The check is independent of the phasing rule: each wheel's generated outline is put
-where the parts put it (position and ``Placement.angle_deg``) and the two polygons of
+where the parts put it (position and ``Pose.angle_deg``) and the two polygons of
 every meshing pair are tested for overlap with matplotlib's point-in-polygon test. The
 same test at angle 0 finds overlaps, so it can fail.
 """
@@ -23,7 +23,7 @@ from wheelgen.cli import main
 from wheelgen.design import load_design, loads_design
 from wheelgen.design.model import Design
 from wheelgen.layout import plan_layout
-from wheelgen.layout.part_plan import WheelPart
+from wheelgen.layout.part_kinds import WheelPart
 from wheelgen.layout.phasing import rest_angles
 from wheelgen.layout.placement import arbor_positions
 from wheelgen.parts import plan_parts

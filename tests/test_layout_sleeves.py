@@ -8,8 +8,8 @@ import pytest
 
 from wheelgen.checks.layout_checks import layout_findings
 from wheelgen.design.loader import loads_design
-from wheelgen.layout.part_plan import ArborPart, SleevePart
-from wheelgen.layout.plan import plan_layout
+from wheelgen.layout.part_kinds import ArborPart, SleevePart
+from wheelgen.layout.train_layout import plan_layout
 from wheelgen.parts import plan_parts
 
 DATA = Path(__file__).parent / "data" / "layout"

@@ -28,7 +28,7 @@ from wheelgen.export.output_folder import (
     OutputFolderError,
     check_replaceable,
 )
-from wheelgen.layout.part_plan import WheelPart
+from wheelgen.layout.part_kinds import WheelPart
 from wheelgen.teeth.spec import ToothSpec
 
 DESIGN = Path(__file__).parent / "data" / "two_stage.toml"

@@ -18,7 +18,7 @@ from wheelgen.checks.pinslot_checks import (
     slot_travel_findings,
     wheel_root_radius,
 )
-from wheelgen.layout.part_plan import SlotCut
+from wheelgen.layout.part_kinds import SlotCut
 
 
 def _ids(findings, level=None):

@@ -9,7 +9,7 @@ from __future__ import annotations
 import pytest
 from _demo import demo_variant as _variant
 
-from wheelgen.layout.part_plan import Placement
+from wheelgen.layout.part_kinds import Pose
 from wheelgen.layout.pinslot_geometry import (
     MILL_SLOT_PLAY,
     SLOT_MARGIN,
@@ -69,7 +69,7 @@ def test_separate_pin_part():
     d = _variant(("pin_diameter = 1.5", 'pin_diameter = 1.5\npin_part = "separate"'))
     p = d.pinslots[0]
     assert pin_boss(d, p).hole_only
-    part = pin_part(d, p, Placement(x=10.0, y=-5.0, z=9.0, angle_deg=90.0))
+    part = pin_part(d, p, Pose(x=10.0, y=-5.0, z=9.0, angle_deg=90.0))
     assert part.name == "moon_coupling_pin"
     # derived: through the pin wheel (2) + gap (2) + slot wheel (1.5)
     assert part.length == pytest.approx(5.5)

@@ -30,7 +30,7 @@ import pytest
 from wheelgen.design import load_design
 from wheelgen.design.errors import DesignError
 from wheelgen.design.loader import loads_design
-from wheelgen.layout.part_plan import ArborPart, PillarPart, WheelPart
+from wheelgen.layout.part_kinds import ArborPart, PillarPart, WheelPart
 from wheelgen.parts import plan_parts
 from wheelgen.workshop.fit_coupon import fit_test_plan
 from wheelgen.workshop.print_plan import PART_SPACING, orientation, pack_beds

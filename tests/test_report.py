@@ -20,7 +20,7 @@ from _browser import screenshot
 from wheelgen.checks import analyse
 from wheelgen.design import load_design
 from wheelgen.findings import Finding
-from wheelgen.layout.part_plan import BOUGHT_KINDS
+from wheelgen.layout.part_kinds import BOUGHT_KINDS
 from wheelgen.parts import plan_parts
 from wheelgen.workshop.cutting import cutting_rows, cutting_sheet_writer
 from wheelgen.workshop.drilling import chart_holes

@@ -7,7 +7,7 @@ import math
 import numpy as np
 import pytest
 
-from wheelgen.layout.part_plan import (
+from wheelgen.layout.part_kinds import (
     ArborPart,
     PinBoss,
     PinPart,

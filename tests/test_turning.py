@@ -20,7 +20,7 @@ import pytest
 
 from tests._demo import DEMO_TEXT
 from wheelgen.design import load_design, loads_design
-from wheelgen.layout.part_plan import ArborPart, CollarPart, SleevePart, WheelPart
+from wheelgen.layout.part_kinds import ArborPart, CollarPart, SleevePart, WheelPart
 from wheelgen.parts import plan_parts
 from wheelgen.turning import turned_members
 from wheelgen.turning.limits import END_SHAKE

@@ -15,7 +15,7 @@ import pytest
 
 from tests._demo import DEMO_TEXT
 from wheelgen.design import loads_design
-from wheelgen.layout.part_plan import ArborPart, CollarPart, SleevePart
+from wheelgen.layout.part_kinds import ArborPart, CollarPart, SleevePart
 from wheelgen.parts import plan_parts
 from wheelgen.workshop._svg import fmt
 from wheelgen.workshop.turned_drawing import SCALE_BAR_MM, sheet_svg, turned_sheet

@@ -32,7 +32,7 @@ import numpy as np
 import pytest
 
 from wheelgen.design import load_design
-from wheelgen.layout.part_plan import WheelPart
+from wheelgen.layout.part_kinds import WheelPart
 from wheelgen.parts import plan_parts
 from wheelgen.teeth import gear_data
 from wheelgen.teeth.forms import outline_for

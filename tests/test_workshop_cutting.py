@@ -27,7 +27,7 @@ from pathlib import Path
 import pytest
 
 from wheelgen.design import load_design
-from wheelgen.layout.part_plan import ArborPart, WheelPart
+from wheelgen.layout.part_kinds import ArborPart, WheelPart
 from wheelgen.parts import plan_parts
 from wheelgen.teeth import gear_data
 from wheelgen.teeth.spec import ToothSpec

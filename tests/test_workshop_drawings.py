@@ -20,7 +20,7 @@ from wheelgen.design import load_design
 from wheelgen.kinematics import solve_rates
 from wheelgen.kinematics.angles import arbor_angles
 from wheelgen.layout import arbor_positions
-from wheelgen.layout.part_plan import BOUGHT_KINDS
+from wheelgen.layout.part_kinds import BOUGHT_KINDS
 from wheelgen.parts import plan_parts
 from wheelgen.workshop.layout_drawing import axis_centres, layout_svg
 from wheelgen.workshop.motion_plot import deviation_curve, motion_plot_svg

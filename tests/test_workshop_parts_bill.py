@@ -17,7 +17,13 @@ import pytest
 from wheelgen.design import load_design
 from wheelgen.display import display_plan
 from wheelgen.layout import train_parts
-from wheelgen.layout.part_plan import ArborPart, PinBoss, PinPart, SleevePart, WheelPart
+from wheelgen.layout.part_kinds import (
+    ArborPart,
+    PinBoss,
+    PinPart,
+    SleevePart,
+    WheelPart,
+)
 from wheelgen.teeth import gear_data
 from wheelgen.teeth.spec import ToothSpec
 from wheelgen.workshop.parts_bill import (

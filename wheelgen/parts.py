@@ -7,7 +7,7 @@ frame's holes and screw heads and add their pins' holes to the front plate. Last
 arbor and tube is finished as made on that frame, with its collars
 (:func:`wheelgen.turning.turned_parts`). This module puts them together, so that no
 layer has to call one planned after it. Part kinds are in
-:mod:`wheelgen.layout.part_plan`; lengths in mm, angles in degrees.
+:mod:`wheelgen.layout.part_kinds`; lengths in mm, angles in degrees.
 """
 
 from __future__ import annotations
@@ -15,8 +15,8 @@ from __future__ import annotations
 from .design.model import Design
 from .display.plan import display_plan
 from .frame.parts import frame_parts, to_cocks
-from .layout.part_plan import Part
-from .layout.parts import train_parts
+from .layout.part_kinds import Part
+from .layout.train_parts import train_parts
 from .turning import turned_parts
 
 __all__ = ["plan_parts"]

@@ -20,8 +20,8 @@ from ..layout.centres import MeshCentres, Move, centres_fit, mesh_centres, move_
 from ..layout.collisions import Clash, PinClash, find_clashes, find_pin_clashes
 from ..layout.phasing import rest_angles
 from ..layout.placement import LOOP_TOLERANCE, LoopMismatch
-from ..layout.plan import Layout, plan_layout
 from ..layout.stacking import HiddenSeat, wheel_extent
+from ..layout.train_layout import Layout, plan_layout
 from ..teeth.limits import short_of
 from ..teeth.mesh_data import shift_for_centre_distance
 from .analysis import Analysis

@@ -29,7 +29,7 @@ from ..kinematics.pinslot_motion import (
     pin_distance,
     transmission_angle_deg,
 )
-from ..layout.part_plan import SlotCut
+from ..layout.part_kinds import SlotCut
 from ..layout.pinslot_geometry import MILL_SLOT_PLAY, pin_boss, slot_cut
 from ..layout.placement import tooth_spec
 from ..layout.sleeves import size_sleeves, wheel_bore

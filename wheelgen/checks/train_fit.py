@@ -51,7 +51,7 @@ from ..kinematics.snippet import (
 )
 from ..layout.collisions import nominal_tip_radius
 from ..layout.placement import working_centre_distance
-from ..layout.plan import plan_layout
+from ..layout.train_layout import plan_layout
 from ..teeth.mesh_data import shift_for_centre_distance, shifted_centre_distance
 from ..teeth.spec import ToothSpec
 from .layout_checks import layout_findings

@@ -38,7 +38,7 @@ from ..design.periods import format_period
 from ..findings import Change, Finding
 from ..kinematics.angles import angle_model
 from ..kinematics.rates import axis_root
-from ..layout.plan import plan_layout
+from ..layout.train_layout import plan_layout
 from .motion import hand_angles_deg, joint_cycle_turns
 from .plan import DIAL_CLEARANCE, DisplayPlan, HandPlan, display_plan
 

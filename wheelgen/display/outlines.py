@@ -20,7 +20,7 @@ from typing import Iterator
 
 import numpy as np
 
-from ..layout.part_plan import CrankPart, DialPart, HandPart, KnobPart
+from ..layout.part_kinds import CrankPart, DialPart, HandPart, KnobPart
 from ..layout.sleeves import FLAT_DEPTH
 from ..layout.wheel_profile import Hole, _polygon_hole
 from ..teeth.outline import Segment

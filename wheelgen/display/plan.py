@@ -34,16 +34,16 @@ from ..frame.holes import FrameHole
 from ..kinematics.rates import axis_root, solve_rates
 from ..kinematics.targets import arbor_period, arbor_sense
 from ..layout.front import Level, dial_gap, dial_thickness, nesting_depth
-from ..layout.part_plan import (
+from ..layout.part_kinds import (
     CrankPart,
     DialPart,
     HandPart,
     ItemSeat,
     KnobPart,
-    Placement,
+    Pose,
 )
-from ..layout.plan import Layout, plan_layout
 from ..layout.sleeves import seat_factor
+from ..layout.train_layout import Layout, plan_layout
 from .graduations import Scale, dial_scale, mark_angle_deg
 
 __all__ = [
@@ -447,7 +447,7 @@ class _Planner:
             circles=circles,
             strokes=strokes,
             texts=texts,
-            placement=Placement(pos[0], pos[1], self.levels.front_face, 0.0),
+            placement=Pose(pos[0], pos[1], self.levels.front_face, 0.0),
         )
         return DialPlan(part, root, z0, z1, tuple(rings), plate_holes)
 
@@ -596,7 +596,7 @@ class _Planner:
             collet_length=round(level.z1 - level.z0 - level.thickness, 6)
             if shape == "collet"
             else 0.0,
-            placement=Placement(pos[0], pos[1], level.z0, round(angle % 360.0, 9)),
+            placement=Pose(pos[0], pos[1], level.z0, round(angle % 360.0, 9)),
         )
         return HandPlan(part, level, dial, ring, rate)
 
@@ -620,7 +620,7 @@ class _Planner:
             d = max(d, hub)
             part: KnobPart | CrankPart = KnobPart(
                 name, level.member, d, level.thickness, shape, across, clearance,
-                _corner(design), Placement(pos[0], pos[1], level.z0, 0.0),
+                _corner(design), Pose(pos[0], pos[1], level.z0, 0.0),
             )  # fmt: skip
             return InputPlan(part, level, d / 2)
         handle = inp.diameter if inp.diameter is not None else CRANK_HANDLE_DIAMETER
@@ -631,7 +631,7 @@ class _Planner:
         part = CrankPart(
             name, level.member, throw, max(hub, arm), arm, level.thickness, handle,
             level.z1 - level.z0 - level.thickness, back, shape, across, clearance,
-            _corner(design), Placement(pos[0], pos[1], z, 0.0),
+            _corner(design), Pose(pos[0], pos[1], z, 0.0),
         )  # fmt: skip
         return InputPlan(part, level, throw + max(handle, arm) / 2)
 

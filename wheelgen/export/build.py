@@ -36,7 +36,7 @@ from typing import Any
 from ..design.bounds import BOUNDS
 from ..design.names import name_key
 from ..design.units import UNITS, Lengths
-from ..layout.part_plan import BOUGHT_KINDS, DISPLAY_KINDS, FLAT_KINDS, TURNED_KINDS
+from ..layout.part_kinds import BOUGHT_KINDS, DISPLAY_KINDS, FLAT_KINDS, TURNED_KINDS
 from ..version import __version__
 from . import sheets
 from .cache import CacheUnusable, DamagedEntry, PartCache, cache_root_for, part_key

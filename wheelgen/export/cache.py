@@ -39,7 +39,7 @@ import time
 from pathlib import Path
 from typing import Any
 
-from ..layout.part_plan import Part
+from ..layout.part_kinds import Part
 from ..version import __version__
 
 __all__ = [

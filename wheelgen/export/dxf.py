@@ -43,7 +43,7 @@ from ezdxf.enums import TextEntityAlignment
 from ezdxf.math import Matrix44
 
 from ..design.units import MM_PER_INCH, UNITS
-from ..layout.part_plan import PlatePart
+from ..layout.part_kinds import PlatePart
 from ..layout.wheel_profile import Hole, PlateProfile
 from ..solids.spline_fit import SplineFit, fit_segments
 from ..teeth.outline import Segment, WheelOutline, circle_through
@@ -94,7 +94,7 @@ FLAT_LAYERS: dict[str, int] = {
     "CENTRE": 3,
     "ENGRAVE": 6,
 }
-#: A dial's engraving (see :class:`wheelgen.layout.part_plan.DialPart`): circles
+#: A dial's engraving (see :class:`wheelgen.layout.part_kinds.DialPart`): circles
 #: (radius, width), strokes (angle, radius from, radius to, width) and texts (x, y,
 #: height, turn in degrees, text); mm and degrees.
 Engraving = tuple[

@@ -19,7 +19,7 @@ import numpy as np
 
 from ..design.units import Lengths
 from ..display.outlines import FlatProfile
-from ..layout.part_plan import DialPart
+from ..layout.part_kinds import DialPart
 from .svg_template import _esc, _fmt, _path_d, _scale_bar
 
 __all__ = ["write_face_svg"]

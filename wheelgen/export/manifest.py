@@ -20,7 +20,7 @@ from typing import Any
 
 from ..design.model import Design
 from ..findings import Finding
-from ..layout.part_plan import Part
+from ..layout.part_kinds import Part
 from ..version import __version__
 from ..workshop.file_sizes import part_file, size_summary
 from .cache import part_parameters

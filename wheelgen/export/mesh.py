@@ -37,11 +37,11 @@ from OCP.TopTools import TopTools_IndexedMapOfShape
 from .formats import MESH_TOLERANCE
 from .mesh_files import STL_DTYPE, read_stl, write_3mf_objects
 
-__all__ = ["Mesh", "mesh_shape", "read_stl", "write_3mf", "write_stl"]
+__all__ = ["TriangleMesh", "mesh_shape", "read_stl", "write_3mf", "write_stl"]
 
 
 @dataclass(frozen=True, slots=True, eq=False)
-class Mesh:
+class TriangleMesh:
     """Welded mesh: ``vertices`` (n, 3) in mm, ``triangles`` (m, 3), counter-clockwise
     seen from outside."""
 
@@ -177,7 +177,7 @@ def _strip(
     return nodes, t
 
 
-def _weld(points: list[np.ndarray], tris: list[np.ndarray]) -> Mesh:
+def _weld(points: list[np.ndarray], tris: list[np.ndarray]) -> TriangleMesh:
     offsets = np.cumsum([0] + [len(p) for p in points[:-1]])
     allv = np.vstack(points)
     allf = np.vstack([t + o for t, o in zip(tris, offsets)])
@@ -189,7 +189,7 @@ def _weld(points: list[np.ndarray], tris: list[np.ndarray]) -> Mesh:
         & (faces[:, 1] != faces[:, 2])
         & (faces[:, 0] != faces[:, 2])
     )
-    return Mesh(unique, faces[keep])
+    return TriangleMesh(unique, faces[keep])
 
 
 def _faces(shape: TopoDS_Shape) -> list[TopoDS_Face]:
@@ -201,7 +201,9 @@ def _faces(shape: TopoDS_Shape) -> list[TopoDS_Face]:
     return out
 
 
-def _fast_mesh(shape: TopoDS_Shape, tolerance: float, angular_deg: float) -> Mesh:
+def _fast_mesh(
+    shape: TopoDS_Shape, tolerance: float, angular_deg: float
+) -> TriangleMesh:
     faces = _faces(shape)
     edge_map = TopTools_IndexedMapOfShape()
     TopExp.MapShapes_s(shape, TopAbs_EDGE, edge_map)
@@ -263,7 +265,7 @@ def _fast_mesh(shape: TopoDS_Shape, tolerance: float, angular_deg: float) -> Mes
 
 def mesh_shape(
     shape: cq.Shape, tolerance: float = MESH_TOLERANCE, angular_deg: float = 30.0
-) -> Mesh:
+) -> TriangleMesh:
     """Mesh ``shape`` so that no chord strays more than ``tolerance`` mm from it.
 
     ``angular_deg`` bounds the turn between neighbouring facets (degrees). Prism sides
@@ -290,7 +292,7 @@ def _normals(v: np.ndarray, f: np.ndarray) -> np.ndarray:
     return unit
 
 
-def write_stl(mesh: Mesh, path: Path, name: str) -> Path:
+def write_stl(mesh: TriangleMesh, path: Path, name: str) -> Path:
     """Binary STL in mm; the 80-byte header names the part and the unit."""
     header = f"wheelgen {name} mm".encode("ascii", "replace")[:80].ljust(80, b" ")
     rec = np.zeros(len(mesh.triangles), dtype=STL_DTYPE)
@@ -303,6 +305,6 @@ def write_stl(mesh: Mesh, path: Path, name: str) -> Path:
     return path
 
 
-def write_3mf(mesh: Mesh, path: Path, name: str) -> Path:
+def write_3mf(mesh: TriangleMesh, path: Path, name: str) -> Path:
     """A 3MF package in millimetres; fixed zip dates: equal meshes, equal bytes."""
     return write_3mf_objects(path, name, [(name, mesh.vertices, mesh.triangles)])

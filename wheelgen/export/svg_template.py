@@ -16,7 +16,7 @@ import numpy as np
 
 from ..design.names import xml_text
 from ..design.units import MM, Lengths
-from ..layout.part_plan import PlatePart
+from ..layout.part_kinds import PlatePart
 from ..layout.wheel_profile import PlateProfile
 
 __all__ = ["SCALE_BAR_MM", "write_plate_svg", "write_svg"]

@@ -219,7 +219,7 @@ def _held(plan: FramePlan) -> list[Finding]:
 
 
 def _spans(design: Design) -> dict[str, tuple[str, ...]]:
-    from ..layout.plan import plan_layout
+    from ..layout.train_layout import plan_layout
 
     layout = plan_layout(design)
     return {

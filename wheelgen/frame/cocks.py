@@ -37,8 +37,8 @@ from dataclasses import dataclass
 import numpy as np
 
 from ..design.model import Design
-from ..layout.plan import Layout
 from ..layout.sleeves import coaxial_groups
+from ..layout.train_layout import Layout
 from .holes import FrameHole, pivot_stock, seat_hole
 from .keepout import Zone, bar_gap, disc_gap, zones_between
 from .limits import FrameLimits, min_centre_distance

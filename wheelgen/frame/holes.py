@@ -26,8 +26,8 @@ from dataclasses import dataclass
 
 from ..design.model import Design, Stock
 from ..layout.fits import limit_deviations
-from ..layout.plan import Layout
 from ..layout.sleeves import coaxial_groups, running_bore, stock_fits
+from ..layout.train_layout import Layout
 
 __all__ = ["FrameHole", "held_hole", "member_holes", "pivot_stock"]
 

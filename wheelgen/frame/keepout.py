@@ -26,7 +26,7 @@ import numpy as np
 from ..kinematics.rates import axis_root
 from ..layout.collisions import bodies, outline_radius, pin_sweeps
 from ..layout.placement import tooth_spec
-from ..layout.plan import Layout
+from ..layout.train_layout import Layout
 
 __all__ = [
     "Zone",

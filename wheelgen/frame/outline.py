@@ -4,7 +4,7 @@ A plate's outline is either found round what it must carry, as the rounded hull 
 of circles (:func:`rounded_hull`: the convex hull of the circles, every corner an arc of
 one of them and every side a line tangent to two), or given as a rectangle or a polygon
 whose corners are rounded (:func:`rectangle_outline`, :func:`polygon_outline`). Every
-outline is a closed chain of :class:`~wheelgen.layout.part_plan.FlatEdge` running
+outline is a closed chain of :class:`~wheelgen.layout.part_kinds.FlatEdge` running
 counter-clockwise, the form a solid, a DXF and an SVG are drawn from alike.
 
 Which circles bound the hull, in order, is found from the support function on 4096
@@ -24,7 +24,7 @@ from collections.abc import Sequence
 
 import numpy as np
 
-from ..layout.part_plan import FlatEdge
+from ..layout.part_kinds import FlatEdge
 from ..layout.proximity import overlapping_pairs
 
 __all__ = [

@@ -1,7 +1,7 @@
 """The frame's parts as plain numbers.
 
 :func:`frame_parts` turns the frame plan (:func:`wheelgen.frame.plan.plan_frame`) into
-part-plan entries (:mod:`wheelgen.layout.part_plan`): the two plates, the pillars, the
+part-plan entries (:mod:`wheelgen.layout.part_kinds`): the two plates, the pillars, the
 cocks, and the bought screws and bushes or bearings, each placed where it goes.
 :func:`to_cocks` lengthens the train's arbors that reach out to a cock. Every part of
 a design is :func:`wheelgen.parts.plan_parts`. Lengths in mm.
@@ -14,15 +14,15 @@ from dataclasses import replace
 
 from ..design.model import Design
 from ..design.screws import screw
-from ..layout.part_plan import (
+from ..layout.part_kinds import (
     ArborPart,
     BearingPart,
     CockPart,
     FlatHole,
     Part,
     PillarPart,
-    Placement,
     PlatePart,
+    Pose,
     ScrewPart,
 )
 from .holes import FrameHole
@@ -39,9 +39,7 @@ def _plates(plan: FramePlan, extra: tuple[FrameHole, ...]) -> list[Part]:
             for h in p.holes + tuple(h for h in extra if h.plate == p.side)
         )
         out.append(
-            PlatePart(
-                p.name, p.thickness, plan.outline, holes, Placement(0.0, 0.0, p.z0)
-            )
+            PlatePart(p.name, p.thickness, plan.outline, holes, Pose(0.0, 0.0, p.z0))
         )
     return out
 
@@ -60,13 +58,13 @@ def _pillars(plan: FramePlan) -> list[Part]:
             part = PillarPart(
                 p.name, lim.pillar_diameter, front - back, lim.spigot, t, t,
                 front_hole=tap, front_depth=depth,
-                placement=Placement(p.x, p.y, back - t),
+                placement=Pose(p.x, p.y, back - t),
             )  # fmt: skip
         else:
             part = PillarPart(
                 p.name, lim.pillar_diameter, front - back,
                 back_hole=tap, back_depth=depth, front_hole=tap, front_depth=depth,
-                placement=Placement(p.x, p.y, back),
+                placement=Pose(p.x, p.y, back),
             )  # fmt: skip
         out.append(part)
     return out
@@ -91,7 +89,7 @@ def _cocks(plan: FramePlan) -> list[Part]:
                 screw_hole=lim.screw.tap_drill,
                 screw_depth=round(min(height, lim.pillar_hole_depth), 6),
                 hanging=hanging,
-                placement=Placement(
+                placement=Pose(
                     c.x, c.y, c.bar_z0 if hanging else c.foot_z0, c.angle_deg
                 ),
             )
@@ -107,7 +105,7 @@ def _bought(plan: FramePlan) -> list[Part]:
         out.append(
             ScrewPart(
                 s.name, s.size, s.length, size.head_diameter, size.head_height,
-                size.core, s.head_up, Placement(s.x, s.y, round(z, 6)),
+                size.core, s.head_up, Pose(s.x, s.y, round(z, 6)),
             )
         )  # fmt: skip
     for b in plan.bearings:
@@ -116,7 +114,7 @@ def _bought(plan: FramePlan) -> list[Part]:
         out.append(
             BearingPart(
                 b.name, st.inside, st.outside, st.width, st.kind,
-                Placement(b.x, b.y, b.z0),
+                Pose(b.x, b.y, b.z0),
             )
         )  # fmt: skip
     return out

@@ -28,8 +28,8 @@ import numpy as np
 
 from ..design.model import Design, Stock
 from ..design.screws import SCREW_LENGTHS
-from ..layout.part_plan import FlatEdge
-from ..layout.plan import Layout, plan_layout
+from ..layout.part_kinds import FlatEdge
+from ..layout.train_layout import Layout, plan_layout
 from .cocks import Cock, CockTrouble, arbor_zone, place_cocks
 from .holes import FrameHole, held_hole, member_holes, pivot_stock
 from .keepout import Zone, train_zones

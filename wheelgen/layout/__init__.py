@@ -3,9 +3,9 @@
 Pure numeric (never the CAD kernel). Lengths in mm, angles in degrees.
 """
 
-from .parts import train_parts as train_parts
 from .placement import arbor_positions as arbor_positions
-from .plan import plan_layout as plan_layout
+from .train_layout import plan_layout as plan_layout
+from .train_parts import train_parts as train_parts
 
 __all__ = [
     "arbor_positions",

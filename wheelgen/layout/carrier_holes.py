@@ -2,7 +2,7 @@
 
 A carried arbor turns in its carrier wheel: the wheel is bored for it with the running
 fit (mill, hand) or the print clearance, at the arbor's ``at`` (see
-:func:`wheelgen.layout.parts.carried_holes`); a spoked wheel is turned so that an arm
+:func:`wheelgen.layout.train_parts.carried_holes`); a spoked wheel is turned so that an arm
 carries the first hole. Each hole must keep a wall (``[process] min_wall``) of solid
 wheel all round: clear of the seat and any hub boss, below the tooth roots, and clear of
 every spoke window, slot, pin hole and other arbor hole. A hole that cannot is a
@@ -21,8 +21,8 @@ from ..design.process_limits import wall_minimum
 from ..teeth.forms import outline_for
 from ..teeth.limits import short_of
 from .collisions import signed_distance
-from .parts import carried_holes, wheel_part
-from .plan import Layout
+from .train_layout import Layout
+from .train_parts import carried_holes, wheel_part
 from .wheel_profile import plate_profile, seat_extent
 
 __all__ = ["HoleProblem", "carrier_hole_problems"]

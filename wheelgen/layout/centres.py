@@ -19,8 +19,8 @@ from ..design.process_limits import centre_tolerance
 from ..findings import Change
 from ..kinematics.rates import mesh_frame
 from ..teeth.limits import short_of
-from .placement import Link, Placing, mesh_centre_distance
-from .plan import Layout, plan_layout
+from .placement import AxisPositions, Link, mesh_centre_distance
+from .train_layout import Layout, plan_layout
 
 __all__ = [
     "MeshCentres",
@@ -137,7 +137,7 @@ def _solve(
     return min(good, key=lambda p: math.dist(p, here)) if good else None
 
 
-def _descendants(placing: Placing, axis: str) -> set[str]:
+def _descendants(placing: AxisPositions, axis: str) -> set[str]:
     """Axes placed, directly or not, from ``axis``: they move when it moves."""
     out: set[str] = set()
     for name in placing.order:

@@ -37,8 +37,8 @@ from ..teeth.forms import outline_for
 from ..teeth.spec import ToothSpec
 from .pinslot_geometry import pin_boss
 from .placement import nominal_tip_radius, tooth_spec
-from .plan import Layout
 from .proximity import overlapping_pairs
+from .train_layout import Layout
 
 __all__ = [
     "CONTACT_TOLERANCE",

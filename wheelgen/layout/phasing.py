@@ -22,7 +22,7 @@ meshes among the wheels themselves can make the condition impossible; its misfit
 reported. Angles in degrees, counter-clockwise seen from the front.
 
 A pin-and-slot coupling adds no condition: the pin and the slot are cut where the rest
-position needs them in each wheel's own frame (see :mod:`wheelgen.layout.parts`).
+position needs them in each wheel's own frame (see :mod:`wheelgen.layout.train_parts`).
 """
 
 from __future__ import annotations
@@ -33,7 +33,7 @@ from dataclasses import dataclass
 from functools import lru_cache
 
 from ..design.model import Design, Mesh
-from .plan import Layout, plan_layout
+from .train_layout import Layout, plan_layout
 
 __all__ = [
     "PhaseMisfit",
@@ -166,7 +166,7 @@ def _phasing(design: Design) -> Phasing:
 def rest_angles(design: Design) -> Phasing:
     """The phasing of ``design``'s own layout (cached per design, which is frozen).
 
-    The one source of the rest angles: the parts (``Placement.angle_deg``), the
+    The one source of the rest angles: the parts (``Pose.angle_deg``), the
     animated preview and ``wheelgen motion`` all read them from here.
     """
     return _phasing(design)

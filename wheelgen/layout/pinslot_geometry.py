@@ -28,7 +28,7 @@ import math
 
 from ..design.model import Design, PinSlot
 from ..kinematics.pinslot_motion import check_offset
-from .part_plan import PinBoss, PinPart, Placement, SlotCut
+from .part_kinds import PinBoss, PinPart, Pose, SlotCut
 
 __all__ = [
     "SLOT_MARGIN",
@@ -121,7 +121,7 @@ def pin_boss(design: Design, pinslot: PinSlot) -> PinBoss:
 
 
 def pin_part(
-    design: Design, pinslot: PinSlot, wheel_placement: Placement | None = None
+    design: Design, pinslot: PinSlot, wheel_placement: Pose | None = None
 ) -> PinPart:
     """The separate pin (``pin_part = "separate"``), through the pin wheel and the slot.
 
@@ -137,9 +137,9 @@ def pin_part(
     boss = pin_boss(design, pinslot)
     face = design.wheel(pinslot.pin).face_width
     if wheel_placement is None:
-        wheel_placement = Placement()
+        wheel_placement = Pose()
     turn = math.radians(wheel_placement.angle_deg + boss.angle_deg)
-    where = Placement(
+    where = Pose(
         x=wheel_placement.x + boss.radius * math.cos(turn),
         y=wheel_placement.y + boss.radius * math.sin(turn),
         z=wheel_placement.z,

@@ -29,7 +29,7 @@ __all__ = [
     "Link",
     "LinkKind",
     "LoopMismatch",
-    "Placing",
+    "AxisPositions",
     "arbor_positions",
     "mesh_centre_distance",
     "nominal_tip_radius",
@@ -133,7 +133,7 @@ class LoopMismatch:
 
 
 @dataclass(frozen=True, slots=True)
-class Placing:
+class AxisPositions:
     """Placed axis roots (mm, carriers at angle 0), the route to each, and loop misfits.
 
     ``placed_by[axis]`` is the rule that placed the axis and the way it was used
@@ -200,7 +200,7 @@ def _links(design: Design) -> list[Link]:
     return links
 
 
-def place_axes(design: Design, tolerance: float = LOOP_TOLERANCE) -> Placing:
+def place_axes(design: Design, tolerance: float = LOOP_TOLERANCE) -> AxisPositions:
     """Place every axis root; report each loop that fails to close within ``tolerance`` mm.
 
     Axes that nothing places are left out (the loader refuses such designs).
@@ -249,7 +249,7 @@ def place_axes(design: Design, tolerance: float = LOOP_TOLERANCE) -> Placing:
     del pos[_ORIGIN], route[_ORIGIN]
     # sub-nanometre float noise (6.8e-15 from cos 180 deg) would print as "-0.0000"
     clean = {k: (round(x, 9) + 0.0, round(y, 9) + 0.0) for k, (x, y) in pos.items()}
-    return Placing(clean, route, tuple(mismatches), placed_by, tuple(order))
+    return AxisPositions(clean, route, tuple(mismatches), placed_by, tuple(order))
 
 
 def arbor_positions(design: Design) -> dict[str, tuple[float, float]]:

@@ -17,7 +17,7 @@ from typing import Literal
 import numpy as np
 
 from ..teeth.outline import Segment, SegmentKind, WheelOutline
-from .part_plan import WheelPart
+from .part_kinds import WheelPart
 
 __all__ = [
     "Hole",

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import cadquery as cq
 
-from ..layout.part_plan import ArborPart, CollarPart, PinPart
+from ..layout.part_kinds import ArborPart, CollarPart, PinPart
 
 __all__ = ["make_arbor", "make_collar", "make_pin", "round_bar"]
 

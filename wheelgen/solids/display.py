@@ -11,7 +11,7 @@ from __future__ import annotations
 import cadquery as cq
 
 from ..display.outlines import FlatProfile, flat_profile
-from ..layout.part_plan import CrankPart, DialPart, HandPart, KnobPart
+from ..layout.part_kinds import CrankPart, DialPart, HandPart, KnobPart
 from .profile import CadBuildError, chain_wire, hole_wire, holed_face, prism
 from .wheel import _boolean
 

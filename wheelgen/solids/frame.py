@@ -13,7 +13,7 @@ from collections.abc import Sequence
 
 import cadquery as cq
 
-from ..layout.part_plan import (
+from ..layout.part_kinds import (
     BearingPart,
     CockPart,
     FlatEdge,

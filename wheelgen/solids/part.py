@@ -5,7 +5,7 @@ from __future__ import annotations
 import cadquery as cq
 
 from ..design.model import Design
-from ..layout.part_plan import (
+from ..layout.part_kinds import (
     ArborPart,
     BearingPart,
     CockPart,

@@ -15,7 +15,7 @@ from collections.abc import Sequence
 
 import cadquery as cq
 
-from ..layout.part_plan import SleevePart
+from ..layout.part_kinds import SleevePart
 from ..layout.sleeves import seat_factor
 from ..layout.wheel_profile import Hole, _polygon_hole, cross_pin_diameter
 from .profile import CadBuildError, chain_wire, hole_wire, holed_face, prism

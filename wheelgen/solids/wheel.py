@@ -15,7 +15,7 @@ import cadquery as cq
 from OCP.BRepAlgoAPI import BRepAlgoAPI_Cut, BRepAlgoAPI_Fuse
 from OCP.BRepCheck import BRepCheck_Analyzer
 
-from ..layout.part_plan import WheelPart
+from ..layout.part_kinds import WheelPart
 from ..layout.wheel_profile import (
     Hole,
     PlateProfile,
@@ -144,7 +144,7 @@ def make_wheel(part: WheelPart, outline: WheelOutline | None = None) -> cq.Solid
     Parameters
     ----------
     part : WheelPart
-        All sizes in mm (see :mod:`wheelgen.layout.part_plan`).
+        All sizes in mm (see :mod:`wheelgen.layout.part_kinds`).
     outline : WheelOutline, optional
         The toothed outline; by default generated from ``part.tooth``.
     """

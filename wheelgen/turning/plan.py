@@ -31,7 +31,7 @@ works out how it is made and held along its axis. For every member:
    and the member's notes say so.
 
 Wheels and collars are fixed by the process's method (:func:`~wheelgen.turning.limits.
-fixing`). The collars become parts of their own (:class:`~wheelgen.layout.part_plan.
+fixing`). The collars become parts of their own (:class:`~wheelgen.layout.part_kinds.
 CollarPart`); the shoulders are turned on the member (its ``collars``).
 """
 
@@ -49,7 +49,7 @@ from ..design.model import Design
 from ..design.process_limits import wall_minimum
 from ..frame.keepout import Zone, disc_gap, train_zones, zones_between
 from ..kinematics.rates import axis_root
-from ..layout.part_plan import (
+from ..layout.part_kinds import (
     ArborPart,
     CollarPart,
     CrankPart,
@@ -57,13 +57,13 @@ from ..layout.part_plan import (
     HandPart,
     KnobPart,
     Part,
-    Placement,
+    Pose,
     SeatShape,
     SleevePart,
     TurnedSection,
 )
-from ..layout.plan import Layout, plan_layout
 from ..layout.sleeves import running_bore, seat_factor
+from ..layout.train_layout import Layout, plan_layout
 from .limits import (
     STOP_CLEARANCE,
     collar_length,
@@ -532,7 +532,7 @@ def _make(
                 outside=big,
                 length=round(b - a, 6),
                 fixing=fixing(proc),
-                placement=Placement(m.x, m.y, round(a, 6), 0.0),
+                placement=Pose(m.x, m.y, round(a, 6), 0.0),
                 bore_zone=hole_zone(proc),
                 bore_low=ring_bore.low,
                 bore_high=ring_bore.high,

@@ -38,7 +38,7 @@ from pathlib import Path
 from typing import Any, Sequence
 
 from ..design.model import Design
-from ..layout.part_plan import (
+from ..layout.part_kinds import (
     ArborPart,
     BearingPart,
     CockPart,

@@ -26,7 +26,7 @@ from pathlib import Path
 from typing import Any, Sequence
 
 from ..design.units import MM, Lengths, lengths_of
-from ..layout.part_plan import WheelPart
+from ..layout.part_kinds import WheelPart
 from ..teeth.gear_data import gear_data
 from ..teeth.triangular_cut import TriangularCut, triangular_cut
 from .cutter_drawing import cutter_svg

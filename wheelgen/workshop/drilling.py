@@ -34,7 +34,7 @@ from ..findings import has_errors
 from ..frame.holes import FrameHole
 from ..frame.plan import PLATES, FramePlan, plan_frame
 from ..kinematics.rates import axis_root
-from ..layout.plan import plan_layout
+from ..layout.train_layout import plan_layout
 from ._svg import esc
 
 __all__ = [

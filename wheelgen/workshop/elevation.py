@@ -23,7 +23,7 @@ from dataclasses import dataclass
 from pathlib import Path
 from typing import Any, Collection, Sequence
 
-from ..layout.part_plan import (
+from ..layout.part_kinds import (
     ArborPart,
     CockPart,
     CollarPart,

@@ -13,7 +13,7 @@ from dataclasses import dataclass
 from typing import Any, Sequence
 
 from ..design.process_limits import PRINT_WALL_LINES
-from ..layout.part_plan import ArborPart
+from ..layout.part_kinds import ArborPart
 from .print_plan import PART_SPACING
 
 __all__ = ["FIT_STEP", "FIT_STEPS", "FitTestPlan", "digit_bars", "fit_test_plan"]

@@ -16,7 +16,7 @@ import numpy as np
 
 from ..display.outlines import flat_profile
 from ..frame.outline import edges_polyline
-from ..layout.part_plan import (
+from ..layout.part_kinds import (
     ArborPart,
     CockPart,
     CollarPart,

@@ -33,7 +33,7 @@ from ..design.units import MM, MM_PER_INCH, Lengths, inch_fraction, lengths_of
 from ..display.outlines import FlatProfile, flat_profile
 from ..frame.outline import edges_polyline
 from ..frame.plan import plan_frame
-from ..layout.part_plan import (
+from ..layout.part_kinds import (
     ArborPart,
     BearingPart,
     CockPart,

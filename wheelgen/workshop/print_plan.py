@@ -30,7 +30,7 @@ from typing import Any, Sequence
 import numpy as np
 
 from ..checks.bed_check import EDGE_SPACING
-from ..layout.part_plan import BOUGHT_KINDS, ArborPart, PinPart
+from ..layout.part_kinds import BOUGHT_KINDS, ArborPart, PinPart
 from .stl_file import read_stl
 
 __all__ = [

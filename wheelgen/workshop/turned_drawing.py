@@ -20,7 +20,7 @@ import math
 from dataclasses import dataclass
 
 from ..design.units import MM, Lengths
-from ..layout.part_plan import ArborPart, CollarPart, SleevePart, TurnedSection
+from ..layout.part_kinds import ArborPart, CollarPart, SleevePart, TurnedSection
 from ..layout.wheel_profile import cross_pin_diameter
 from ._svg import esc, fmt
 

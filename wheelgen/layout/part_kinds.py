@@ -13,7 +13,7 @@ from typing import Literal, Union
 from ..teeth.spec import ToothSpec
 
 __all__ = [
-    "Placement",
+    "Pose",
     "SlotCut",
     "PinBoss",
     "WheelPart",
@@ -48,7 +48,7 @@ ItemSeat = Literal["square", "flat", "collet"]
 
 
 @dataclass(frozen=True, slots=True)
-class Placement:
+class Pose:
     """Where the part's frame sits in the assembly: origin (mm) and turn about Z (degrees)."""
 
     x: float = 0.0
@@ -109,7 +109,7 @@ class WheelPart:
     holes: tuple[
         tuple[float, float, float], ...
     ] = ()  # extra through holes (x, y, diameter)
-    placement: Placement = Placement()
+    placement: Pose = Pose()
     kind: Literal["wheel"] = "wheel"
     bore_fit: str = ""
     seat_angle_deg: float = 0.0
@@ -159,7 +159,7 @@ class ArborPart:
     name: str
     diameter: float
     length: float
-    placement: Placement = Placement()
+    placement: Pose = Pose()
     seats: tuple[tuple[float, float, SeatShape], ...] = ()
     kind: Literal["arbor"] = "arbor"
     collars: tuple[tuple[float, float, float], ...] = ()
@@ -185,7 +185,7 @@ class SleevePart:
     length: float
     seats: tuple[tuple[float, float, SeatShape], ...] = ()
     collars: tuple[tuple[float, float, float], ...] = ()  # (z_from, z_to, diameter)
-    placement: Placement = Placement()
+    placement: Pose = Pose()
     kind: Literal["sleeve"] = "sleeve"
     sections: tuple[TurnedSection, ...] = ()
     bore_zone: str = ""
@@ -209,7 +209,7 @@ class CollarPart:
     outside: float
     length: float
     fixing: str
-    placement: Placement = Placement()
+    placement: Pose = Pose()
     bore_zone: str = ""
     bore_low: float = 0.0
     bore_high: float = 0.0
@@ -223,7 +223,7 @@ class PinPart:
     name: str
     diameter: float
     length: float
-    placement: Placement = Placement()
+    placement: Pose = Pose()
     kind: Literal["pin"] = "pin"
 
 
@@ -261,7 +261,7 @@ class PlatePart:
     thickness: float
     outline: tuple[FlatEdge, ...]
     holes: tuple[FlatHole, ...]
-    placement: Placement = Placement()
+    placement: Pose = Pose()
     kind: Literal["plate"] = "plate"
 
 
@@ -285,7 +285,7 @@ class PillarPart:
     back_depth: float = 0.0
     front_hole: float = 0.0
     front_depth: float = 0.0
-    placement: Placement = Placement()
+    placement: Pose = Pose()
     kind: Literal["pillar"] = "pillar"
 
 
@@ -314,7 +314,7 @@ class CockPart:
     screw_hole: float
     screw_depth: float
     hanging: bool = False
-    placement: Placement = Placement()
+    placement: Pose = Pose()
     kind: Literal["cock"] = "cock"
 
 
@@ -331,7 +331,7 @@ class ScrewPart:
     head_height: float
     core: float
     head_up: bool = False
-    placement: Placement = Placement()
+    placement: Pose = Pose()
     kind: Literal["screw"] = "screw"
 
 
@@ -345,7 +345,7 @@ class BearingPart:
     outside: float
     width: float
     stock_kind: str
-    placement: Placement = Placement()
+    placement: Pose = Pose()
     kind: Literal["bearing"] = "bearing"
 
 
@@ -379,7 +379,7 @@ class HandPart:
     seat_angle_deg: float = 0.0
     collet: float = 0.0
     collet_length: float = 0.0
-    placement: Placement = Placement()
+    placement: Pose = Pose()
     kind: Literal["hand"] = "hand"
 
 
@@ -409,7 +409,7 @@ class DialPart:
     circles: tuple[tuple[float, float], ...] = ()
     strokes: tuple[tuple[float, float, float, float], ...] = ()
     texts: tuple[tuple[float, float, float, float, str], ...] = ()
-    placement: Placement = Placement()
+    placement: Pose = Pose()
     kind: Literal["dial"] = "dial"
 
 
@@ -425,7 +425,7 @@ class KnobPart:
     across: float
     clearance: float
     round_radius: float = 0.0
-    placement: Placement = Placement()
+    placement: Pose = Pose()
     kind: Literal["knob"] = "knob"
 
 
@@ -451,7 +451,7 @@ class CrankPart:
     across: float
     clearance: float
     round_radius: float = 0.0
-    placement: Placement = Placement()
+    placement: Pose = Pose()
     kind: Literal["crank"] = "crank"
 
 

@@ -1,4 +1,4 @@
-"""The train's parts, as plain numbers (:mod:`wheelgen.layout.part_plan`).
+"""The train's parts, as plain numbers (:mod:`wheelgen.layout.part_kinds`).
 
 Every wheel sits at its axis with its back face at its height, turned to its angle at
 rest (:mod:`wheelgen.layout.phasing`), so that every pair interleaves; what must meet
@@ -17,11 +17,11 @@ from dataclasses import replace
 
 from ..design.model import Design, Wheel
 from ..design.units import MM, Lengths, lengths_of
-from .part_plan import (
+from .part_kinds import (
     ArborPart,
     Part,
     PinBoss,
-    Placement,
+    Pose,
     SeatShape,
     SleevePart,
     SlotCut,
@@ -29,8 +29,8 @@ from .part_plan import (
 )
 from .phasing import rest_angles
 from .placement import tooth_spec
-from .plan import Layout, plan_layout
 from .sleeves import Bore, running_bore, wheel_bore
+from .train_layout import Layout, plan_layout
 
 __all__ = ["carried_holes", "train_parts", "wheel_part"]
 
@@ -99,7 +99,7 @@ def wheel_part(layout: Layout, wheel: Wheel) -> WheelPart:
         slot=slot,
         pin=pin,
         holes=tuple((x, y, d) for _, x, y, d in holes),
-        placement=Placement(pos[0], pos[1], wheel.height, phi),
+        placement=Pose(pos[0], pos[1], wheel.height, phi),
         bore_fit=_fit_text(bore, lengths_of(design)),
         seat_angle_deg=-phi if wheel.seat != "round" else 0.0,
         spoke_angle_deg=spoke_angle,
@@ -127,7 +127,7 @@ def train_parts(design: Design) -> tuple[Part, ...]:
     """
     layout = plan_layout(design)
     parts: list[Part] = []
-    placements: dict[str, Placement] = {}
+    placements: dict[str, Pose] = {}
     for w in design.wheels:
         part = wheel_part(layout, w)
         placements[w.name] = part.placement
@@ -137,7 +137,7 @@ def train_parts(design: Design) -> tuple[Part, ...]:
         pos = layout.position(a.name)
         if span is None or pos is None or span.length <= 0:
             continue
-        where = Placement(pos[0], pos[1], span.z0, 0.0)
+        where = Pose(pos[0], pos[1], span.z0, 0.0)
         items = _item_seats(layout, a.name, span.z0)
         if a.name in layout.sizes:
             size = layout.sizes[a.name]

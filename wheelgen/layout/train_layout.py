@@ -11,7 +11,7 @@ from functools import lru_cache
 
 from ..design.model import Design
 from ..kinematics.rates import axis_root
-from .placement import LOOP_TOLERANCE, Placing, place_axes
+from .placement import LOOP_TOLERANCE, AxisPositions, place_axes
 from .sleeves import SleeveSize, member_outside, size_sleeves
 from .stacking import Stacking, stack_axes
 
@@ -23,7 +23,7 @@ class Layout:
     """Positions of axis roots (mm, carriers at 0), sleeve sizes and the stacking."""
 
     design: Design
-    placing: Placing
+    placing: AxisPositions
     sizes: dict[str, SleeveSize]
     stacking: Stacking
 
