@@ -14,10 +14,10 @@ from pathlib import Path
 
 import numpy as np
 
-from ..design.names import xml_text
 from ..design.units import MM, Lengths
 from ..layout.part_kinds import PlatePart
 from ..layout.wheel_profile import PlateProfile
+from ..svg_text import esc, fmt, path_d
 
 __all__ = ["SCALE_BAR_MM", "write_plate_svg", "write_svg"]
 
@@ -29,18 +29,17 @@ _TEXT_BAND = 30.0  # room under the part for the labels and the scale bar (mm)
 
 
 def _fmt(v: float) -> str:
-    s = f"{v:.4f}".rstrip("0").rstrip(".")
-    return "0" if s in ("-0", "") else s
+    """A 1:1 template's number: to 0.1 micrometre."""
+    return fmt(v, 4)
 
 
 def _path_d(loop: np.ndarray) -> str:
-    # y is flipped once here: the drawing is seen from the front, +Y up on paper
-    pts = " ".join(f"{_fmt(x)},{_fmt(-y)}" for x, y in loop)
-    return f"M{pts}Z"
+    # y is flipped once, as in every drawing: seen from the front, +Y up on paper
+    return path_d([loop], 4)
 
 
 def _esc(text: str) -> str:
-    return xml_text(text, quote=False)
+    return esc(text, quote=False)
 
 
 def _pin_marks(

@@ -7,8 +7,7 @@ the front.
 
 from __future__ import annotations
 
-from html import escape  # light: xml.sax.saxutils pulls in urllib and http
-
+from ..svg_text import esc, fmt
 from .outline import WheelOutline
 
 __all__ = ["CIRCLE_STYLES", "outline_svg"]
@@ -44,37 +43,37 @@ def outline_svg(
     extent = max(float(abs(pts).max()), *outline.radii.values()) + margin
     size = 2 * extent
 
-    def fmt(v: float) -> str:
-        return f"{v:.4f}".rstrip("0").rstrip(".")
+    def num(v: float) -> str:
+        return fmt(v, 4)
 
-    path = "M" + " L".join(f"{fmt(x)} {fmt(-y)}" for x, y in pts) + " Z"
+    path = "M" + " L".join(f"{num(x)} {num(-y)}" for x, y in pts) + " Z"
     lines = [
         '<?xml version="1.0" encoding="UTF-8"?>',
         (
             '<svg xmlns="http://www.w3.org/2000/svg" version="1.1" '
-            f'width="{fmt(size)}mm" height="{fmt(size)}mm" '
-            f'viewBox="{fmt(-extent)} {fmt(-extent)} {fmt(size)} {fmt(size)}">'
+            f'width="{num(size)}mm" height="{num(size)}mm" '
+            f'viewBox="{num(-extent)} {num(-extent)} {num(size)} {num(size)}">'
         ),
     ]
     if title:
-        lines.append(f"<title>{escape(title)}</title>")
+        lines.append(f"<title>{esc(title)}</title>")
     if circles:
         for name, (colour, dash) in CIRCLE_STYLES.items():
             if name in outline.radii:
                 lines.append(
-                    f'<circle id="{name}" cx="0" cy="0" r="{fmt(outline.radii[name])}" '
+                    f'<circle id="{name}" cx="0" cy="0" r="{num(outline.radii[name])}" '
                     f'fill="none" stroke="{colour}" '
-                    f'stroke-width="{fmt(line_width / 2)}" '
+                    f'stroke-width="{num(line_width / 2)}" '
                     f'stroke-dasharray="{dash}"/>'
                 )
         arm = min(2.0, 0.1 * extent)
         lines.append(
-            f'<path id="centre" d="M{fmt(-arm)} 0 H{fmt(arm)} M0 {fmt(-arm)} '
-            f'V{fmt(arm)}" stroke="#000" stroke-width="{fmt(line_width / 2)}"/>'
+            f'<path id="centre" d="M{num(-arm)} 0 H{num(arm)} M0 {num(-arm)} '
+            f'V{num(arm)}" stroke="#000" stroke-width="{num(line_width / 2)}"/>'
         )
     lines.append(
         f'<path id="outline" d="{path}" fill="none" stroke="#000" '
-        f'stroke-width="{fmt(line_width)}" stroke-linejoin="round"/>'
+        f'stroke-width="{num(line_width)}" stroke-linejoin="round"/>'
     )
     lines.append("</svg>")
     return "\n".join(lines) + "\n"

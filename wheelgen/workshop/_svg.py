@@ -1,4 +1,7 @@
-"""Small helpers shared by the report's drawings: number format, escaping, palette.
+"""Small helpers shared by the report's drawings: the palette and polyline thinning.
+
+Numbers, points, paths and escaping come from :mod:`wheelgen.svg_text` (re-exported
+here), the one way every drawing of the project writes them.
 
 Every drawing is plain SVG text built in a fixed order, so the same design gives the
 same bytes. Drawings are seen from the front: +Y of the design is up on the page, so
@@ -7,11 +10,12 @@ y is flipped once, in :func:`pt`.
 
 from __future__ import annotations
 
-from typing import Iterable
-
 import numpy as np
 
-from ..design.names import xml_text
+from ..svg_text import esc as esc
+from ..svg_text import fmt as fmt
+from ..svg_text import path_d as path_d
+from ..svg_text import pt as pt
 
 __all__ = ["fmt", "esc", "pt", "path_d", "simplify", "PALETTE", "colour"]
 
@@ -31,31 +35,6 @@ PALETTE: tuple[str, ...] = (
 def colour(index: int) -> str:
     """A palette colour for the ``index``-th item (wraps round)."""
     return PALETTE[index % len(PALETTE)]
-
-
-def fmt(value: float, digits: int = 3) -> str:
-    """A short decimal: no trailing zeros, no ``-0``."""
-    s = f"{value:.{digits}f}".rstrip("0").rstrip(".")
-    return "0" if s in ("-0", "", "-") else s
-
-
-def esc(text: str) -> str:
-    """Text safe inside SVG or HTML element content and quoted attributes."""
-    return xml_text(text)
-
-
-def pt(x: float, y: float, digits: int = 3) -> str:
-    """``"x,y"`` in page units with y flipped (design +Y is up on the page)."""
-    return f"{fmt(x, digits)},{fmt(-y, digits)}"
-
-
-def path_d(loops: Iterable[np.ndarray], digits: int = 3) -> str:
-    """An SVG path ``d`` of closed polylines (``(n, 2)`` arrays in mm)."""
-    out = []
-    for loop in loops:
-        pts = " ".join(pt(float(x), float(y), digits) for x, y in loop)
-        out.append(f"M{pts}Z")
-    return " ".join(out)
 
 
 def simplify(points: np.ndarray, tol: float) -> np.ndarray:
