@@ -68,3 +68,18 @@ def test_cited_sections_of_the_references_exist() -> None:
                 if number not in headings:
                     missing.append(f"{path.relative_to(ROOT)}: section {number}")
     assert not missing, "\n".join(missing)
+
+
+def test_no_file_holds_a_merge_conflict_marker() -> None:
+    # a line that starts with seven '<', '>' or '=' (the last alone on its line) is what
+    # an unresolved merge leaves; spelled in pieces so this file holds none
+    marks = re.compile("^(" + "<" * 7 + " |" + ">" * 7 + " |" + "=" * 7 + "$)")
+    found = []
+    for path in _project_files():
+        text = _text(path)
+        if text is None:
+            continue
+        for n, line in enumerate(text.splitlines(), 1):
+            if marks.match(line):
+                found.append(f"{path.relative_to(ROOT)}:{n}: {line.strip()[:60]}")
+    assert not found, "\n".join(found)
