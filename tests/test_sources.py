@@ -8,6 +8,7 @@ from __future__ import annotations
 
 import re
 import subprocess
+from collections.abc import Iterator
 from pathlib import Path
 
 ROOT = Path(__file__).resolve().parents[1]
@@ -39,15 +40,21 @@ def _text(path: Path) -> str | None:
     return data.decode("utf-8", errors="replace")
 
 
-def test_no_file_names_a_place_outside_the_repository() -> None:
-    found = []
+def _lines() -> Iterator[tuple[str, int, str]]:
+    """Every line of every text file of the project: (file, line number, line)."""
     for path in _project_files():
         text = _text(path)
-        if text is None:
-            continue
-        for n, line in enumerate(text.splitlines(), 1):
-            if any(word in line for word in OUTSIDE):
-                found.append(f"{path.relative_to(ROOT)}:{n}: {line.strip()}")
+        if text is not None:
+            for n, line in enumerate(text.splitlines(), 1):
+                yield str(path.relative_to(ROOT)), n, line
+
+
+def test_no_file_names_a_place_outside_the_repository() -> None:
+    found = [
+        f"{name}:{n}: {line.strip()}"
+        for name, n, line in _lines()
+        if any(word in line for word in OUTSIDE)
+    ]
     assert not found, "\n".join(found)
 
 
@@ -74,12 +81,9 @@ def test_no_file_holds_a_merge_conflict_marker() -> None:
     # a line that starts with seven '<', '>' or '=' (the last alone on its line) is what
     # an unresolved merge leaves; spelled in pieces so this file holds none
     marks = re.compile("^(" + "<" * 7 + " |" + ">" * 7 + " |" + "=" * 7 + "$)")
-    found = []
-    for path in _project_files():
-        text = _text(path)
-        if text is None:
-            continue
-        for n, line in enumerate(text.splitlines(), 1):
-            if marks.match(line):
-                found.append(f"{path.relative_to(ROOT)}:{n}: {line.strip()[:60]}")
+    found = [
+        f"{name}:{n}: {line.strip()[:60]}"
+        for name, n, line in _lines()
+        if marks.match(line)
+    ]
     assert not found, "\n".join(found)
