@@ -41,7 +41,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from ..design.model import Design
-from ..layout.collisions import inside_polygon
+from ..layout.collisions import convex_hull_order, inside_polygon
 from .holes import FrameHole
 from .keepout import Zone, disc_gap
 from .limits import FrameLimits, min_centre_distance, min_edge_distance
@@ -207,30 +207,6 @@ def _resample(loop: np.ndarray, step: float) -> np.ndarray:
     )
 
 
-def _hull_order(pts: np.ndarray, collinear: bool = True) -> np.ndarray:
-    """Indices of the convex hull of ``pts``, counter-clockwise; points on a side are
-    kept unless ``collinear`` is false."""
-    order = np.lexsort((pts[:, 1], pts[:, 0]))
-    limit = -1e-9 if collinear else 1e-9
-
-    def cross(o: int, a: int, b: int) -> float:
-        return float(
-            (pts[a, 0] - pts[o, 0]) * (pts[b, 1] - pts[o, 1])
-            - (pts[a, 1] - pts[o, 1]) * (pts[b, 0] - pts[o, 0])
-        )
-
-    def chain(seq: np.ndarray) -> list[int]:
-        out: list[int] = []
-        for i in seq:
-            while len(out) >= 2 and cross(out[-2], out[-1], int(i)) < limit:
-                out.pop()
-            out.append(int(i))
-        return out
-
-    lower, upper = chain(order), chain(order[::-1])
-    return np.array(lower[:-1] + upper[:-1], dtype=int)
-
-
 def _outer_pivots(pivots: np.ndarray) -> np.ndarray:
     """The corners of the pivots' convex hull: a convex polygon holds every pivot when
     it holds these, so only they need testing."""
@@ -239,7 +215,7 @@ def _outer_pivots(pivots: np.ndarray) -> np.ndarray:
     unique = np.unique(pivots, axis=0)
     if len(unique) <= 3:
         return unique
-    corners: np.ndarray = unique[_hull_order(unique, collinear=False)]
+    corners: np.ndarray = unique[convex_hull_order(unique, collinear=False)]
     return corners
 
 
@@ -334,7 +310,7 @@ def choose_pillars(
     not fit."""
     if len(candidates) < 3:
         return []
-    hull = candidates[_hull_order(candidates)]
+    hull = candidates[convex_hull_order(candidates)]
     apart = pillar_spacing(limits)
     for k in range(count, 2, -1):
         idx = _largest(hull, k, pivots)

@@ -47,6 +47,7 @@ __all__ = [
     "PinClash",
     "PinSweep",
     "bodies",
+    "convex_hull_order",
     "find_clashes",
     "find_pin_clashes",
     "inside_polygon",
@@ -188,6 +189,57 @@ def inside_polygon(points: np.ndarray, poly: np.ndarray) -> np.ndarray:
         xs = a[:, 0] + (py - a[:, 1]) * (b[:, 0] - a[:, 0]) / (b[:, 1] - a[:, 1])
     inside: np.ndarray = (np.count_nonzero(cross & (xs > px), axis=1) % 2) == 1
     return inside
+
+
+def convex_hull_order(points: np.ndarray, collinear: bool = True) -> np.ndarray:
+    """Indices of the convex hull of ``points`` (``(n, 2)``), counter-clockwise from
+    the lowest-leftmost point; points on a side are kept unless ``collinear`` is false.
+
+    Andrew's monotone chain (A. M. Andrew, "Another efficient algorithm for convex
+    hulls in two dimensions", Information Processing Letters 9 (1979) 216-219). Points
+    strictly inside the polygon of the extreme points are set aside first (they cannot
+    be on the hull), so a mesh of many thousand vertices costs little more than a sort.
+    """
+    pts = np.asarray(points, dtype=np.float64)
+    keep = np.arange(len(pts))
+    if len(pts) > 16:
+        s, d = pts[:, 0] + pts[:, 1], pts[:, 0] - pts[:, 1]
+        extremes = np.unique(
+            [f(v) for v in (pts[:, 0], pts[:, 1], s, d) for f in (np.argmin, np.argmax)]
+        )
+        ring = extremes[_chain_hull(pts[extremes], collinear=False)]
+        if len(ring) >= 3:
+            a, b = pts[ring], pts[np.roll(ring, -1)]
+            rel = pts[:, None, :] - a[None, :, :]
+            edge = b - a
+            cross = edge[None, :, 0] * rel[:, :, 1] - edge[None, :, 1] * rel[:, :, 0]
+            scale = max(1.0, float(np.abs(pts).max()))
+            keep = np.flatnonzero(~np.all(cross > 1e-9 * scale * scale, axis=1))
+    order: np.ndarray = keep[_chain_hull(pts[keep], collinear)]
+    return order
+
+
+def _chain_hull(pts: np.ndarray, collinear: bool) -> np.ndarray:
+    """The monotone chain itself, on every point of ``pts``."""
+    order = np.lexsort((pts[:, 1], pts[:, 0]))
+    limit = -1e-9 if collinear else 1e-9
+
+    def cross(o: int, a: int, b: int) -> float:
+        return float(
+            (pts[a, 0] - pts[o, 0]) * (pts[b, 1] - pts[o, 1])
+            - (pts[a, 1] - pts[o, 1]) * (pts[b, 0] - pts[o, 0])
+        )
+
+    def chain(seq: np.ndarray) -> list[int]:
+        out: list[int] = []
+        for i in seq:
+            while len(out) >= 2 and cross(out[-2], out[-1], int(i)) < limit:
+                out.pop()
+            out.append(int(i))
+        return out
+
+    lower, upper = chain(order), chain(order[::-1])
+    return np.array(lower[:-1] + upper[:-1], dtype=int)
 
 
 def _polygon_depth(pa: np.ndarray, pb: np.ndarray) -> float:

@@ -8,8 +8,8 @@ the print sheet's spacing, so the names never meet. Sizes in mm; y up on the pag
 from __future__ import annotations
 
 import numpy as np
-from scipy.spatial import ConvexHull
 
+from ..layout.collisions import convex_hull_order
 from ._svg import colour, esc, fmt
 
 __all__ = ["bed_svg", "label_font"]
@@ -43,7 +43,7 @@ def bed_svg(
     ]
     for k, (name, v, _) in enumerate(objects):
         xy = v[:, :2]
-        hull = xy[ConvexHull(xy).vertices]
+        hull = xy[convex_hull_order(xy, collinear=False)]
         pts = " ".join(f"{fmt(x, 2)},{fmt(-y, 2)}" for x, y in hull)
         out.append(
             f'<polygon points="{pts}" fill="{colour(k)}" fill-opacity="0.25" '
