@@ -47,6 +47,7 @@ import numpy as np
 
 from ..design.model import Design
 from ..design.process_limits import wall_minimum
+from ..design.units import lengths_of
 from ..frame.keepout import Zone, disc_gap, train_zones, zones_between
 from ..kinematics.rates import axis_root
 from ..layout.part_kinds import (
@@ -639,6 +640,7 @@ def _part_notes(
 ) -> tuple[str, ...]:
     """What the maker must know, in words: each wheel's fixing and stop, the end shake."""
     out = []
+    u = lengths_of(design)
     shapes = {w.what: w.shape for w in seats}
     by = {s.holds: s for s in stops}
     for wheel, shape in shapes.items():
@@ -653,8 +655,10 @@ def _part_notes(
         out.append(f"{wheel}: fixed with {fixing(design.process, shape)}{where}")
     if shake is not None:
         fwd, back = by.get("forward"), by.get("back")
-        parts = [f"{s.what} ({s.gap:.2f} mm)" for s in (fwd, back) if s is not None]
-        out.append(f"end shake {shake:.2f} mm: " + "; ".join(parts))
+        parts = [
+            f"{s.what} ({u.fixed(s.gap, 2)})" for s in (fwd, back) if s is not None
+        ]
+        out.append(f"end shake {u.fixed(shake, 2)}: " + "; ".join(parts))
     return tuple(out + notes)
 
 
@@ -851,7 +855,7 @@ def _end_shake(
         if not placed:
             notes.append(
                 f"no room for a collar to stop {m.part.name} going {direction}:"
-                f" its end shake that way is {gap:.2f} mm"
+                f" its end shake that way is {lengths_of(design).fixed(gap, 2)}"
                 if gap < math.inf
                 else f"nothing stops {m.part.name} going {direction} along its axis"
             )

@@ -25,7 +25,9 @@ plate lying on the bench:
 
 :func:`assembly_steps` gives the steps, :func:`assembly_csv` the file
 ``assembly.csv`` (columns ``step,part,action,onto,note``) and :func:`assembly_writer`
-writes it in a build. Where no clear way is found the step says so in its note.
+writes it in a build. Where no clear way is found the step says so in its note. A
+wheel or collar fixed on its member says how far its back face stands from the
+member's back end, and a member put in its end shake, in the design's units.
 """
 
 from __future__ import annotations
@@ -38,6 +40,7 @@ from pathlib import Path
 from typing import Any, Sequence
 
 from ..design.model import Design
+from ..design.units import lengths_of
 from ..layout.part_kinds import (
     ArborPart,
     BearingPart,
@@ -367,6 +370,7 @@ class _Planner:
     def __init__(self, design: Design, parts: Sequence[Part]) -> None:
         self.shop = _Shop(design, parts)
         self.design = design
+        self.lengths = lengths_of(design)
         self.parts = list(parts)
         self.steps: list[Step] = []
         self.placed: dict[str, str] = {}  # part -> the unit it is in ("" movement)
@@ -538,9 +542,9 @@ class _Planner:
         how = "fix"
         note = ""
         if isinstance(p, CollarPart):
-            note = f"fixed with {p.fixing}"
+            note = f"fixed with {p.fixing}" + self._height(part, onto)
         elif isinstance(p, WheelPart):
-            note = self._wheel_note(part, onto)
+            note = self._wheel_note(part, onto) + self._height(part, onto)
         elif isinstance(p, (HandPart, KnobPart, CrankPart)):
             how = "push"
             note = f"on its {p.seat} seat"
@@ -548,6 +552,23 @@ class _Planner:
             how = "press"
         self._add(part, f"{how} on from the {side}", onto, note, [part], unit)
         return True
+
+    def _height(self, part: str, member: str) -> str:
+        """Where ``part`` goes on ``member``: its back face from the member's back
+        end (``""`` when ``member`` is no arbor or tube)."""
+        if member not in self.members:
+            return ""
+        gap = self.shop.low(part) - self.shop.low(member)
+        if abs(gap) < _TOL:
+            return f", at the back end of {member}"
+        return f", back face {self.lengths.fixed(gap, 2)} from the back end of {member}"
+
+    def _shake(self, member: str) -> str:
+        """The member's end shake as its turning notes give it, or ``""``."""
+        for n in getattr(self.shop.parts[member], "notes", ()):
+            if n.startswith("end shake "):
+                return str(n).split(":", 1)[0]
+        return ""
 
     def _wheel_note(self, wheel: str, member: str) -> str:
         part = self.shop.parts[member]
@@ -606,6 +627,9 @@ class _Planner:
             )
         else:
             note = self._runs_note(member)
+            shake = self._shake(member)
+            if shake:
+                note = f"{note}; {shake}" if note else shake
         for g in group:
             self.placed[g] = unit
         with_ = [g for g in group if g != member]

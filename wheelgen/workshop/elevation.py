@@ -6,7 +6,8 @@ in order across the plates (by x, then y) and each stands at its true distance f
 the one before it, so two axes next to each other in that order show their true
 centre distance (a mesh between them its true overlap of tips). Heights are the
 assembly's z (mm), up the page: the back of the movement at the bottom, the hands at
-the top. Wheels are drawn to their tip diameter with their hub, arbors and tubes
+the top; the labels and the height scale are in the design's units (the drawing
+stays 1:1 in mm). Wheels are drawn to their tip diameter with their hub, arbors and tubes
 with every turned length at its diameter, plates across the whole section, a dial
 across its diameter, a hand from its tail to its tip. Pillars and screws stand off
 the section and are left out.
@@ -23,6 +24,7 @@ from dataclasses import dataclass
 from pathlib import Path
 from typing import Any, Collection, Sequence
 
+from ..design.units import MM, Lengths, lengths_of
 from ..layout.part_kinds import (
     ArborPart,
     CockPart,
@@ -200,7 +202,7 @@ def elevation_blocks(
 
 
 def _labels(
-    blocks: Sequence[Block], mid: float
+    blocks: Sequence[Block], mid: float, lengths: Lengths = MM
 ) -> list[tuple[str, float, float, bool]]:
     """One label per part: (text, anchor x, anchor z, on the left)."""
     seen: dict[str, list[Block]] = {}
@@ -216,9 +218,19 @@ def _labels(
             left = z0 == plates[0]
         main = bs[0]
         zc = (main.z0 + main.z1) / 2
-        text = f"{name}  {fmt(z0, 2)} \u2013 {fmt(z1, 2)}"
+        text = f"{name}  {_height(z0, lengths)} \u2013 {_height(z1, lengths)}"
         out.append((text, x0 if left else x1, zc, left))
     return out
+
+
+def _height(z: float, lengths: Lengths) -> str:
+    """A height as the labels write it: to 0.01 mm, or to 0.0001 in."""
+    return lengths.short(z) if lengths.inches else fmt(z, 2)
+
+
+#: The height scale's ticks (mm apart) and every how many ticks one is numbered: 5 mm
+#: numbered every 10 mm; 0.1 in numbered every 0.5 in.
+_SCALE = {"mm": (5.0, 2), "in": (2.54, 5)}
 
 
 def _spread(wanted: list[float]) -> list[float]:
@@ -238,13 +250,14 @@ def elevation_svg(
     highlight: Collection[str] | None = None,
     labels: bool = True,
     title: str = "",
+    lengths: Lengths = MM,
 ) -> str:
     """The sectional elevation as an SVG document (1 user unit = 1 mm, page in mm).
 
     Every drawn part is a group ``<g data-part=name data-kind=kind>`` of rectangles;
     ``only`` draws just those parts in their places, ``highlight`` draws those in a
     strong colour and the rest in grey (the assembly figures); ``labels`` adds a name
-    and height range beside each part and a height scale.
+    and height range beside each part and a height scale, in ``lengths``' units.
     """
     columns, everything = elevation_blocks(parts)
     _, blocks = elevation_blocks(parts, only)
@@ -294,7 +307,7 @@ def elevation_svg(
     left_w = right_w = 2.0
     if labels:
         mid = (x_lo + x_hi) / 2
-        found = _labels(blocks, mid)
+        found = _labels(blocks, mid, lengths)
         for side in (True, False):
             mine = sorted((a for a in found if a[3] == side), key=lambda a: a[2])
             width = max((0.6 * _TEXT * len(t) for t, *_ in mine), default=0.0) + 8.0
@@ -322,14 +335,16 @@ def elevation_svg(
                 z_hi = max(z_hi, ys[-1] + _TEXT)
         # the height scale, left of the labels
         sx = x_lo - left_w - 4.0
-        first = math.floor(z_lo / 5.0) * 5
-        last = math.ceil(z_hi / 5.0) * 5
+        tick, every = _SCALE[lengths.unit]
+        i0, i1 = math.floor(z_lo / tick), math.ceil(z_hi / tick)
+        first, last = i0 * tick, i1 * tick
         body.append(
             f'<line x1="{fmt(sx)}" y1="{fmt(-first)}" x2="{fmt(sx)}" y2="{fmt(-last)}" '
             'stroke="#1f5f8b" stroke-width="0.15"/>'
         )
-        for k in range(first, last + 1, 5):
-            long = k % 10 == 0
+        for i in range(i0, i1 + 1):
+            k = i * tick
+            long = i % every == 0
             body.append(
                 f'<line x1="{fmt(sx)}" y1="{fmt(-k)}" x2="{fmt(sx + (2.0 if long else 1.0))}" '
                 f'y2="{fmt(-k)}" stroke="#1f5f8b" stroke-width="0.15"/>'
@@ -337,11 +352,11 @@ def elevation_svg(
             if long:
                 body.append(
                     f'<text x="{fmt(sx - 1.0)}" y="{fmt(-k + 0.7)}" font-size="2" '
-                    f'text-anchor="end" fill="#1f5f8b">{k}</text>'
+                    f'text-anchor="end" fill="#1f5f8b">{lengths.short(k)}</text>'
                 )
         body.append(
             f'<text x="{fmt(sx)}" y="{fmt(-last - 2.5)}" font-size="2" '
-            'text-anchor="middle" fill="#1f5f8b">z (mm)</text>'
+            f'text-anchor="middle" fill="#1f5f8b">z ({lengths.unit})</text>'
         )
         left_w += 12.0
         z_lo, z_hi = min(z_lo, first), max(z_hi, last + 4.0)
@@ -368,9 +383,14 @@ def elevation_svg(
 def elevation_writer(
     design: Any, parts: Sequence[Any], findings: Sequence[Any], staging_dir: Path
 ) -> list[Path]:
-    """Sheet writer for ``wheelgen build``: ``drawings/elevation.svg``."""
+    """Sheet writer for ``wheelgen build``: ``drawings/elevation.svg``, labelled in
+    the design's units."""
+    u = lengths_of(design)
     svg = elevation_svg(
-        parts, title=f"{design.title}: sectional elevation, developed, 1:1, mm"
+        parts,
+        title=f"{design.title}: sectional elevation, developed, 1:1, "
+        + ("labelled in inches" if u.inches else "mm"),
+        lengths=u,
     )
     path = Path(staging_dir) / ELEVATION_FILE
     path.parent.mkdir(parents=True, exist_ok=True)

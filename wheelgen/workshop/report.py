@@ -825,8 +825,10 @@ def report_html(
             "pin-and-slot couplings in red.</figcaption></figure>"
         ),
         "elevation": (
-            f'<figure><div class="wide">{_at_scale(elevation_svg(parts), 4.0)}</div>'
-            "<figcaption>Seen from the side and cut through the axes, heights (z, mm) "
+            f'<figure><div class="wide">'
+            f"{_at_scale(elevation_svg(parts, lengths=u), 4.0)}</div>"
+            "<figcaption>Seen from the side and cut through the axes, heights "
+            f"(z, {u.unit}) "
             "true and up the page, the back of the movement at the bottom: each "
             "axis at its true distance from the one before it, taken across the "
             "plates from left to right (a developed section). Every part is named "
