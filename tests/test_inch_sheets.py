@@ -112,3 +112,103 @@ def test_assembly_heights_and_end_shake_are_in_inches(twins):
     assert lay["note"].endswith("end shake 0.0039 in")
     pinion = next(s for s in a if s["part"] == "minute_wheel")
     assert re.search(r"back face \d\.\d{4} in from the back end of lay", pinion["note"])
+
+
+# -- a printed design in inches ---------------------------------------------------
+
+# The motion work printed: its [process] table in inches and, for the twin, the same
+# sizes in mm (derived: x 25.4): a 1/64 in nozzle, 0.004 in clearance, a 6 x 4 in bed.
+_PRINT_IN = 'nozzle = "1/64 in"\nclearance = "0.004 in"\nbed = ["6 in", "4 in"]\n'
+_PRINT_MM = "nozzle = 0.396875\nclearance = 0.1016\nbed = [152.4, 101.6]\n"
+
+
+def _printed(name: str, process: str):
+    from wheelgen.design import loads_design
+
+    text = (DATA / name).read_text(encoding="utf-8")
+    text = text.replace('process = "mill"', 'process = "print"')
+    text = re.sub(r"\[process\]\n(.*\n)*?\n", f"[process]\n{process}\n", text, count=1)
+    design = loads_design(text, name)
+    assert design.process.kind == "print"
+    return design, plan_parts(design)
+
+
+def _box_stl(path: Path, w: float, d: float, h: float) -> None:
+    """A w x d x h mm box as a binary STL (12 triangles), the print sheet's input."""
+    import numpy as np
+
+    from wheelgen.workshop.stl_file import STL_DTYPE
+
+    c = np.array(
+        [[x, y, z] for x in (0, w) for y in (0, d) for z in (0, h)], dtype=float
+    )
+    faces = [(0, 1, 3), (0, 3, 2), (4, 6, 7), (4, 7, 5), (0, 4, 5), (0, 5, 1),
+             (2, 3, 7), (2, 7, 6), (0, 2, 6), (0, 6, 4), (1, 5, 7), (1, 7, 3)]  # fmt: skip
+    rec = np.zeros(len(faces), dtype=STL_DTYPE)
+    rec["v"] = c[np.array(faces)]
+    path.parent.mkdir(parents=True, exist_ok=True)
+    path.write_bytes(b"\0" * 80 + np.uint32(len(faces)).tobytes() + rec.tobytes())
+
+
+@pytest.fixture(scope="module")
+def printed(tmp_path_factory):
+    from wheelgen.workshop.print_plan import print_layout
+    from wheelgen.workshop.print_plan import printed as is_printed
+
+    out = []
+    for name, process in (
+        ("inch_motion_work.toml", _PRINT_IN),
+        ("inch_motion_work_mm.toml", _PRINT_MM),
+    ):
+        design, parts = _printed(name, process)
+        folder = tmp_path_factory.mktemp("print")
+        for k, p in enumerate(x for x in parts if is_printed(x)):
+            # boxes of our own sizes (mm), the hour wheel wider than the 6 in bed
+            w = 160.0 if p.name == "hour_wheel" else 10.0 + 3.0 * k
+            _box_stl(folder / "stl" / f"{p.name}.stl", w, 8.0 + k, 2.0 + 0.5 * k)
+        out.append((design, parts, print_layout(design, parts, folder)))
+    return out
+
+
+def test_the_print_sheet_is_in_inches(printed):
+    from wheelgen.workshop.print_plan import print_csv
+
+    (inch, _, li), (mm, _, lm) = printed
+    a = list(csv.DictReader(io.StringIO(print_csv(li.rows, lengths_of(inch)))))
+    b = list(csv.DictReader(io.StringIO(print_csv(lm.rows, lengths_of(mm)))))
+    assert list(a[0]) == [
+        "part", "kind", "orientation", "bed", "x_in", "y_in", "width_in", "depth_in",
+        "height_in", "note",
+    ]  # fmt: skip
+    assert [r["part"] for r in a] == [r["part"] for r in b]
+    placed = 0
+    for ra, rb in zip(a, b, strict=True):
+        assert ra["bed"] == rb["bed"]
+        for key in ("x", "y", "width", "depth", "height"):
+            if rb[f"{key}_mm"]:
+                va, vb = float(ra[f"{key}_in"]), float(rb[f"{key}_mm"])
+                assert va * INCH == pytest.approx(vb, abs=0.005 + 0.00005 * INCH)
+                assert len(ra[f"{key}_in"].split(".")[1]) == 4  # to 0.0001 in
+                placed += 1
+    assert placed > 20
+    first = next(r for r in a if r["bed"] == "1")
+    assert first["x_in"] == "0.1969"  # derived: the 5 mm spacing from the edge
+    hour = next(r for r in a if r["part"] == "hour_wheel")
+    assert hour["note"] == "larger than the 6 x 4 in plate: on no plate"
+    assert hour["width_in"] == "6.2992"  # derived: 160 / 25.4
+
+
+def test_the_report_print_section_is_in_inches(printed):
+    from wheelgen.workshop.report import _print_sheet
+
+    (inch, parts, layout), (mm, mparts, mlayout) = printed
+    html = _print_sheet(inch, parts, layout)
+    assert "(mm)" not in html.replace("radial clearance (mm)", "")
+    assert "height (in)" in html and "hole \u00d8 (in)" in html
+    assert "6 \u00d7 4 in" in html and "0.1969 in apart" in html
+    # the coupon's labels stay hundredths of a millimetre; the table says so and
+    # gives the inch figure: 0.004 in = 0.1016 mm, label 10 (derived)
+    assert "label (0.01 mm)" in html
+    assert "0.0040 in (0.10 mm)" in html and "label 10)" in html
+    metric = _print_sheet(mm, mparts, mlayout)
+    assert "(in)" not in metric and "152.4 \u00d7 101.6 mm" in metric

@@ -14,6 +14,7 @@ from __future__ import annotations
 from pathlib import Path
 from typing import Any, Sequence
 
+from ..design.units import lengths_of
 from ..workshop.print_plan import (
     PRINT_FILE,
     bed_file,
@@ -34,7 +35,7 @@ def print_sheet_writer(
     staging_dir = Path(staging_dir)
     layout = print_layout(design, parts, staging_dir)
     sheet = staging_dir / PRINT_FILE
-    sheet.write_text(print_csv(layout.rows), encoding="utf-8")
+    sheet.write_text(print_csv(layout.rows, lengths_of(design)), encoding="utf-8")
     written = [sheet]
     for number, objects in layout.plates:
         path = staging_dir / bed_file(number)

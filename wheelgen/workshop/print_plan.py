@@ -15,7 +15,8 @@ Every part is modelled with its axis along z. On the printer:
 The parts to print are laid out on as many build plates (``[process] bed``) as they
 need, each :data:`PART_SPACING` mm from the next and from the plate's edges. The fit
 test coupon (:mod:`wheelgen.workshop.fit_coupon`) tries the design's running
-clearance before the parts are printed. Lengths in mm.
+clearance before the parts are printed. Lengths in mm; the sheet is written in the
+design's units (:class:`wheelgen.design.units.Lengths`), each column naming its unit.
 """
 
 from __future__ import annotations
@@ -30,6 +31,7 @@ from typing import Any, Sequence
 import numpy as np
 
 from ..checks.bed_check import EDGE_SPACING
+from ..design.units import MM, Lengths, lengths_of
 from ..layout.part_kinds import BOUGHT_KINDS, ArborPart, PinPart
 from .stl_file import read_stl
 
@@ -46,6 +48,7 @@ __all__ = [
     "ORIENTATIONS",
     "PART_SPACING",
     "PRINT_COLUMNS",
+    "print_columns",
     "PrintRow",
     "orient_vertices",
     "orientation",
@@ -188,30 +191,37 @@ class PrintRow:
     note: str = ""
 
 
-#: CSV header of ``print.csv``, in column order; units are in the names.
-PRINT_COLUMNS: tuple[str, ...] = (
-    "part",
-    "kind",
-    "orientation",
-    "bed",
-    "x_mm",
-    "y_mm",
-    "width_mm",
-    "depth_mm",
-    "height_mm",
-    "note",
-)
+def print_columns(lengths: Lengths = MM) -> tuple[str, ...]:
+    """The header of ``print.csv`` in ``lengths``' units, in column order."""
+    col = lengths.col
+    return (
+        "part",
+        "kind",
+        "orientation",
+        "bed",
+        col("x"),
+        col("y"),
+        col("width"),
+        col("depth"),
+        col("height"),
+        "note",
+    )
 
 
-def print_csv(rows: Sequence[PrintRow]) -> str:
-    """The print sheet as CSV text (header first, ``\\n`` line ends)."""
+#: CSV header of ``print.csv`` in millimetres, in column order; units are in the names.
+PRINT_COLUMNS: tuple[str, ...] = print_columns()
+
+
+def print_csv(rows: Sequence[PrintRow], lengths: Lengths = MM) -> str:
+    """The print sheet as CSV text (header first, ``\\n`` line ends), its lengths in
+    ``lengths``' units (0.01 mm, or 0.0001 in)."""
 
     def num(v: float | None) -> str:
-        return "" if v is None else f"{v:.2f}"
+        return lengths.num(v, 2)
 
     buf = io.StringIO()
     writer = csv.writer(buf, lineterminator="\n")
-    writer.writerow(PRINT_COLUMNS)
+    writer.writerow(print_columns(lengths))
     for r in rows:
         writer.writerow(
             [
@@ -291,6 +301,7 @@ def print_layout(
         )
     slots = {s.name: s for s in pack_beds(sizes, design.process.bed)}
     bx, by = design.process.bed
+    u = lengths_of(design)
     plates: dict[int, list[tuple[str, np.ndarray, np.ndarray]]] = {}
     out_rows = []
     for row in rows:
@@ -309,7 +320,8 @@ def print_layout(
                     row,
                     width=slot.width,
                     depth=slot.depth,
-                    note=f"larger than the {bx:g} x {by:g} mm plate: on no plate",
+                    note=f"larger than the {u.short(bx)} x {u.text(by)} plate: "
+                    "on no plate",
                 )
             )
             continue

@@ -597,37 +597,51 @@ def _cutting(rows: Sequence[CuttingRow], parts: Sequence[Any], u: Lengths = MM) 
 
 
 def _print_sheet(design: Design, parts: Sequence[Any], layout: PrintLayout) -> str:
-    """The print sheet: the fit test first, then how each part lies and the plates."""
+    """The print sheet: the fit test first, then how each part lies and the plates.
+
+    Sizes in the design's units; the coupon's raised labels are hundredths of a
+    millimetre whatever the units, so an inch design's table gives both."""
+    u = lengths_of(design)
     fit = fit_test_plan(design, parts)
     fit_rows = [
-        [
-            _e(label),
-            _e(f"{c:.2f}"),
-            _e(f"{h:.2f}"),
-            _e(f"{p:.2f}"),
-        ]
+        [_e(label)]
+        + ([_e(u.num(c))] if u.inches else [])
+        + [_e(f"{c:.2f}"), _e(u.num(h, 2)), _e(u.num(p, 2))]
         for label, c, h, p in zip(
             fit.labels, fit.clearances, fit.hole_diameters, fit.pin_diameters
         )
     ]
+    clearance = design.process.clearance
+    uses = u.both(clearance, 2) if u.inches else f"{clearance:g} mm"
+    inch_note = (
+        " (the table gives each clearance in inches too; the labels stay in "
+        "millimetres, as small clearances are printed most legibly so)"
+        if u.inches
+        else ""
+    )
+    head = (
+        ["label (0.01 mm)", u.head("radial clearance")] if u.inches else ["label"]
+    ) + ["radial clearance (mm)", u.head("hole \u00d8"), u.head("pin \u00d8")]
     out = [
         "<h3>First: the fit test</h3>"
         f"<p><code>{_e(FIT_TEST_FILE)}</code> is two small plates. The hole plate has "
-        f"a plain \u00d8{fit.nominal:g} mm hole (label 0) and holes opened by each "
-        "radial clearance below; the pin plate a plain "
-        f"\u00d8{fit.nominal:g} mm pin (label 0) and pins thinned by the same "
+        f"a plain \u00d8{_e(u.text(fit.nominal))} hole (label 0) and holes opened by "
+        "each radial clearance below; the pin plate a plain "
+        f"\u00d8{_e(u.text(fit.nominal))} pin (label 0) and pins thinned by the same "
         "clearances. Print it with the settings you will use for the parts; push the "
         "plain pin into each hole and each pin into the plain hole. The labels are the "
-        "radial clearance in hundredths of a millimetre; this design uses "
-        f"{design.process.clearance:g} mm (<code>[process] clearance</code>, label "
-        f"{round(design.process.clearance * 100):d}). If that fit binds or "
+        f"radial clearance in hundredths of a millimetre{inch_note}; this design uses "
+        f"{_e(uses)} (<code>[process] clearance</code>, label "
+        f"{round(clearance * 100):d}). If that fit binds or "
         "rattles, set <code>clearance</code> to the smallest label that turns "
-        "freely, divided by 100, and build again.</p>"
-        + _table(
-            ["label", "radial clearance (mm)", "hole \u00d8 (mm)", "pin \u00d8 (mm)"],
-            fit_rows,
-            {1, 2, 3},
+        "freely, divided by 100 (that is millimetres"
+        + (
+            '; or write the inch figure of its row as text, such as "0.0020 in"'
+            if u.inches
+            else ""
         )
+        + "), and build again.</p>"
+        + _table(head, fit_rows, set(range(1, len(head))))
     ]
     rows = [
         [
@@ -635,7 +649,7 @@ def _print_sheet(design: Design, parts: Sequence[Any], layout: PrintLayout) -> s
             _e(r.kind),
             _e(ORIENTATIONS[r.orientation]),
             _e("" if r.bed is None else r.bed),
-            _e("" if r.height is None else f"{r.height:.1f}"),
+            _e(u.num(r.height, 1)),
             _e(r.note),
         ]
         for r in layout.rows
@@ -648,24 +662,25 @@ def _print_sheet(design: Design, parts: Sequence[Any], layout: PrintLayout) -> s
         f"{LONG_ROD_RATIO:g} diameters lie flat; an arbor the stock list has as rod "
         "is cut from the rod. The same is in <code>print.csv</code>.</p>"
         + _table(
-            ["part", "kind", "orientation", "plate", "height (mm)", "note"],
+            ["part", "kind", "orientation", "plate", u.head("height"), "note"],
             rows,
             {3, 4},
         )
     )
     bx, by = layout.bed
+    plate = f"{u.short(bx)} \u00d7 {u.text(by)}"
     figs = [
         f"<figure>{bed_svg(n, layout.bed, objects)}<figcaption>Plate {n}: "
         f"<code>{_e(bed_file(n))}</code>, {len(objects)} part(s) on "
-        f"{bx:g} \u00d7 {by:g} mm.</figcaption></figure>"
+        f"{_e(plate)}.</figcaption></figure>"
         for n, objects in layout.plates
     ]
     if figs:
         out.append(
             f"<h3>Build plates</h3><p>The parts laid out on {len(figs)} plate(s) of "
-            f"{bx:g} \u00d7 {by:g} mm (<code>[process] bed</code>), "
-            f"{PART_SPACING:g} mm apart and from the edges; each plate is one 3MF "
-            "file to open in the slicer.</p>" + "".join(figs)
+            f"{_e(plate)} (<code>[process] bed</code>), "
+            f"{_e(u.text(PART_SPACING))} apart and from the edges; each plate is one "
+            "3MF file to open in the slicer.</p>" + "".join(figs)
         )
     return "".join(out)
 
