@@ -212,3 +212,84 @@ def test_the_report_print_section_is_in_inches(printed):
     assert "0.0040 in (0.10 mm)" in html and "label 10)" in html
     metric = _print_sheet(mm, mparts, mlayout)
     assert "(in)" not in metric and "152.4 \u00d7 101.6 mm" in metric
+
+
+# -- triangular teeth: the form cutter ----------------------------------------------
+
+
+@pytest.fixture(scope="module")
+def triangular():
+    """The motion work with its first pair cut as triangular teeth (32 DP)."""
+    from wheelgen.design import loads_design
+
+    text = (DATA / "inch_motion_work.toml").read_text(encoding="utf-8")
+    for wheel in ("cannon_pinion", "minute_wheel"):
+        old = f'name = "{wheel}"\n'
+        text = text.replace(old, old + 'form = "triangular"\n')
+    design = loads_design(text, "triangular.toml")
+    return design, plan_parts(design)
+
+
+def test_the_cutting_sheets_cutter_and_feed_columns_are_in_inches(triangular):
+    from wheelgen.workshop.cutting import cutting_csv, cutting_rows
+
+    design, parts = triangular
+    rows = cutting_rows(parts)
+    text = cutting_csv(rows, lengths_of(design))
+    sheet = {r["wheel"]: r for r in csv.DictReader(io.StringIO(text))}
+    assert "_mm" not in text.splitlines()[0]
+    for row in rows:
+        got = sheet[row.wheel]
+        assert float(got["infeed_in"]) == pytest.approx(row.infeed / INCH, abs=5e-5)
+        assert float(got["thinning_in"]) == pytest.approx(row.thinning / INCH, abs=5e-5)
+        if row.cutter is None:
+            assert got["cutter_tip_width_in"] == ""
+            continue
+        for key, mm in (
+            ("cutter_tip_width_in", row.cutter.tip_width),
+            ("cutter_tip_radius_in", row.cutter.tip_radius),
+            ("cutter_shoulder_radius_in", row.cutter.shoulder_radius),
+        ):
+            assert float(got[key]) == pytest.approx(mm / INCH, abs=5e-5)
+            assert len(got[key].split(".")[1]) == 4
+
+
+def test_the_form_cutter_drawing_is_in_inches_at_true_size(triangular):
+    from wheelgen.workshop.cutter_drawing import cutter_svg
+    from wheelgen.workshop.cutting import cutting_rows
+
+    design, parts = triangular
+    spec = next(p.tooth for p in parts if p.name == "minute_wheel")
+    row = next(r for r in cutting_rows(parts) if r.wheel == "minute_wheel")
+    cut = row.cutter
+    assert cut is not None
+    inch = cutter_svg("minute_wheel", spec, cut, lengths_of(design))
+    metric = cutter_svg("minute_wheel", spec, cut)
+    # the same profile on the same page: the drawing stays 1:1 in mm
+    profile = re.compile(r'<polygon id="minute_wheel-profile-1to1" points="[^"]*"')
+    assert profile.search(inch).group(0) == profile.search(metric).group(0)
+    texts = " ".join(_texts(inch))
+    assert "32 diametral pitch" in texts and " mm" not in texts
+    assert "the check bar must measure 1/2 in" in texts
+    # every size of the metric drawing is there in inches (to the places each writes)
+    metric_texts = re.sub(r"module [\d.]+ mm", "", " ".join(_texts(metric)))
+    mm_sizes = [float(x) for x in re.findall(r"(\d+\.\d+) mm", metric_texts)]
+    in_sizes = [float(x) for x in re.findall(r"(\d+\.\d+) in\b", texts)]
+    assert len(mm_sizes) == len(in_sizes) >= 8
+    for a, b in zip(in_sizes, mm_sizes):
+        assert a * INCH == pytest.approx(b, abs=0.005 + 0.00005 * INCH)
+    # the 1/2 in check bar is 12.7 mm long on the page (derived: 25.4 / 2)
+    bar = ET.fromstring(inch).find(f".//{NS}g[@id='minute_wheel-check-bar']")
+    first = bar.find(f"{NS}line")
+    assert float(first.get("x2")) - float(first.get("x1")) == pytest.approx(12.7)
+
+
+def test_the_build_writes_the_cutter_drawing_in_inches(triangular, tmp_path):
+    from wheelgen.workshop.cutting import cutting_sheet_writer
+
+    design, parts = triangular
+    written = cutting_sheet_writer(design, parts, [], tmp_path)
+    drawing = tmp_path / "cutters" / "cannon_pinion.svg"
+    assert drawing in written
+    text = drawing.read_text(encoding="utf-8")
+    assert "32 diametral pitch" in text and "1/2 in" in text

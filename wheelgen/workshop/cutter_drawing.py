@@ -3,10 +3,11 @@
 The cutter's profile is the space between two basic teeth of the wheel (before the
 backlash, which comes from feeding the cutter further), taken from the same outline the
 wheel's part files are made from: its straight flanks, its tip rounded as the wheel's
-root and its shoulders rounded as the wheel's tooth tips. The page is in millimetres:
-printed at actual size, the left-hand profile is the cutter itself, to grind to or to
-lay a ground cutter on; the right-hand profile is the same, enlarged, with the sizes.
-A 10 mm check bar tells whether the printer kept the scale.
+root and its shoulders rounded as the wheel's tooth tips. The page is drawn in
+millimetres: printed at actual size, the left-hand profile is the cutter itself, to
+grind to or to lay a ground cutter on; the right-hand profile is the same, enlarged,
+with the sizes, written in the design's units (:class:`wheelgen.design.units.Lengths`).
+A check bar (10 mm, or 1/2 in in inches) tells whether the printer kept the scale.
 """
 
 from __future__ import annotations
@@ -15,6 +16,7 @@ import math
 
 import numpy as np
 
+from ..design.units import MM, Lengths
 from ..teeth.forms import outline_for
 from ..teeth.outline import WheelOutline
 from ..teeth.spec import ToothSpec
@@ -24,6 +26,8 @@ from ._svg import esc, fmt
 __all__ = ["cutter_profile", "cutter_svg"]
 
 _CHORD = 0.001  # mm: the profile's chord error, far below what a grinder holds
+#: The check bar in each unit: its length (mm) and its label.
+_BAR = {"mm": (10.0, "10 mm"), "in": (12.7, "1/2 in")}  # derived: 25.4 / 2
 
 
 def cutter_profile(spec: ToothSpec) -> np.ndarray:
@@ -72,8 +76,20 @@ def _nice_scale(depth: float) -> float:
     return 1.0
 
 
-def cutter_svg(wheel: str, spec: ToothSpec, cut: TriangularCut) -> str:
-    """The drawing of ``wheel``'s form cutter as SVG text, 1 user unit = 1 mm."""
+def _pitch(spec: ToothSpec, cut: TriangularCut, u: Lengths) -> str:
+    """The tooth size in the title: the diametral pitch of a DP wheel in inches."""
+    if u.inches and spec.diametral_pitch is not None:
+        return f"{spec.diametral_pitch:g} diametral pitch"
+    return f"module {fmt(cut.module, 4)} mm"
+
+
+def cutter_svg(
+    wheel: str, spec: ToothSpec, cut: TriangularCut, lengths: Lengths = MM
+) -> str:
+    """The drawing of ``wheel``'s form cutter as SVG text, 1 user unit = 1 mm; its
+    sizes in ``lengths``' units."""
+    u = lengths
+    bar, bar_label = _BAR[u.unit]
     prof = cutter_profile(spec)
     depth = cut.full_depth
     k = _nice_scale(depth)
@@ -90,10 +106,10 @@ def cutter_svg(wheel: str, spec: ToothSpec, cut: TriangularCut) -> str:
         f'height="{fmt(page_h, 2)}mm" viewBox="0 0 {fmt(page_w, 2)} {fmt(page_h, 2)}" '
         'font-family="sans-serif">\n',
         f'<text x="{margin}" y="10" font-size="4.2" font-weight="bold">Form cutter for '
-        f"{esc(wheel)}: {cut.teeth} triangular teeth, module {fmt(cut.module, 4)} mm"
+        f"{esc(wheel)}: {cut.teeth} triangular teeth, {esc(_pitch(spec, cut, u))}"
         "</text>\n",
         f'<text x="{margin}" y="16" font-size="3">Print at actual size (100 %, no '
-        "fitting to the page); the check bar must measure 10 mm.</text>\n",
+        f"fitting to the page); the check bar must measure {bar_label}.</text>\n",
     ]
     # 1:1 profile
     x1 = margin + 5 + width_1 / 2
@@ -126,7 +142,7 @@ def cutter_svg(wheel: str, spec: ToothSpec, cut: TriangularCut) -> str:
         f'<line x1="{fmt(xb)}" y1="{fmt(y_tip)}" x2="{fmt(dx + 2)}" y2="{fmt(y_tip)}" '
         'stroke="#000" stroke-width="0.15" stroke-dasharray="1,1"/>\n'
         f'<text x="{fmt(dx + 1.5)}" y="{fmt((y_rim + y_tip) / 2 + 1)}" '
-        f'font-size="2.8">depth {depth:.3f}</text>\n'
+        f'font-size="2.8">depth {u.num(depth, 3)}</text>\n'
     )
     # the space angle: an arc between the two flanks, centred where they would meet
     half = math.radians(cut.space_angle_deg) / 2
@@ -147,13 +163,15 @@ def cutter_svg(wheel: str, spec: ToothSpec, cut: TriangularCut) -> str:
     lines = [
         f"included angle {cut.space_angle_deg:.4f}\u00b0 (tooth angle "
         f"{cut.space_angle_deg - 360 / cut.teeth:g}\u00b0 + 360\u00b0/{cut.teeth})",
-        f"full depth {cut.full_depth:.3f} mm from the rim; feed in {cut.infeed:.4f} mm "
-        f"(+{cut.extra_infeed:.4f} mm for a thinning of {cut.thinning:.4f} mm)",
-        f"tip {cut.tip_width:.3f} mm across the flanks, rounded R {cut.tip_radius:.3f} mm",
-        f"shoulders rounded R {cut.shoulder_radius:.3f} mm (the teeth's tips)"
+        f"full depth {u.fixed(cut.full_depth, 3)} from the rim; feed in "
+        f"{u.fixed(cut.infeed, 4)} (+{u.fixed(cut.extra_infeed, 4)} for a thinning "
+        f"of {u.fixed(cut.thinning, 4)})",
+        f"tip {u.fixed(cut.tip_width, 3)} across the flanks, rounded R "
+        f"{u.fixed(cut.tip_radius, 3)}",
+        f"shoulders rounded R {u.fixed(cut.shoulder_radius, 3)} (the teeth's tips)"
         if cut.shoulder_radius > 0
         else "shoulders sharp (the teeth's tips are not rounded)",
-        f"check: {cut.over_pins:.4f} mm over two \u00d8{cut.pin_diameter:.2f} mm "
+        f"check: {u.fixed(cut.over_pins, 4)} over two \u00d8{u.fixed(cut.pin_diameter, 2)} "
         f"{'balls' if cut.teeth % 2 else 'pins'} at the full feed",
         f"enlarged view {k:g}:1",
     ]
@@ -167,11 +185,12 @@ def cutter_svg(wheel: str, spec: ToothSpec, cut: TriangularCut) -> str:
     by = page_h - 8
     out.append(
         f'<g id="{esc(wheel)}-check-bar" stroke="#000" stroke-width="0.3"><line x1="{margin}" '
-        f'y1="{fmt(by)}" x2="{margin + 10}" y2="{fmt(by)}"/><line x1="{margin}" '
+        f'y1="{fmt(by)}" x2="{fmt(margin + bar)}" y2="{fmt(by)}"/><line x1="{margin}" '
         f'y1="{fmt(by - 1.5)}" x2="{margin}" y2="{fmt(by + 1.5)}"/><line '
-        f'x1="{margin + 10}" y1="{fmt(by - 1.5)}" x2="{margin + 10}" '
+        f'x1="{fmt(margin + bar)}" y1="{fmt(by - 1.5)}" x2="{fmt(margin + bar)}" '
         f'y2="{fmt(by + 1.5)}"/></g>\n'
-        f'<text x="{margin + 13}" y="{fmt(by + 1)}" font-size="3">10 mm</text>\n'
+        f'<text x="{fmt(margin + bar + 3)}" y="{fmt(by + 1)}" font-size="3">'
+        f"{bar_label}</text>\n"
     )
     out.append("</svg>\n")
     return "".join(out)

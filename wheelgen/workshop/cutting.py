@@ -343,7 +343,8 @@ def cutting_sheet_writer(
         return []
     path = Path(staging_dir) / CUTTING_FILE
     rows = cutting_rows(parts)
-    path.write_text(cutting_csv(rows, lengths_of(design)), encoding="utf-8")
+    u = lengths_of(design)
+    path.write_text(cutting_csv(rows, u), encoding="utf-8")
     written = [path]
     specs = {p.name: p.tooth for p in parts if isinstance(p, WheelPart)}
     for row in rows:
@@ -352,7 +353,7 @@ def cutting_sheet_writer(
         drawing = Path(staging_dir) / cutter_drawing_file(row.wheel)
         drawing.parent.mkdir(exist_ok=True)
         drawing.write_text(
-            cutter_svg(row.wheel, specs[row.wheel], row.cutter), encoding="utf-8"
+            cutter_svg(row.wheel, specs[row.wheel], row.cutter, u), encoding="utf-8"
         )
         written.append(drawing)
     return written
