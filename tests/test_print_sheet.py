@@ -318,3 +318,13 @@ def test_fit_test_pins_stay_printable() -> None:
     # derived: 3 mm arbors, 3.1 mm the largest clearance: pins would go through zero
     assert plan.nominal > 3.0
     assert min(plan.pin_diameters) >= PRINT_WALL_LINES * design.process.nozzle - 1e-9
+
+
+def test_fit_test_labels_are_all_different_and_none_reads_zero() -> None:
+    # derived: a clearance of 0.1016 mm (0.004 in) less two 0.05 mm steps is 0.0016 mm,
+    # which would be labelled 0 like the plain hole and pin; that step is left out
+    text = _design_text().replace("clearance = 0.2\n", "clearance = 0.1016\n")
+    design = loads_design(text, "w.toml")
+    plan = fit_test_plan(design, plan_parts(design))
+    assert plan.labels == ("5", "10", "15", "20")
+    assert len(set(plan.labels)) == len(plan.labels)

@@ -72,8 +72,12 @@ def fit_test_plan(design: Any, parts: Sequence[Any]) -> FitTestPlan:
         else 3.0
     )
     c = design.process.clearance
+    # a step whose label would read 0 (under half a hundredth of a millimetre) could
+    # not be told from the plain hole or pin, so it is left out
     clearances = tuple(
-        round(c + k * FIT_STEP, 4) for k in FIT_STEPS if c + k * FIT_STEP > 1e-9
+        round(c + k * FIT_STEP, 4)
+        for k in FIT_STEPS
+        if round((c + k * FIT_STEP) * 100) >= 1
     )
     layer = design.process.layer
     nozzle = design.process.nozzle
