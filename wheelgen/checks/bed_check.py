@@ -12,6 +12,7 @@ from typing import Any
 
 from ..design.model import Design
 from ..findings import Finding
+from ..layout.part_kinds import Part
 
 __all__ = ["EDGE_SPACING", "bed_findings", "flat_footprint"]
 
@@ -20,7 +21,7 @@ __all__ = ["EDGE_SPACING", "bed_findings", "flat_footprint"]
 EDGE_SPACING = 5.0
 
 
-def flat_footprint(part: Any) -> tuple[float, float] | None:
+def flat_footprint(part: Part) -> tuple[float, float] | None:
     """Width and depth (mm) of a flat part lying on the plate; None for other kinds."""
     import numpy as np
 

@@ -10,13 +10,16 @@ import dataclasses
 import errno
 import signal
 import sys
+from collections.abc import Sequence
 from pathlib import Path
 from typing import Any
 
 import click
 
+from ..design.model import Design
 from ..design.units import UNITS, Units
 from ..export.formats import DXF_CURVES, FORMATS, MESH_TOLERANCE
+from ..findings import Finding
 from ._common import (
     DEFAULT_DESIGN,
     EXIT_FINDINGS,
@@ -351,7 +354,7 @@ _OS_FIXES = {
 }
 
 
-def _os_error_text(exc: OSError, out_dir: Path | None, design: Any) -> str:
+def _os_error_text(exc: OSError, out_dir: Path | None, design: Design) -> str:
     """One line: what could not be done, where, and what to do about it."""
     where = exc.filename or out_dir or "the output folder"
     if ".staging-" in str(where):  # the build's own temporary folder: name its place
@@ -367,7 +370,7 @@ def _os_error_text(exc: OSError, out_dir: Path | None, design: Any) -> str:
     )
 
 
-def _blocked(findings: Any, force: bool) -> bool:
+def _blocked(findings: Sequence[Finding], force: bool) -> bool:
     from ..findings import has_errors
 
     return has_errors(findings) and not force

@@ -23,7 +23,7 @@ import re
 from dataclasses import dataclass
 from decimal import ROUND_HALF_UP, Decimal
 from fractions import Fraction
-from typing import Any, Literal
+from typing import Literal
 
 from .periods import PeriodError, parse_number
 
@@ -254,6 +254,6 @@ def _fixed(value: float, places: int) -> str:
 MM = Lengths()
 
 
-def lengths_of(design: Any) -> Lengths:
+def lengths_of(design: object) -> Lengths:
     """The formatter of ``design``'s units (millimetres for anything without any)."""
     return Lengths(getattr(design, "units", "mm"))

@@ -37,10 +37,11 @@ import io
 import math
 from dataclasses import dataclass
 from pathlib import Path
-from typing import Any, Sequence
+from typing import Sequence
 
 from ..design.model import Design
 from ..design.units import lengths_of
+from ..findings import Finding
 from ..layout.part_kinds import (
     ArborPart,
     BearingPart,
@@ -961,7 +962,10 @@ def assembly_csv(design: Design, parts: Sequence[Part]) -> str:
 
 
 def assembly_writer(
-    design: Any, parts: Sequence[Any], findings: Sequence[Any], staging_dir: Path
+    design: Design,
+    parts: Sequence[Part],
+    findings: Sequence[Finding],
+    staging_dir: Path,
 ) -> list[Path]:
     """Sheet writer for ``wheelgen build``: writes ``assembly.csv``."""
     path = Path(staging_dir) / ASSEMBLY_FILE

@@ -25,8 +25,10 @@ from dataclasses import dataclass
 from pathlib import Path
 from typing import Any, Sequence
 
+from ..design.model import Design
 from ..design.units import MM, Lengths, lengths_of
-from ..layout.part_kinds import WheelPart
+from ..findings import Finding
+from ..layout.part_kinds import Part, WheelPart
 from ..teeth.gear_data import gear_data
 from ..teeth.triangular_cut import TriangularCut, triangular_cut
 from .cutter_drawing import cutter_svg
@@ -152,7 +154,7 @@ def extra_infeed(thinning: float, pressure_angle_deg: float) -> float:
     return thinning / (2.0 * math.tan(math.radians(pressure_angle_deg)))
 
 
-def cutting_rows(parts: Sequence[Any]) -> tuple[CuttingRow, ...]:
+def cutting_rows(parts: Sequence[Part]) -> tuple[CuttingRow, ...]:
     """The cutting sheet's rows: one per :class:`WheelPart` in ``parts``, in order.
 
     Other parts (arbors, sleeves, pins) are skipped.
@@ -332,7 +334,10 @@ def cutting_csv(rows: Sequence[CuttingRow], lengths: Lengths = MM) -> str:
 
 
 def cutting_sheet_writer(
-    design: Any, parts: Sequence[Any], findings: Sequence[Any], staging_dir: Path
+    design: Design,
+    parts: Sequence[Part],
+    findings: Sequence[Finding],
+    staging_dir: Path,
 ) -> list[Path]:
     """Sheet writer for ``wheelgen build``: ``cutting.csv`` and the cutter drawings.
 

@@ -26,14 +26,14 @@ import math
 from collections.abc import Sequence
 from dataclasses import dataclass
 from pathlib import Path
-from typing import Any
 
 from ..design.model import Design
 from ..design.units import lengths_of
-from ..findings import has_errors
+from ..findings import Finding, has_errors
 from ..frame.holes import FrameHole
 from ..frame.plan import PLATES, FramePlan, plan_frame
 from ..kinematics.rates import axis_root
+from ..layout.part_kinds import Part
 from ..layout.train_layout import plan_layout
 from ._svg import esc
 
@@ -306,7 +306,10 @@ def drilling_svg(design: Design, plate: str, unchecked: bool = False) -> str:
 
 
 def drilling_sheet_writer(
-    design: Design, parts: Sequence[Any], findings: Sequence[Any], staging_dir: Path
+    design: Design,
+    parts: Sequence[Part],
+    findings: Sequence[Finding],
+    staging_dir: Path,
 ) -> list[Path]:
     """Write ``drilling/<plate>.csv`` and ``.svg`` for each plate; return their paths."""
     if design.frame is None:

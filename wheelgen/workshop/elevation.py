@@ -22,9 +22,11 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 from pathlib import Path
-from typing import Any, Collection, Sequence
+from typing import Collection, Sequence
 
+from ..design.model import Design
 from ..design.units import MM, Lengths, lengths_of
+from ..findings import Finding
 from ..layout.part_kinds import (
     ArborPart,
     CockPart,
@@ -381,7 +383,10 @@ def elevation_svg(
 
 
 def elevation_writer(
-    design: Any, parts: Sequence[Any], findings: Sequence[Any], staging_dir: Path
+    design: Design,
+    parts: Sequence[Part],
+    findings: Sequence[Finding],
+    staging_dir: Path,
 ) -> list[Path]:
     """Sheet writer for ``wheelgen build``: ``drawings/elevation.svg``, labelled in
     the design's units."""

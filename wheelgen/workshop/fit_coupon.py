@@ -10,10 +10,11 @@ is made by :mod:`wheelgen.export.fit_test`. Lengths in mm.
 from __future__ import annotations
 
 from dataclasses import dataclass
-from typing import Any, Sequence
+from typing import Sequence
 
+from ..design.model import Design
 from ..design.process_limits import PRINT_WALL_LINES
-from ..layout.part_kinds import ArborPart
+from ..layout.part_kinds import ArborPart, Part
 from .print_plan import PART_SPACING
 
 __all__ = ["FIT_STEP", "FIT_STEPS", "FitTestPlan", "digit_bars", "fit_test_plan"]
@@ -58,7 +59,7 @@ class FitTestPlan:
     relief: float
 
 
-def fit_test_plan(design: Any, parts: Sequence[Any]) -> FitTestPlan:
+def fit_test_plan(design: Design, parts: Sequence[Part]) -> FitTestPlan:
     """The coupon for ``design``: its most common arbor diameter (3 mm if none) at the
     design's running clearance (``[process] clearance``) and two steps either side.
 

@@ -10,8 +10,6 @@ gives the real size.
 
 from __future__ import annotations
 
-from typing import Any
-
 import numpy as np
 
 from ..display.outlines import flat_profile
@@ -24,6 +22,7 @@ from ..layout.part_kinds import (
     DialPart,
     HandPart,
     KnobPart,
+    Part,
     PillarPart,
     PinPart,
     PlatePart,
@@ -240,7 +239,7 @@ def _flat_svg(part: HandPart | DialPart | CrankPart | KnobPart) -> str:
     )
 
 
-def part_svg(part: Any) -> str:
+def part_svg(part: Part) -> str:
     """One part as an ``<svg>`` element (text); wheels, plates and the display's flat
     parts face-on, shafts, tubes and pillars side-on, cocks from above."""
     if isinstance(part, WheelPart):

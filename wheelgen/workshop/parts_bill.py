@@ -29,8 +29,10 @@ from typing import Any, Sequence
 
 import numpy as np
 
+from ..design.model import Design
 from ..design.units import MM, MM_PER_INCH, Lengths, inch_fraction, lengths_of
 from ..display.outlines import FlatProfile, flat_profile
+from ..findings import Finding
 from ..frame.outline import edges_polyline
 from ..frame.plan import plan_frame
 from ..layout.part_kinds import (
@@ -42,6 +44,7 @@ from ..layout.part_kinds import (
     DialPart,
     HandPart,
     KnobPart,
+    Part,
     PillarPart,
     PinPart,
     PlatePart,
@@ -218,7 +221,7 @@ def _wheel_row(part: WheelPart, u: Lengths = MM) -> BillRow:
     )
 
 
-def _tube_note(design: Any, part: SleevePart) -> str:
+def _tube_note(design: Design, part: SleevePart) -> str:
     for tube in getattr(design, "stock", ()):
         if (
             getattr(tube, "kind", "tube") == "tube"
@@ -278,7 +281,7 @@ def _turned_volume(
 
 
 def _made_how(
-    design: Any, stock: float, largest: float, outside: float, u: Lengths = MM
+    design: Design, stock: float, largest: float, outside: float, u: Lengths = MM
 ) -> str:
     """How a turned part's stock is worked, in words (nothing when printed)."""
     process = getattr(getattr(design, "process", None), "kind", "mill")
@@ -291,7 +294,7 @@ def _made_how(
     return ""
 
 
-def _sleeve_row(design: Any, part: SleevePart, u: Lengths = MM) -> BillRow:
+def _sleeve_row(design: Design, part: SleevePart, u: Lengths = MM) -> BillRow:
     volume, largest = _turned_volume(
         part.outside, part.inside, part.length, part.collars
     )
@@ -318,7 +321,7 @@ def _sleeve_row(design: Any, part: SleevePart, u: Lengths = MM) -> BillRow:
     )
 
 
-def _rod_row(design: Any, part: ArborPart | PinPart, u: Lengths = MM) -> BillRow:
+def _rod_row(design: Design, part: ArborPart | PinPart, u: Lengths = MM) -> BillRow:
     collars = part.collars if isinstance(part, ArborPart) else ()
     volume, largest = _turned_volume(part.diameter, 0.0, part.length, collars)
     stock = part.stock if isinstance(part, ArborPart) and part.stock > 0 else 0.0
@@ -338,7 +341,7 @@ def _rod_row(design: Any, part: ArborPart | PinPart, u: Lengths = MM) -> BillRow
     )
 
 
-def _collar_row(design: Any, part: CollarPart, u: Lengths = MM) -> BillRow:
+def _collar_row(design: Design, part: CollarPart, u: Lengths = MM) -> BillRow:
     volume, _ = _turned_volume(part.outside, part.inside, part.length, ())
     printed = getattr(getattr(design, "process", None), "kind", "mill") == "print"
     return BillRow(
@@ -418,7 +421,7 @@ def _pillar_row(part: PillarPart, u: Lengths = MM) -> BillRow:
     )
 
 
-def _cock_how(design: Any, part: CockPart) -> str:
+def _cock_how(design: Design, part: CockPart) -> str:
     """How to line the cock's pivot up with the plate that holds its arbor."""
     if getattr(design, "frame", None) is not None:
         for c in plan_frame(design).cocks:
@@ -430,7 +433,7 @@ def _cock_how(design: Any, part: CockPart) -> str:
     return "screw it on, then ream its pivot hole through the plate's"
 
 
-def _cock_row(design: Any, part: CockPart, u: Lengths = MM) -> BillRow:
+def _cock_row(design: Design, part: CockPart, u: Lengths = MM) -> BillRow:
     w = part.width
     bar = (part.length * w + math.pi / 4 * w**2) * part.thickness
     foot = ((part.length - part.foot_from) * w + math.pi / 4 * w**2) * part.foot_height
@@ -457,8 +460,10 @@ def _cock_row(design: Any, part: CockPart, u: Lengths = MM) -> BillRow:
     )
 
 
-def _bought_rows(parts: Sequence[Any], u: Lengths = MM) -> list[BillRow]:
-    groups: dict[tuple[Any, ...], list[Any]] = {}
+def _bought_rows(
+    parts: Sequence[ScrewPart | BearingPart], u: Lengths = MM
+) -> list[BillRow]:
+    groups: dict[tuple[Any, ...], list[ScrewPart | BearingPart]] = {}
     for p in parts:
         if isinstance(p, ScrewPart):
             key: tuple[Any, ...] = ("screw", p.size, p.length, p.head_diameter)
@@ -573,7 +578,7 @@ def area_ring(outside: float, inside: float) -> float:
     return math.pi / 4 * (outside**2 - inside**2)
 
 
-def bill_rows(design: Any, parts: Sequence[Any]) -> tuple[BillRow, ...]:
+def bill_rows(design: Design, parts: Sequence[Part]) -> tuple[BillRow, ...]:
     """One row per made part, in the order of the part plan, then one row per size
     of bought part (screws, bushes, bearings) with the count."""
     rows = []
@@ -649,7 +654,10 @@ def parts_csv(rows: Sequence[BillRow], lengths: Lengths = MM) -> str:
 
 
 def parts_sheet_writer(
-    design: Any, parts: Sequence[Any], findings: Sequence[Any], staging_dir: Path
+    design: Design,
+    parts: Sequence[Part],
+    findings: Sequence[Finding],
+    staging_dir: Path,
 ) -> list[Path]:
     """Sheet writer for ``wheelgen build``: writes ``parts.csv`` into ``staging_dir``."""
     path = Path(staging_dir) / PARTS_FILE

@@ -26,13 +26,14 @@ import io
 import math
 from dataclasses import dataclass, replace
 from pathlib import Path
-from typing import Any, Sequence
+from typing import Sequence
 
 import numpy as np
 
 from ..checks.bed_check import EDGE_SPACING
+from ..design.model import Design
 from ..design.units import MM, Lengths, lengths_of
-from ..layout.part_kinds import BOUGHT_KINDS, ArborPart, PinPart
+from ..layout.part_kinds import BOUGHT_KINDS, ArborPart, Part, PinPart
 from .stl_file import read_stl
 
 __all__ = [
@@ -72,7 +73,7 @@ ORIENTATIONS: dict[str, str] = {
 _FLAT_KINDS = frozenset({"wheel", "plate", "hand", "dial", "crank", "cock"})
 
 
-def _stock_rod(design: Any, diameter: float) -> bool:
+def _stock_rod(design: Design, diameter: float) -> bool:
     return any(
         getattr(s, "kind", "") == "rod"
         and math.isclose(s.outside, diameter, abs_tol=1e-6)
@@ -80,7 +81,7 @@ def _stock_rod(design: Any, diameter: float) -> bool:
     )
 
 
-def orientation(part: Any, design: Any) -> str:
+def orientation(part: Part, design: Design) -> str:
     """How ``part`` goes on the printer: a key of :data:`ORIENTATIONS`."""
     if part.kind in _FLAT_KINDS:
         return "flat"
@@ -240,7 +241,7 @@ def print_csv(rows: Sequence[PrintRow], lengths: Lengths = MM) -> str:
     return buf.getvalue()
 
 
-def printed(part: Any) -> bool:
+def printed(part: Part) -> bool:
     """Is ``part`` one the printer makes (not bought)?"""
     return part.kind not in BOUGHT_KINDS
 
@@ -270,7 +271,7 @@ class PrintLayout:
 
 
 def print_layout(
-    design: Any, parts: Sequence[Any], staging_dir: Path | None
+    design: Design, parts: Sequence[Part], staging_dir: Path | None
 ) -> PrintLayout:
     """Orient and place every printed part of ``design`` from its STL in
     ``staging_dir`` (``stl/<part>.stl``); parts without an STL (or without a folder)

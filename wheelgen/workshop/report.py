@@ -31,6 +31,7 @@ from ..kinematics.targets import (
     arbor_sense,
     evaluate_targets,
 )
+from ..layout.part_kinds import Part
 from ..layout.placement import arbor_positions
 from ..version import __version__
 from .assembly import ASSEMBLY_FILE, assembly_steps
@@ -171,7 +172,7 @@ def _table(
     return "".join(out)
 
 
-def _job(design: Design, parts: Sequence[Any], findings: Sequence[Finding]) -> str:
+def _job(design: Design, parts: Sequence[Part], findings: Sequence[Finding]) -> str:
     rows = [
         ("Design file", Path(design.source).name if design.source else design.name),
         ("SHA-256 of the file", design.sha256 or "not recorded"),
@@ -417,7 +418,7 @@ def _preview(
     )
 
 
-def _parts(parts: Sequence[Any], bill: Sequence[BillRow], u: Lengths = MM) -> str:
+def _parts(parts: Sequence[Part], bill: Sequence[BillRow], u: Lengths = MM) -> str:
     figs = []
     by_name = {r.part: r for r in bill}
     for part in parts:
@@ -488,7 +489,7 @@ def _inline(svg: str) -> str:
     return svg.replace("<svg ", '<svg class="drawing" ', 1)
 
 
-def _cutting(rows: Sequence[CuttingRow], parts: Sequence[Any], u: Lengths = MM) -> str:
+def _cutting(rows: Sequence[CuttingRow], parts: Sequence[Part], u: Lengths = MM) -> str:
     specs = {p.name: p.tooth for p in parts if p.kind == "wheel"}
     if not rows:
         return "<p>No wheels to cut.</p>"
@@ -596,7 +597,7 @@ def _cutting(rows: Sequence[CuttingRow], parts: Sequence[Any], u: Lengths = MM) 
     )
 
 
-def _print_sheet(design: Design, parts: Sequence[Any], layout: PrintLayout) -> str:
+def _print_sheet(design: Design, parts: Sequence[Part], layout: PrintLayout) -> str:
     """The print sheet: the fit test first, then how each part lies and the plates.
 
     Sizes in the design's units; the coupon's raised labels are hundredths of a
@@ -736,7 +737,7 @@ def _drilling(design: Design, unchecked: bool) -> str:
     return "".join(out)
 
 
-def _assembly(design: Design, parts: Sequence[Any]) -> str:
+def _assembly(design: Design, parts: Sequence[Part]) -> str:
     """Every step of assembly.csv, numbered, each with the elevation of what it is
     fitted into so far and the part it fits drawn in red."""
     items = []
@@ -762,7 +763,7 @@ def _assembly(design: Design, parts: Sequence[Any]) -> str:
     )
 
 
-def _files(parts: Sequence[Any], files: Sequence[tuple[str, int]] | None) -> str:
+def _files(parts: Sequence[Part], files: Sequence[tuple[str, int]] | None) -> str:
     if files is None:
         return "<p>The files are listed when <code>wheelgen build</code> writes the report.</p>"
     cells: dict[str, dict[str, int]] = {}
@@ -808,7 +809,7 @@ def _files(parts: Sequence[Any], files: Sequence[tuple[str, int]] | None) -> str
 
 def report_html(
     design: Design,
-    parts: Sequence[Any],
+    parts: Sequence[Part],
     findings: Sequence[Finding],
     solution: TrainSolution | None = None,
     targets: Sequence[TargetResult] | None = None,
@@ -898,7 +899,10 @@ def report_html(
 
 
 def report_writer(
-    design: Any, parts: Sequence[Any], findings: Sequence[Any], staging_dir: Path
+    design: Design,
+    parts: Sequence[Part],
+    findings: Sequence[Finding],
+    staging_dir: Path,
 ) -> list[Path]:
     """Sheet writer for ``wheelgen build``: writes ``report.html`` into ``staging_dir``."""
     path = Path(staging_dir) / REPORT_FILE
