@@ -22,7 +22,8 @@ import re
 from dataclasses import dataclass, field
 from pathlib import Path
 
-from wheelgen.design.loader import PROCESS_KEYS, WHEEL_KEYS
+from wheelgen.design.settings_tables import PROCESS_KEYS
+from wheelgen.design.train_tables import WHEEL_KEYS
 
 __all__ = ["Case", "SPECIAL", "cases"]
 

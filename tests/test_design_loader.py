@@ -15,7 +15,8 @@ from hypothesis import HealthCheck, example, given, settings
 from hypothesis import strategies as st
 
 from wheelgen.design import DesignError, load_design, loads_design
-from wheelgen.design.loader import MAX_TEETH, MIN_TEETH, RESERVED_NAMES
+from wheelgen.design.names import RESERVED_NAMES
+from wheelgen.design.train_tables import MAX_TEETH, MIN_TEETH
 
 DATA = Path(__file__).parent / "data"
 
@@ -662,7 +663,8 @@ def test_many_mistakes_are_listed_up_to_a_limit():
 def test_the_format_document_gives_every_bounded_range():
     # docs/format.md and the bounds table must tell the same story
     from wheelgen.design.bounds import _show
-    from wheelgen.design.loader import PROCESS_KEYS, WHEEL_KEYS
+    from wheelgen.design.settings_tables import PROCESS_KEYS
+    from wheelgen.design.train_tables import WHEEL_KEYS
 
     doc = (Path(__file__).parents[1] / "docs" / "format.md").read_text(encoding="utf-8")
     sections = {s.split("\n", 1)[0]: s for s in doc.split("\n## ")}

@@ -14,7 +14,8 @@ import click
 from ..checks import analyse
 from ..checks.train_fit import TrainFit, fit_train, shift_reach
 from ..design.diametral_pitch import module_of_dp
-from ..design.loader import MAX_TEETH, MIN_TEETH, loads_design
+from ..design.loader import loads_design
+from ..design.train_tables import MAX_TEETH, MIN_TEETH
 from ..design.units import MM, UNITS, Lengths, Units
 from ..kinematics.continued_fraction import prime_factors
 from ..kinematics.ratio_search import (

@@ -1,6 +1,6 @@
 """Read the display tables of a train file: ``[[hand]]``, ``[[dial]]``, ``[display]``, ``[input]``.
 
-Every reader takes the loader (its typed access and its list of problems) and the
+Every reader takes the file reader (its typed access and its list of problems) and the
 parsed document, so a mistake here is reported with file, line, item and key like any
 other. The tables are optional: a file without them loads as before, and every target's
 arbor gets a hand by default (see :meth:`wheelgen.design.model.Design.readings`).
@@ -15,8 +15,8 @@ from __future__ import annotations
 import difflib
 from typing import Any
 
-from .loader import _axis, _bounded, _choice, _length, _Loader, _ordinal
-from .model import Design, Dial, Display, DriveInput, Hand, Where
+from .model import Design, Dial, Display, DriveInput, Hand, Where, axis_root_of
+from .schema import FileReader, bounded, bounded_length, choice, ordinal
 
 __all__ = [
     "GRADUATIONS",
@@ -73,40 +73,40 @@ _INPUT_KEYS = ("kind", "side", "diameter", "throw")
 
 
 def read_display_tables(
-    ld: _Loader, doc: dict[str, Any]
+    rd: FileReader, doc: dict[str, Any]
 ) -> tuple[tuple[Hand, ...], tuple[Dial, ...], Display, DriveInput]:
     """The hands, dial rings, display settings and drive input written in ``doc``."""
-    return _hands(ld, doc), _dials(ld, doc), _display(ld, doc), _input(ld, doc)
+    return _hands(rd, doc), _dials(rd, doc), _display(rd, doc), _input(rd, doc)
 
 
-def _hands(ld: _Loader, doc: dict[str, Any]) -> tuple[Hand, ...]:
+def _hands(rd: FileReader, doc: dict[str, Any]) -> tuple[Hand, ...]:
     out = []
-    for i, t in enumerate(ld.tables(doc, "hand")):
-        item = f"the {_ordinal(i + 1)} [[hand]]"
+    for i, t in enumerate(rd.tables(doc, "hand")):
+        item = f"the {ordinal(i + 1)} [[hand]]"
         arbor = t.get("arbor")
         if isinstance(arbor, str):
             item = f'the hand on arbor "{arbor}"'
         ctx = ("hand", i, item)
-        ld.unknown_keys(t, _HAND_KEYS, ctx, required=("arbor",))
-        arbor = ld.value(t, "arbor", "string", ctx, required=True)
-        length = ld.value(t, "length", "length", ctx, check=_length("size"))
-        tail = ld.value(t, "tail", "length", ctx, check=_length("size_or_zero"))
-        weight = ld.value(
+        rd.unknown_keys(t, _HAND_KEYS, ctx, required=("arbor",))
+        arbor = rd.value(t, "arbor", "string", ctx, required=True)
+        length = rd.value(t, "length", "length", ctx, check=bounded_length("size"))
+        tail = rd.value(t, "tail", "length", ctx, check=bounded_length("size_or_zero"))
+        weight = rd.value(
             t,
             "counterweight",
             "length",
             ctx,
             default=0.0,
-            check=_length("size_or_zero"),
+            check=bounded_length("size_or_zero"),
         )
-        width = ld.value(t, "width", "length", ctx, check=_length("size"))
-        thickness = ld.value(t, "thickness", "length", ctx, check=_length("size"))
-        seat = ld.value(
-            t, "seat", "string", ctx, check=_choice("square", "flat", "collet")
+        width = rd.value(t, "width", "length", ctx, check=bounded_length("size"))
+        thickness = rd.value(
+            t, "thickness", "length", ctx, check=bounded_length("size")
         )
-        rest = ld.value(
-            t, "rest", "number", ctx, default=0.0, check=_bounded("bearing")
+        seat = rd.value(
+            t, "seat", "string", ctx, check=choice("square", "flat", "collet")
         )
+        rest = rd.value(t, "rest", "number", ctx, default=0.0, check=bounded("bearing"))
         if arbor is None:
             continue
         out.append(
@@ -119,38 +119,38 @@ def _hands(ld: _Loader, doc: dict[str, Any]) -> tuple[Hand, ...]:
                 thickness,
                 seat,
                 rest,
-                where=ld.where("hand", i, item),
+                where=rd.where("hand", i, item),
             )
         )
     return tuple(out)
 
 
-def _dials(ld: _Loader, doc: dict[str, Any]) -> tuple[Dial, ...]:
+def _dials(rd: FileReader, doc: dict[str, Any]) -> tuple[Dial, ...]:
     out = []
-    for i, t in enumerate(ld.tables(doc, "dial")):
-        item = f"the {_ordinal(i + 1)} [[dial]]"
+    for i, t in enumerate(rd.tables(doc, "dial")):
+        item = f"the {ordinal(i + 1)} [[dial]]"
         arbor = t.get("arbor")
         if isinstance(arbor, str):
             item = f'the dial of arbor "{arbor}"'
         ctx = ("dial", i, item)
-        ld.unknown_keys(t, _DIAL_KEYS, ctx, required=("arbor",))
-        arbor = ld.value(t, "arbor", "string", ctx, required=True)
-        radius = ld.value(t, "radius", "length", ctx, check=_length("size"))
-        kind = ld.value(t, "graduations", "string", ctx, check=_choice(*GRADUATIONS))
-        labels = _labels(ld, t, ctx)
-        zero = ld.value(
-            t, "zero", "number", ctx, default=90.0, check=_bounded("bearing")
+        rd.unknown_keys(t, _DIAL_KEYS, ctx, required=("arbor",))
+        arbor = rd.value(t, "arbor", "string", ctx, required=True)
+        radius = rd.value(t, "radius", "length", ctx, check=bounded_length("size"))
+        kind = rd.value(t, "graduations", "string", ctx, check=choice(*GRADUATIONS))
+        labels = _labels(rd, t, ctx)
+        zero = rd.value(
+            t, "zero", "number", ctx, default=90.0, check=bounded("bearing")
         )
         if labels and kind not in (None, "labels"):
-            ld.problem(
-                ld.where("dial", i, item, "labels"),
+            rd.problem(
+                rd.where("dial", i, item, "labels"),
                 f'labels with graduations = "{kind}"',
                 "labels only with graduations = \"labels\" (or without 'graduations')",
             )
             continue
         if kind == "labels" and not labels:
-            ld.problem(
-                ld.where("dial", i, item, "graduations"),
+            rd.problem(
+                rd.where("dial", i, item, "graduations"),
                 'graduations = "labels" without labels',
                 'a list of labels, such as labels = ["high", "low"]',
             )
@@ -166,14 +166,14 @@ def _dials(ld: _Loader, doc: dict[str, Any]) -> tuple[Dial, ...]:
                 kind or "auto",
                 labels,
                 zero,
-                where=ld.where("dial", i, item),
+                where=rd.where("dial", i, item),
             )
         )
     return tuple(out)
 
 
 def _labels(
-    ld: _Loader, t: dict[str, Any], ctx: tuple[str, int, str]
+    rd: FileReader, t: dict[str, Any], ctx: tuple[str, int, str]
 ) -> tuple[str, ...]:
     if "labels" not in t:
         return ()
@@ -193,75 +193,80 @@ def _labels(
     if not ok:
         shown = repr(raw)
         shown = shown if len(shown) <= 40 else shown[:37] + "..."
-        ld.problem(ld.where(*ctx, "labels"), f"labels = {shown}", allowed)
+        rd.problem(rd.where(*ctx, "labels"), f"labels = {shown}", allowed)
         return ()
     return tuple(raw)
 
 
-def _display(ld: _Loader, doc: dict[str, Any]) -> Display:
-    t = ld.table(doc, "display")
+def _display(rd: FileReader, doc: dict[str, Any]) -> Display:
+    t = rd.table(doc, "display")
     if t is None:
         return Display()
     ctx = ("display", 0, "[display]")
-    ld.unknown_keys(t, _DISPLAY_KEYS, ctx)
+    rd.unknown_keys(t, _DISPLAY_KEYS, ctx)
     base = Display()
-    readings = ld.value(
+    readings = rd.value(
         t,
         "readings",
         "string",
         ctx,
         default=base.readings,
-        check=_choice("targets", "none"),
+        check=choice("targets", "none"),
     )
-    dial_gap = ld.value(t, "dial_gap", "length", ctx, check=_length("size"))
-    hand_gap = ld.value(
-        t, "hand_gap", "length", ctx, default=base.hand_gap, check=_length("size")
+    dial_gap = rd.value(t, "dial_gap", "length", ctx, check=bounded_length("size"))
+    hand_gap = rd.value(
+        t,
+        "hand_gap",
+        "length",
+        ctx,
+        default=base.hand_gap,
+        check=bounded_length("size"),
     )
-    dial_t = ld.value(t, "dial_thickness", "length", ctx, check=_length("size"))
-    hand_t = ld.value(t, "hand_thickness", "length", ctx, check=_length("size"))
+    dial_t = rd.value(t, "dial_thickness", "length", ctx, check=bounded_length("size"))
+    hand_t = rd.value(t, "hand_thickness", "length", ctx, check=bounded_length("size"))
     return Display(readings, dial_gap, hand_gap, dial_t, hand_t)
 
 
-def _input(ld: _Loader, doc: dict[str, Any]) -> DriveInput:
-    t = ld.table(doc, "input")
+def _input(rd: FileReader, doc: dict[str, Any]) -> DriveInput:
+    t = rd.table(doc, "input")
     if t is None:
         return DriveInput()
     ctx = ("input", 0, "[input]")
-    ld.unknown_keys(t, _INPUT_KEYS, ctx)
-    kind = ld.value(
-        t, "kind", "string", ctx, default="knob", check=_choice("knob", "crank", "none")
+    rd.unknown_keys(t, _INPUT_KEYS, ctx)
+    kind = rd.value(
+        t, "kind", "string", ctx, default="knob", check=choice("knob", "crank", "none")
     )
-    side = ld.value(t, "side", "string", ctx, check=_choice("front", "back"))
-    diameter = ld.value(t, "diameter", "length", ctx, check=_length("size"))
-    throw = ld.value(t, "throw", "length", ctx, check=_length("size"))
+    side = rd.value(t, "side", "string", ctx, check=choice("front", "back"))
+    diameter = rd.value(t, "diameter", "length", ctx, check=bounded_length("size"))
+    throw = rd.value(t, "throw", "length", ctx, check=bounded_length("size"))
     if throw is not None and kind != "crank":
-        ld.problem(
-            ld.where("input", 0, "[input]", "throw"),
+        rd.problem(
+            rd.where("input", 0, "[input]", "throw"),
             f"throw = {throw:g} on a {kind or 'knob'}",
             "'throw' only with kind = \"crank\"",
         )
     return DriveInput(
-        kind or "knob", side, diameter, throw, ld.where("input", 0, "[input]")
+        kind or "knob", side, diameter, throw, rd.where("input", 0, "[input]")
     )
 
 
-def check_display_references(ld: _Loader, design: Design) -> None:
+def check_display_references(rd: FileReader, design: Design) -> None:
     """Problems with what the display tables name: arbors, repeats and part names.
 
     Called once the rest of the file is known to be sound (every reference resolves,
     no cycles), with the design as it will be returned.
     """
     by_arbor = {a.name: a for a in design.arbors}
-    file = ld.file
+    file = rd.file
 
     def at(where: Where | None, key: str) -> Where:
-        return ld.at_key(where, key) if where is not None else Where(file, key=key)
+        return rd.at_key(where, key) if where is not None else Where(file, key=key)
 
     def exists(where: Where | None, name: str) -> bool:
         if name in by_arbor:
             return True
         close = difflib.get_close_matches(name, list(by_arbor), n=1, cutoff=0.5)
-        ld.problem(
+        rd.problem(
             at(where, "arbor"),
             f'arbor "{name}" does not exist',
             "the name of one of the arbors: " + ", ".join(f'"{n}"' for n in by_arbor),
@@ -274,13 +279,13 @@ def check_display_references(ld: _Loader, design: Design) -> None:
         if not exists(h.where, h.arbor):
             continue
         if by_arbor[h.arbor].fixed:
-            ld.problem(
+            rd.problem(
                 at(h.where, "arbor"),
                 f'a hand on the fixed arbor "{h.arbor}"',
                 "a hand on an arbor that turns (a fixed one shows nothing)",
             )
         if h.arbor in seen:
-            ld.problem(
+            rd.problem(
                 at(h.where, "arbor"),
                 f'a second [[hand]] on arbor "{h.arbor}"',
                 "one hand on each arbor",
@@ -293,13 +298,13 @@ def check_display_references(ld: _Loader, design: Design) -> None:
         if not exists(d.where, d.arbor):
             continue
         if d.arbor in dials:
-            ld.problem(
+            rd.problem(
                 at(d.where, "arbor"),
                 f'a second [[dial]] for arbor "{d.arbor}"',
                 "one dial ring for each hand",
             )
         elif d.arbor not in hands:
-            ld.problem(
+            rd.problem(
                 at(d.where, "arbor"),
                 f'a dial for arbor "{d.arbor}", which has no hand',
                 "a dial for an arbor with a hand: add a [[hand]] on it, or make it a"
@@ -319,7 +324,7 @@ def check_display_references(ld: _Loader, design: Design) -> None:
     for h in design.readings():
         if h.arbor in by_arbor:
             derived.append((hand_part_name(h.arbor), h.where, "the hand"))
-            root = _axis(by_arbor, h.arbor)
+            root = axis_root_of(by_arbor, h.arbor)
             derived.append((dial_part_name(root), h.where, "its dial"))
     inp = design.drive_input
     if inp.kind != "none" and design.drive.arbor in by_arbor:
@@ -327,7 +332,7 @@ def check_display_references(ld: _Loader, design: Design) -> None:
         derived.append((name, inp.where or design.drive.where, f"the {inp.kind}"))
     for name, where, what in derived:
         if name in names:
-            ld.problem(
+            rd.problem(
                 at(where, "arbor"),
                 f'{what} would be the part "{name}", the name of {names[name]}',
                 "names of arbors, wheels and couplings that leave the display's part"

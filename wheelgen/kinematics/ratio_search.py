@@ -110,8 +110,8 @@ from typing import Literal
 import numpy as np
 
 from ..design.bounds import bound
-from ..design.loader import MAX_TEETH
 from ..design.model import RelativeSense
+from ..design.train_tables import MAX_TEETH
 from .continued_fraction import prime_factors, simplest_between
 
 __all__ = [
@@ -175,7 +175,7 @@ MAX_PRODUCTS = SEARCH_MEMORY_BUDGET // _BYTES_PER_PRODUCT
 #: integer (and ``int()`` refuses more than 4300 digits with a message about Python
 #: internals), so its length and exponent are bounded before any arithmetic
 #: (``option.ratio.target_chars`` and ``target_exponent``). The value itself must lie
-#: where a target of the train format may (``MIN_TURNS`` to ``MAX_TURNS`` of the loader).
+#: where a target of the train format may (``MIN_TURNS`` to ``MAX_TURNS`` of ``design/train_tables.py``).
 MAX_TARGET_CHARS = int(bound("option.ratio.target_chars").high)
 MAX_TARGET_EXPONENT = int(bound("option.ratio.target_exponent").high)
 #: Module range of ``wheelgen ratio`` (mm): that of a train file.

@@ -10,8 +10,8 @@ import re
 from dataclasses import dataclass
 from fractions import Fraction
 
-from ..design.loader import MAX_TURNS, MIN_TURNS
 from ..design.periods import UNIT_SECONDS, parse_period
+from ..design.train_tables import MAX_TURNS, MIN_TURNS
 from .ratio_search import MAX_TARGET_CHARS, MAX_TARGET_EXPONENT
 
 __all__ = ["RatioTarget", "parse_target", "YEAR_S"]
