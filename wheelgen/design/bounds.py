@@ -7,8 +7,8 @@ millimetres, so a module of ``1e10`` takes minutes and gigabytes, and the CAD ke
 cannot make a face ``5e-324`` mm wide. Every such number is refused before any work, by
 the :class:`Bound` of its quantity in :data:`BOUNDS`.
 
-The loader (``design/loader.py``), the command line (``cli/_options.py``) and the build
-(``export/build.py``) all look their bounds up here, so a limit is written once. This
+The loader (``design/schema.py``), the command line (``cli/_options.py``) and the build
+(``export/part_limits.py``) all look their bounds up here, so a limit is written once. This
 module imports only the standard library, so every layer may use it.
 
 The table has four parts:

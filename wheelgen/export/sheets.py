@@ -12,11 +12,16 @@ forced past error-level findings still calls the writers; they can tell with
 from __future__ import annotations
 
 from pathlib import Path
-from typing import Any, Callable, Sequence
+from typing import Callable, Sequence
 
-__all__ = ["SheetWriter", "SHEET_WRITERS"]
+from ..design.model import Design
+from ..findings import Finding
+from ..layout.part_kinds import Part
+from .staging import UnsafeNameError
 
-SheetWriter = Callable[[Any, Sequence[Any], Sequence[Any], Path], list[Path]]
+__all__ = ["SheetWriter", "SHEET_WRITERS", "write_sheets"]
+
+SheetWriter = Callable[[Design, Sequence[Part], Sequence[Finding], Path], list[Path]]
 
 from ..workshop.assembly import assembly_writer  # noqa: E402
 from ..workshop.cutting import cutting_sheet_writer  # noqa: E402  (after the type alias)
@@ -36,3 +41,23 @@ SHEET_WRITERS: tuple[SheetWriter, ...] = (
     assembly_writer,
     report_writer,
 )
+
+
+def write_sheets(
+    design: Design, parts: Sequence[Part], findings: Sequence[Finding], folder: Path
+) -> None:
+    """Run every sheet writer into ``folder``; each file it returns must be inside.
+
+    Raises
+    ------
+    UnsafeNameError
+        A writer returned a path that is not a file inside ``folder``.
+    """
+    for writer in SHEET_WRITERS:  # read now: others may extend it
+        for written in writer(design, parts, findings, folder):
+            resolved = Path(written).resolve()
+            if not resolved.is_relative_to(folder.resolve()) or not resolved.is_file():
+                raise UnsafeNameError(
+                    f"sheet writer {getattr(writer, '__name__', writer)!r} returned"
+                    f" {written}, which is not a file inside the output folder"
+                )
