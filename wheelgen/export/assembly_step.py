@@ -10,12 +10,9 @@ import json
 import shutil
 from collections.abc import Callable, Sequence
 from pathlib import Path
-from typing import Any
 
 from ..design.model import Design
-from ..layout.part_kinds import (
-    Part,
-)
+from ..layout.part_kinds import Part
 from ..version import __version__
 from .build_options import BuildOptions
 from .cache import DamagedEntry, PartCache
@@ -49,7 +46,7 @@ _COLOURS = {
 }
 
 
-def _assembly_key(design: Any, parts: Sequence[Any], keys: Sequence[str]) -> str:
+def _assembly_key(design: Design, parts: Sequence[Part], keys: Sequence[str]) -> str:
     data = {
         "wheelgen": __version__,
         "design": design.name,
@@ -67,7 +64,7 @@ def _assembly_key(design: Any, parts: Sequence[Any], keys: Sequence[str]) -> str
 
 
 def _write_assembly(
-    design: Any, parts: Sequence[Any], breps: Sequence[bytes], path: Path
+    design: Design, parts: Sequence[Part], breps: Sequence[bytes], path: Path
 ) -> None:
     import cadquery as cq
 
@@ -85,8 +82,8 @@ def _write_assembly(
 
 
 def _make_assembly(
-    design: Any,
-    parts: Sequence[Any],
+    design: Design,
+    parts: Sequence[Part],
     breps: Sequence[bytes],
     cache: PartCache,
     akey: str,

@@ -10,11 +10,8 @@ from __future__ import annotations
 import shutil
 from collections.abc import Callable, Sequence
 from pathlib import Path
-from typing import Any
 
-from ..layout.part_kinds import (
-    Part,
-)
+from ..layout.part_kinds import Part
 from .build_options import BuildOptions
 from .cache import DamagedEntry, PartCache, part_key
 from .part_files import BREP_FILE, build_part_files
@@ -31,7 +28,7 @@ __all__ = [
 ]
 
 
-def build_into_cache(part: Any, options: BuildOptions, cache_root: Path) -> str:
+def build_into_cache(part: Part, options: BuildOptions, cache_root: Path) -> str:
     """Worker: build one part's files into a cache entry; returns its key."""
     cache = PartCache(cache_root)
     key = part_key(part, options.key_options())
@@ -67,7 +64,7 @@ def changing_cache(cache: PartCache) -> CacheError:
 def copy_part(
     cache: PartCache,
     key: str,
-    part: Any,
+    part: Part,
     options: BuildOptions,
     stage: Staging,
     tell: Callable[..., None],
@@ -88,7 +85,7 @@ def copy_part(
 def read_part_file(
     cache: PartCache,
     key: str,
-    part: Any,
+    part: Part,
     rel: str,
     options: BuildOptions,
     tell: Callable[..., None],
@@ -107,7 +104,7 @@ def read_part_file(
 def _remake(
     cache: PartCache,
     key: str,
-    part: Any,
+    part: Part,
     options: BuildOptions,
     tell: Callable[..., None],
     exc: Exception,
@@ -134,6 +131,27 @@ def make_parts(
     ``keys`` are the parts' cache keys; parts of one key are made once. A part already
     in the cache is reported to ``progress`` first, then each part as it is made.
     """
+    todo = _missing(parts, keys, cache, tell)
+    for p, k in zip(parts, keys):
+        if k not in todo and progress is not None:
+            progress(p.name)
+    if options.jobs > 1 and len(todo) > 1:
+        build_parallel(build_into_cache, todo, options, cache.root, progress)
+    else:
+        for p in todo.values():
+            build_into_cache(p, options, cache.root)
+            if progress is not None:
+                progress(p.name)
+    return len(todo)
+
+
+def _missing(
+    parts: Sequence[Part],
+    keys: Sequence[str],
+    cache: PartCache,
+    tell: Callable[..., None],
+) -> dict[str, Part]:
+    """Key -> part of every part not whole in the cache (a damaged entry is removed)."""
     todo: dict[str, Part] = {}
     whole: set[str] = set()
     for p, k in zip(parts, keys):
@@ -147,14 +165,4 @@ def make_parts(
             tell(f"part {p.name}: its cache entry is damaged ({exc}); making it again")
             cache.discard(k)
         todo[k] = p
-    for p, k in zip(parts, keys):
-        if k not in todo and progress is not None:
-            progress(p.name)
-    if options.jobs > 1 and len(todo) > 1:
-        build_parallel(build_into_cache, todo, options, cache.root, progress)
-    else:
-        for p in todo.values():
-            build_into_cache(p, options, cache.root)
-            if progress is not None:
-                progress(p.name)
-    return len(todo)
+    return todo

@@ -14,7 +14,15 @@ from pathlib import Path
 from typing import Any
 
 from ..design.units import Lengths
-from ..layout.part_kinds import BOUGHT_KINDS, DISPLAY_KINDS, FLAT_KINDS, TURNED_KINDS
+from ..layout.part_kinds import (
+    BOUGHT_KINDS,
+    FLAT_KINDS,
+    TURNED_KINDS,
+    Part,
+    WheelPart,
+    is_display,
+    is_turned,
+)
 from .build_options import MESH_ANGLE_DEG, BuildOptions
 from .formats import FORMATS, PLANAR_FORMATS
 from .staging import inside, safe_name
@@ -28,7 +36,7 @@ __all__ = [
 ]
 
 
-def part_file_names(part: Any, formats: Sequence[str]) -> list[tuple[str, str]]:
+def part_file_names(part: Part, formats: Sequence[str]) -> list[tuple[str, str]]:
     """(format, relative path) of every file the part gets.
 
     Bought parts (screws, bushes, bearings) get none: they are only in the assembly.
@@ -50,7 +58,7 @@ class PartWork:
 
     def __init__(
         self,
-        part: Any,
+        part: Part,
         tolerance: float,
         dxf_curves: str = "splines",
         units: str = "mm",
@@ -90,21 +98,31 @@ class PartWork:
     def profile(self) -> Any:
         """A wheel's flat profile; a plate's outline as a closed polyline (mm)."""
         if self._profile is None:
-            if self.part.kind == "plate":
+            part = self.part
+            if part.kind == "plate":
                 from ..frame.outline import edges_polyline
 
-                self._profile = edges_polyline(self.part.outline, 0.005)
+                self._profile = edges_polyline(part.outline, 0.005)
                 return self._profile
-            if self.part.kind in DISPLAY_KINDS:
+            if is_display(part):
                 from ..display.outlines import flat_profile
 
-                self._profile = flat_profile(self.part)
+                self._profile = flat_profile(part)
                 return self._profile
             from ..layout.wheel_profile import plate_profile
             from ..teeth.forms import outline_for
 
-            self._profile = plate_profile(self.part, outline_for(self.part.tooth))
+            wheel = _wheel(part)
+            self._profile = plate_profile(wheel, outline_for(wheel.tooth))
         return self._profile
+
+
+def _wheel(part: Part) -> WheelPart:
+    """The part as the wheel it must be: the only flat kind left once the plates,
+    the display's parts and the turned parts are drawn their own ways."""
+    if not isinstance(part, WheelPart):
+        raise TypeError(f"part {part.name!r}: a {part.kind} has no wheel profile")
+    return part
 
 
 def _write_step(w: PartWork, path: Path) -> None:
@@ -125,7 +143,7 @@ def _write_3mf(w: PartWork, path: Path) -> None:
     write_3mf(w.mesh, path, w.part.name)
 
 
-def _face_pins(part: Any) -> list[tuple[float, float, float]]:
+def _face_pins(part: WheelPart) -> list[tuple[float, float, float]]:
     """(x, y, diameter) in mm of a pin standing on the wheel's face, to be marked."""
     pin = part.pin
     if pin is None or pin.hole_only:  # a through hole is drawn as a hole already
@@ -140,70 +158,72 @@ def _lengths(units: str) -> Lengths:
 
 
 def _write_dxf(w: PartWork, path: Path) -> None:
-    if w.part.kind in TURNED_KINDS:
+    part = w.part
+    if is_turned(part):
         from ..workshop.turned_drawing import turned_sheet
         from .dxf import write_sheet_dxf
 
-        write_sheet_dxf(turned_sheet(w.part, _lengths(w.units)), path, w.units)
+        write_sheet_dxf(turned_sheet(part, _lengths(w.units)), path, w.units)
         return
-    if w.part.kind == "plate":
+    if part.kind == "plate":
         from .dxf import write_plate_dxf
 
-        write_plate_dxf(w.part, path, w.units)
+        write_plate_dxf(part, path, w.units)
         return
-    if w.part.kind in DISPLAY_KINDS:
+    if is_display(part):
         from .dxf import write_flat_dxf
 
         engraving = None
-        if w.part.kind == "dial":
-            engraving = (w.part.circles, w.part.strokes, w.part.texts)
-        write_flat_dxf(
-            w.profile, path, w.part.name, engraving, w.profile.marks, w.units
-        )
+        if part.kind == "dial":
+            engraving = (part.circles, part.strokes, part.texts)
+        write_flat_dxf(w.profile, path, part.name, engraving, w.profile.marks, w.units)
         return
     from .dxf import write_dxf
 
-    hub = w.part.hub_diameter if w.part.hub_length > 0 else 0.0
+    wheel = _wheel(part)
+    hub = wheel.hub_diameter if wheel.hub_length > 0 else 0.0
     write_dxf(
         w.profile,
         path,
-        w.part.name,
+        wheel.name,
         curves=w.dxf_curves,
         tolerance=w.tolerance,
-        pins=_face_pins(w.part),
+        pins=_face_pins(wheel),
         hub_diameter=hub,
         units=w.units,
     )
 
 
 def _write_svg(w: PartWork, path: Path) -> None:
-    if w.part.kind in TURNED_KINDS:
+    part = w.part
+    if is_turned(part):
         from ..workshop.turned_drawing import sheet_svg, turned_sheet
 
-        sheet = turned_sheet(w.part, _lengths(w.units))
+        sheet = turned_sheet(part, _lengths(w.units))
         path.write_text(sheet_svg(sheet), encoding="utf-8", newline="\n")
         return
-    if w.part.kind == "plate":
+    if part.kind == "plate":
         from .svg_template import write_plate_svg
 
-        write_plate_svg(w.part, path, w.profile, units=w.units)
+        write_plate_svg(part, path, w.profile, units=w.units)
         return
-    if w.part.kind in DISPLAY_KINDS:
+    if is_display(part):
         from .face_svg import write_face_svg
 
-        write_face_svg(w.part, w.profile, path, units=w.units)
+        write_face_svg(part, w.profile, path, units=w.units)
         return
     from .svg_template import write_svg
 
+    wheel = _wheel(part)
     write_svg(
         w.profile,
         path,
-        w.part.name,
-        w.part.tooth.teeth,
-        w.part.tooth.module,
-        pins=_face_pins(w.part),
+        wheel.name,
+        wheel.tooth.teeth,
+        wheel.tooth.module,
+        pins=_face_pins(wheel),
         units=w.units,
-        diametral_pitch=w.part.tooth.diametral_pitch,
+        diametral_pitch=wheel.tooth.diametral_pitch,
     )
 
 
@@ -218,7 +238,7 @@ PART_WRITERS: dict[str, Callable[[PartWork, Path], None]] = {
 BREP_FILE = "solid.brep"  # kept in the cache entry only, for the assembly
 
 
-def build_part_files(part: Any, options: BuildOptions, dest: Path) -> list[str]:
+def build_part_files(part: Part, options: BuildOptions, dest: Path) -> list[str]:
     """Write every file of ``part`` under ``dest``; returns their relative paths."""
     safe_name(part.name)
     work = PartWork(

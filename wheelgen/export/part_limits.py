@@ -10,12 +10,13 @@ from typing import Any
 
 from ..design.bounds import BOUNDS
 from ..design.names import name_key
+from ..layout.part_kinds import Part
 from .staging import UnsafeNameError, safe_name
 
 __all__ = ["PartSizeError", "check_part_names", "check_part_sizes"]
 
 
-def check_part_names(parts: Sequence[Any]) -> None:
+def check_part_names(parts: Sequence[Part]) -> None:
     """The name rule on every part, and no two names one file on any disk."""
     seen: dict[str, str] = {}
     for p in parts:
@@ -36,7 +37,7 @@ class PartSizeError(ValueError):
     """A planned part has a size the CAD kernel cannot make (out of its bounds)."""
 
 
-def check_part_sizes(parts: Sequence[Any]) -> None:
+def check_part_sizes(parts: Sequence[Part]) -> None:
     """Refuse, before the kernel runs, a part with a size beyond the bounds table.
 
     The loader bounds every key of a design; this catches what follows from them (and

@@ -8,7 +8,7 @@ part's own frame (axis along +Z, back face at z = 0) into the assembly.
 from __future__ import annotations
 
 from dataclasses import dataclass
-from typing import Literal, Union
+from typing import Literal, TypeGuard, Union
 
 from ..teeth.spec import ToothSpec
 
@@ -40,6 +40,10 @@ __all__ = [
     "DISPLAY_KINDS",
     "TURNED_KINDS",
     "ItemSeat",
+    "TurnedPart",
+    "DisplayPart",
+    "is_turned",
+    "is_display",
 ]
 
 SeatShape = Literal["round", "square", "hex", "pinned", "flat"]
@@ -481,3 +485,18 @@ FLAT_KINDS = frozenset({"wheel", "plate", "hand", "dial", "crank"})
 TURNED_KINDS = frozenset({"arbor", "sleeve", "collar"})
 #: Kinds of part that the display adds (wheelgen.display).
 DISPLAY_KINDS = frozenset({"hand", "dial", "knob", "crank"})
+
+#: The part kinds of :data:`TURNED_KINDS`.
+TurnedPart = Union[ArborPart, SleevePart, CollarPart]
+#: The part kinds of :data:`DISPLAY_KINDS`.
+DisplayPart = Union[HandPart, DialPart, KnobPart, CrankPart]
+
+
+def is_turned(part: Part) -> TypeGuard[TurnedPart]:
+    """Is the part of a kind turned on a lathe (:data:`TURNED_KINDS`)?"""
+    return part.kind in TURNED_KINDS
+
+
+def is_display(part: Part) -> TypeGuard[DisplayPart]:
+    """Is the part one the display adds (:data:`DISPLAY_KINDS`)?"""
+    return part.kind in DISPLAY_KINDS
