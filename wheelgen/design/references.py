@@ -43,10 +43,46 @@ def check_references(
     """
     by_arbor = {a.name: a for a in arbors}
     by_wheel = {w.name: w for w in wheels}
+    _check_unique_names(rd, (arbors, wheels, pinslots))
+    if not arbors and not rd.arbor_tables:
+        rd.problem(
+            Where(rd.file, "[[arbor]]"),
+            "no [[arbor]] tables",
+            "at least one arbor",
+        )
+    for a in arbors:
+        if a.around is not None:
+            _refers(rd, a.where, "around", a.around, by_arbor, "arbor")
+        if a.carrier is not None:
+            _refers(rd, a.where, "carrier", a.carrier, by_wheel, "wheel")
+    for w in wheels:
+        _refers(rd, w.where, "arbor", w.arbor, by_arbor, "arbor")
+    for m in meshes:
+        for name in m.pair:
+            _refers(rd, m.where, "pair", name, by_wheel, "wheel")
+    for p in pinslots:
+        _refers(rd, p.where, "pin", p.pin, by_wheel, "wheel")
+        _refers(rd, p.where, "slot", p.slot, by_wheel, "wheel")
+    if drive is not None:
+        _check_drive(rd, drive, by_arbor)
+    for t in targets:
+        _refers(rd, t.where, "arbor", t.arbor, by_arbor, "arbor")
+    if rd.problems:
+        return
+    if not _check_chains(rd, by_arbor, by_wheel):
+        return
+    _check_pairs(rd, by_arbor, by_wheel, meshes, pinslots)
+    _check_placement(rd, by_arbor, by_wheel, meshes, pinslots)
+
+
+def _check_unique_names(
+    rd: FileReader, groups: tuple[list[Arbor], list[Wheel], list[PinSlot]]
+) -> None:
+    """Names unique across arbors, wheels and couplings, whatever their case."""
     # names become file names: two that a case-insensitive disk takes for one
     # file ("Sun", "sun") collide as surely as two equal ones
     seen: dict[str, tuple[str, Where | None]] = {}
-    for items in (arbors, wheels, pinslots):
+    for items in groups:
         for it in items:
             key = name_key(it.name)
             if key in seen:
@@ -67,71 +103,52 @@ def check_references(
             else:
                 seen[key] = (it.name, it.where)
 
-    def ref(
-        where: Where | None, key: str, name: str, pool: dict[str, Any], what: str
-    ) -> bool:
-        if name in pool:
-            return True
-        if name in rd.broken.get(what, ()):
-            return False  # that item's own problem is reported already
-        if rd.full():  # a hint costs a comparison with every name
-            rd.left_out += 1
-            return False
-        close = difflib.get_close_matches(name, list(pool), n=1, cutoff=0.5)
-        w = rd.at_key(where, key)
-        rd.problem(
-            w,
-            f"{what} {show(name)} does not exist",
-            f"the name of one of the {what}s: " + listed(pool),
-            f'Did you mean "{close[0]}"?' if close else "",
-        )
-        return False
 
-    if not arbors and not rd.arbor_tables:
-        rd.problem(
-            Where(rd.file, "[[arbor]]"),
-            "no [[arbor]] tables",
-            "at least one arbor",
-        )
-    for a in arbors:
-        if a.around is not None:
-            ref(a.where, "around", a.around, by_arbor, "arbor")
-        if a.carrier is not None:
-            ref(a.where, "carrier", a.carrier, by_wheel, "wheel")
-    for w in wheels:
-        ref(w.where, "arbor", w.arbor, by_arbor, "arbor")
-    for m in meshes:
-        for name in m.pair:
-            ref(m.where, "pair", name, by_wheel, "wheel")
-    for p in pinslots:
-        ref(p.where, "pin", p.pin, by_wheel, "wheel")
-        ref(p.where, "slot", p.slot, by_wheel, "wheel")
-    if drive is not None and ref(drive.where, "arbor", drive.arbor, by_arbor, "arbor"):
+def _refers(
+    rd: FileReader,
+    where: Where | None,
+    key: str,
+    name: str,
+    pool: dict[str, Any],
+    what: str,
+) -> bool:
+    """Does ``name`` (the value of ``key``) name one of ``pool``? If not, say so,
+    with a "did you mean", unless that item's own problem is reported already."""
+    if name in pool:
+        return True
+    if name in rd.broken.get(what, ()):
+        return False  # that item's own problem is reported already
+    if rd.full():  # a hint costs a comparison with every name
+        rd.left_out += 1
+        return False
+    close = difflib.get_close_matches(name, list(pool), n=1, cutoff=0.5)
+    w = rd.at_key(where, key)
+    rd.problem(
+        w,
+        f"{what} {show(name)} does not exist",
+        f"the name of one of the {what}s: " + listed(pool),
+        f'Did you mean "{close[0]}"?' if close else "",
+    )
+    return False
+
+
+def _check_drive(rd: FileReader, drive: Drive, by_arbor: dict[str, Arbor]) -> None:
+    """The drive's arbor exists and can turn."""
+    if _refers(rd, drive.where, "arbor", drive.arbor, by_arbor, "arbor"):
         if by_arbor[drive.arbor].fixed:
             rd.problem(
                 rd.at_key(drive.where, "arbor"),
                 f'the drive arbor "{drive.arbor}" is fixed',
                 "an arbor that can turn",
             )
-    for t in targets:
-        ref(t.where, "arbor", t.arbor, by_arbor, "arbor")
-    if rd.problems:
-        return
-    _check_structure(rd, by_arbor, by_wheel, meshes, pinslots)
 
 
-def _check_structure(
-    rd: FileReader,
-    by_arbor: dict[str, Arbor],
-    by_wheel: dict[str, Wheel],
-    meshes: list[Mesh],
-    pinslots: list[PinSlot],
-) -> None:
+def _check_chains(
+    rd: FileReader, by_arbor: dict[str, Arbor], by_wheel: dict[str, Wheel]
+) -> bool:
+    """'around' and 'carrier' chains end, within the nesting bounds; True if so."""
+
     # 'around' chains must end; carriers must not carry themselves (directly or not).
-    """No cycles of 'around'/'carrier', nesting within bounds, meshes across
-    axes of one pitch system, couplings across arbors, every arbor placeable.
-    """
-
     def parent(a: Arbor) -> str | None:
         if a.around is not None:
             return a.around
@@ -173,8 +190,18 @@ def _check_structure(
             coaxial[name] = coaxial[arbor.around] + 1 if arbor.around else 1
             carried[name] = (carried[up] if up else 0) + bool(arbor.carrier)
             too_deep |= _check_depth(rd, arbor, coaxial[name], carried[name])
-    if bad or too_deep:
-        return
+    return not (bad or too_deep)
+
+
+def _check_pairs(
+    rd: FileReader,
+    by_arbor: dict[str, Arbor],
+    by_wheel: dict[str, Wheel],
+    meshes: list[Mesh],
+    pinslots: list[PinSlot],
+) -> None:
+    """Meshing wheels on arbors of different axes and of one pitch system; a
+    coupling's wheels on two arbors."""
 
     def axis(name: str) -> str:
         return axis_root_of(by_arbor, name)
@@ -210,7 +237,6 @@ def _check_structure(
                 f'pin wheel and slot wheel both sit on arbor "{by_wheel[p.pin].arbor}"',
                 "wheels on two different arbors",
             )
-    _check_placement(rd, by_arbor, by_wheel, meshes, pinslots)
 
 
 def _check_depth(rd: FileReader, arbor: Arbor, coaxial: int, carried: int) -> bool:
