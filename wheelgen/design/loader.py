@@ -53,8 +53,7 @@ TABLE_BOUNDS = {
     "hand": BOUNDS["hands"],
     "dial": BOUNDS["dials"],
 }
-
-
+#: The tables (and keys) a train file may have at its top.
 TOP_KEYS = (
     "design",
     "defaults",
@@ -81,17 +80,9 @@ TOP_KEYS = (
 # Possessive runs (``++``) and a run of key characters skipped as one token keep the scan
 # linear: a long run of digits is tried once, not once per character.
 _BARE = r"[A-Za-z0-9_-]++"
-
-
 _BASIC = r'"(?:[^"\\\n]|\\.)*+"'
-
-
 _LITERAL = r"'[^'\n]*+'"
-
-
 _PART = rf"(?:{_BARE}|{_BASIC}|{_LITERAL})"
-
-
 _DEEP_KEY = re.compile(
     rf"(?P<deep>{_PART}(?:[ \t]*\.[ \t]*{_PART}){{{int(BOUNDS['nesting'].high)},}})"
     rf'|"""[\s\S]*?"""|' + r"'''[\s\S]*?'''|" + rf"{_BASIC}|{_LITERAL}|#[^\n]*+"

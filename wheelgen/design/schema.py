@@ -120,11 +120,7 @@ COORDINATE = "each a number (mm) or text with its unit, " + BOUNDS["position"].a
 #: Periods from a microsecond to a million years: beyond them a float cannot hold the
 #: derived rates and periods of a long train.
 MIN_PERIOD_S = Fraction(BOUNDS["period_s"].low)
-
-
 MAX_PERIOD_S = Fraction(BOUNDS["period_s"].high)
-
-
 _PERIOD_ALLOWED = (
     'a positive number and a unit (s, min, h, d, yr), such as "27.321661 d", '
     + BOUNDS["period_s"].allowed()

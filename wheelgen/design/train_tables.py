@@ -45,12 +45,9 @@ __all__ = [
     "read_wheels",
 ]
 
+#: The fewest and most teeth a wheel may have.
 MIN_TEETH = int(BOUNDS["teeth"].low)
-
-
 MAX_TEETH = int(BOUNDS["teeth"].high)
-
-
 #: Turns per drive turn that a target may ask for.
 MIN_TURNS, MAX_TURNS = Fraction(BOUNDS["turns"].low), Fraction(BOUNDS["turns"].high)
 

@@ -1,6 +1,7 @@
 """How a build is made: :class:`BuildOptions` (formats, jobs, cache, tolerance, units).
 
-The options that decide a part's bytes are part of its cache key (:meth:`BuildOptions.key_options`).
+The options that decide a part's bytes are part of its cache key
+(:meth:`BuildOptions.key_options`).
 """
 
 from __future__ import annotations
@@ -14,7 +15,8 @@ from .formats import DXF_CURVES, FORMATS, MESH_TOLERANCE
 
 __all__ = ["MESH_ANGLE_DEG", "BuildOptions"]
 
-#: The largest angle (degrees) between a mesh's neighbouring facets.
+#: The angular deflection (degrees) of the STL and 3MF meshes, beside the chord
+#: tolerance of the options (part of every part's cache key).
 MESH_ANGLE_DEG = 30.0
 
 
