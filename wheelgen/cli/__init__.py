@@ -29,11 +29,13 @@ def main() -> None:
       wheelgen check DESIGN     exact rates, targets and every check
       wheelgen motion DESIGN    uneven motion from pin-and-slot couplings
       wheelgen build DESIGN     parts as STEP, STL, 3MF, DXF and 1:1 SVG, and sheets
-      wheelgen gear -z Z -m M   data sheet of one wheel or a pair
+      wheelgen gear -z Z -m M   data sheet of one wheel or a pair (or --dp P: inch pitch)
       wheelgen index TEETH      dividing-head indexing for a tooth count
 
     Without DESIGN, the bundled demo (harbour_tide_clock.toml, installed with the
-    package) is used.
+    package) is used. A build writes the part files, the workshop sheets (cutting or
+    print sheet, drilling charts, bill of parts, turned-part drawings, elevation,
+    assembly order) and report.html into output/<design name>/.
     """
 
 
