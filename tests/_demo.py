@@ -2,16 +2,11 @@
 
 from __future__ import annotations
 
-from pathlib import Path
+from wheelgen.design import Design, demo_path, loads_design
 
-from wheelgen.design import Design, loads_design
-
-DEMO_TEXT = (
-    Path(__file__).resolve().parents[1]
-    / "wheelgen"
-    / "designs"
-    / "harbour_tide_clock.toml"
-).read_text()
+#: The bundled demo's train file, where the installed package keeps it.
+DEMO = demo_path()
+DEMO_TEXT = DEMO.read_text()
 
 
 def demo_text(*pairs: tuple[str, str]) -> str:

@@ -16,6 +16,8 @@ from pathlib import Path
 
 import pytest
 
+from tests._demo import DEMO
+
 pytest.importorskip("cadquery")
 
 pytestmark = [
@@ -26,8 +28,6 @@ pytestmark = [
     ),
 ]
 
-ROOT = Path(__file__).resolve().parents[1]
-DEMO = ROOT / "wheelgen" / "designs" / "harbour_tide_clock.toml"
 # Deadlines of the waits below: a stuck build or a worker left behind fails the test
 # when they pass (they bound the wait; nothing is timed).
 _START_S, _END_S = 180.0, 30.0

@@ -13,10 +13,9 @@ from click.testing import CliRunner
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
+from tests._demo import DEMO
 from wheelgen.cli.check import check_command
 
-ROOT = Path(__file__).parents[1]
-DEMO = ROOT / "wheelgen" / "designs" / "harbour_tide_clock.toml"
 DATA = Path(__file__).parent / "data"
 
 

@@ -14,19 +14,13 @@ import json
 import math
 import subprocess
 import sys
-from pathlib import Path
 
 import pytest
 from click.testing import CliRunner
 
+from tests._demo import DEMO
 from wheelgen.cli import main
 
-DEMO = (
-    Path(__file__).resolve().parents[1]
-    / "wheelgen"
-    / "designs"
-    / "harbour_tide_clock.toml"
-)
 ALPHA = math.degrees(math.asin(0.8 / 8.0))  # 5.7392 deg
 MOON_DAYS = 11074 / 375  # derived: main 1/d, 25/113 * 15/98
 

@@ -2,10 +2,9 @@
 
 from __future__ import annotations
 
-from pathlib import Path
-
 import pytest
 
+from tests._demo import DEMO_TEXT
 from wheelgen.checks import run_checks
 from wheelgen.design import loads_design
 from wheelgen.display.motion import hand_angles_deg, joint_cycle_turns
@@ -131,13 +130,6 @@ def test_printed_hands_need_their_layers_and_lines():
     # one change puts both right, so the second comes under the first
     assert str(found[0].changes[0]) == "hand_thickness = 0.8 on [display]"
 
-
-DEMO_TEXT = (
-    Path(__file__).resolve().parents[1]
-    / "wheelgen"
-    / "designs"
-    / "harbour_tide_clock.toml"
-).read_text()
 
 ADVICE_CASES = [
     # dials let down to 2 mm from the plate sit on the heads of the moon cock's screws

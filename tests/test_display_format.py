@@ -6,11 +6,10 @@ from pathlib import Path
 
 import pytest
 
+from tests._demo import DEMO, DEMO_TEXT
 from wheelgen.design import DesignError, load_design, loads_design
 
 ROOT = Path(__file__).resolve().parents[1]
-DEMO = ROOT / "wheelgen" / "designs" / "harbour_tide_clock.toml"
-DEMO_TEXT = DEMO.read_text()
 
 
 def _problems(extra: str) -> list[str]:

@@ -7,6 +7,7 @@ from pathlib import Path
 import numpy as np
 import pytest
 
+from tests._demo import DEMO, DEMO_TEXT
 from wheelgen.checks import run_checks
 from wheelgen.design import load_design, loads_design
 from wheelgen.display.checks import hand_min_distance
@@ -17,8 +18,6 @@ from wheelgen.parts import plan_parts
 from wheelgen.workshop.drilling import chart_holes
 
 ROOT = Path(__file__).resolve().parents[1]
-DEMO = ROOT / "wheelgen" / "designs" / "harbour_tide_clock.toml"
-DEMO_TEXT = DEMO.read_text()
 WEEK = ROOT / "tests" / "data" / "display" / "week_and_month.toml"
 
 

@@ -8,10 +8,10 @@ from __future__ import annotations
 
 import math
 import xml.etree.ElementTree as ET
-from pathlib import Path
 
 import pytest
 
+from tests._demo import DEMO
 from wheelgen.design import load_design
 from wheelgen.display.plan import display_plan
 from wheelgen.kinematics.rates import solve_rates
@@ -19,12 +19,6 @@ from wheelgen.workshop.dial_preview import dials_svg
 from wheelgen.workshop.preview import preview_plan
 from wheelgen.workshop.report import report_html
 
-DEMO = (
-    Path(__file__).resolve().parents[1]
-    / "wheelgen"
-    / "designs"
-    / "harbour_tide_clock.toml"
-)
 NS = "{http://www.w3.org/2000/svg}"
 DAY = 86400.0
 

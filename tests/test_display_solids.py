@@ -14,6 +14,7 @@ pytest.importorskip("cadquery")
 import ezdxf  # noqa: E402
 from _assembly import placed_solids  # noqa: E402
 
+from tests._demo import DEMO
 from wheelgen.design import load_design  # noqa: E402
 from wheelgen.display.outlines import flat_profile  # noqa: E402
 from wheelgen.export.build import BuildOptions, build_design  # noqa: E402
@@ -24,7 +25,6 @@ pytestmark = pytest.mark.cad
 
 ROOT = Path(__file__).resolve().parents[1]
 WEEK = ROOT / "tests" / "data" / "display" / "week_and_month.toml"
-DEMO = ROOT / "wheelgen" / "designs" / "harbour_tide_clock.toml"
 DISPLAY_KINDS = ("hand", "dial", "knob", "crank")
 
 

@@ -26,6 +26,7 @@ from _dxf_readback import (
 from click.testing import CliRunner
 from ezdxf.math import fit_points_to_cad_cv
 
+from tests._demo import DEMO
 from wheelgen.cli import main
 from wheelgen.export.biarcs import biarc_segments
 from wheelgen.export.build import BuildOptions, build_design
@@ -39,8 +40,6 @@ from wheelgen.teeth.forms import outline_for
 from wheelgen.teeth.involute_tooth import generate_tooth
 from wheelgen.teeth.spec import ToothSpec
 
-ROOT = Path(__file__).resolve().parents[1]
-DEMO = ROOT / "wheelgen" / "designs" / "harbour_tide_clock.toml"
 TOL = 0.01  # mm, the default mesh tolerance: the arcs' budget
 
 

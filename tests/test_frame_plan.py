@@ -19,7 +19,7 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from tests._demo import DEMO_TEXT, demo_variant
+from tests._demo import DEMO, DEMO_TEXT, demo_variant
 from wheelgen.checks.engine import analyse
 from wheelgen.design import DesignError, load_design, loads_design
 from wheelgen.frame import frame_findings, frame_parts, plan_frame
@@ -30,7 +30,6 @@ from wheelgen.layout.train_layout import plan_layout
 from wheelgen.parts import plan_parts
 
 DATA = Path(__file__).parent / "data"
-DEMO = Path(__file__).parent.parent / "wheelgen" / "designs" / "harbour_tide_clock.toml"
 PAIR = (DATA / "layout" / "pair.toml").read_text(encoding="utf-8")
 
 

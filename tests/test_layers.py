@@ -23,10 +23,11 @@ from dataclasses import dataclass
 from functools import cache
 from pathlib import Path
 
+from tests._demo import DEMO
+
 ROOT = Path(__file__).resolve().parents[1]
 PACKAGE = ROOT / "wheelgen"
 GUIDE = ROOT / "DEVELOPERS.md"
-DEMO = ROOT / "wheelgen" / "designs" / "harbour_tide_clock.toml"
 
 #: Libraries a row may name in its "may import" column (the rest is the stdlib).
 THIRD_PARTY = ("numpy", "scipy", "matplotlib", "ezdxf", "click", "cadquery", "OCP")

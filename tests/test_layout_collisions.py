@@ -5,12 +5,12 @@ from pathlib import Path
 
 import pytest
 
+from tests._demo import DEMO
 from wheelgen.checks.engine import analyse
 from wheelgen.checks.layout_checks import layout_findings
 from wheelgen.design.loader import load_design, loads_design
 
 DATA = Path(__file__).parent / "data" / "layout"
-DEMO = Path(__file__).parent.parent / "wheelgen" / "designs" / "harbour_tide_clock.toml"
 
 # Tip radii at m = 1, x = 0: r_a = m (z / 2 + h_a).
 # Involute: ISO 21771:2007 d_a = d + 2 m (h_aP* + x) with h_aP* = 1 (ISO 53:1998 basic

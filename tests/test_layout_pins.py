@@ -4,6 +4,7 @@ from pathlib import Path
 
 import pytest
 
+from tests._demo import DEMO
 from wheelgen.checks.engine import analyse
 from wheelgen.checks.layout_checks import layout_findings
 from wheelgen.design.loader import load_design, loads_design
@@ -11,7 +12,6 @@ from wheelgen.layout import plan_layout
 from wheelgen.layout.collisions import pin_sweeps
 
 DATA = Path(__file__).parent / "data" / "layout"
-DEMO = Path(__file__).parent.parent / "wheelgen" / "designs" / "harbour_tide_clock.toml"
 
 # pin_third_wheel.toml: pin radius 8 mm, pin diameter 2 mm, so the pin sweeps radii 7 to
 # 9 mm about arbor "p" (derived: r -/+ d/2). The third wheel "wt" has 30 teeth, m 1, x =

@@ -5,6 +5,7 @@ from pathlib import Path
 
 import pytest
 
+from tests._demo import DEMO
 from wheelgen.checks.engine import analyse
 from wheelgen.checks.layout_checks import layout_findings
 from wheelgen.design.loader import load_design, loads_design
@@ -13,7 +14,6 @@ from wheelgen.layout.placement import place_axes, working_centre_distance
 from wheelgen.teeth.spec import ToothSpec
 
 DATA = Path(__file__).parent / "data" / "layout"
-DEMO = Path(__file__).parent.parent / "wheelgen" / "designs" / "harbour_tide_clock.toml"
 
 # Triangle a-b-c with sides 25, 35, 30 mm (m = 1: 20+30, 30+40, 20+40 teeth).
 # Derived: law of cosines, cos(angle at a) = (25^2 + 30^2 - 35^2) / (2 25 30) = 0.2.

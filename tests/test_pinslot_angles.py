@@ -10,11 +10,11 @@ from __future__ import annotations
 
 import math
 from fractions import Fraction
-from pathlib import Path
 
 import numpy as np
 import pytest
 
+from tests._demo import DEMO
 from wheelgen.design import load_design, loads_design
 from wheelgen.kinematics.angles import (
     angle_model,
@@ -23,13 +23,6 @@ from wheelgen.kinematics.angles import (
     coupling_deviations,
 )
 from wheelgen.kinematics.rates import solve_rates
-
-DEMO = (
-    Path(__file__).resolve().parents[1]
-    / "wheelgen"
-    / "designs"
-    / "harbour_tide_clock.toml"
-)
 
 HEAD = """
 [design]

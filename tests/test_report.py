@@ -17,6 +17,7 @@ from pathlib import Path
 import pytest
 from _browser import screenshot
 
+from tests._demo import DEMO
 from wheelgen.checks import analyse
 from wheelgen.design import load_design
 from wheelgen.findings import Finding
@@ -27,8 +28,6 @@ from wheelgen.workshop.drilling import chart_holes
 from wheelgen.workshop.parts_bill import parts_sheet_writer
 from wheelgen.workshop.report import report_html, report_writer
 
-ROOT = Path(__file__).resolve().parent.parent
-DEMO = ROOT / "wheelgen" / "designs" / "harbour_tide_clock.toml"
 SVG_NS = "http://www.w3.org/2000/svg"
 VOID = {"area", "base", "br", "col", "embed", "hr", "img", "input", "link", "meta",
         "source", "track", "wbr"}  # fmt: skip

@@ -16,6 +16,7 @@ from pathlib import Path
 import numpy as np
 import pytest
 
+from tests._demo import DEMO
 from wheelgen.design import load_design
 from wheelgen.kinematics import solve_rates
 from wheelgen.layout import arbor_positions
@@ -27,7 +28,7 @@ ROOT = Path(__file__).resolve().parent.parent
 DATA = ROOT / "tests" / "data"
 SVG = "{http://www.w3.org/2000/svg}"
 DESIGNS = [
-    ROOT / "wheelgen" / "designs" / "harbour_tide_clock.toml",
+    DEMO,
     *sorted(DATA.glob("*.toml")),
     *sorted((DATA / "frame").glob("*.toml")),
     *sorted((DATA / "display").glob("*.toml")),

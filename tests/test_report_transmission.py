@@ -18,6 +18,7 @@ import numpy as np
 import pytest
 from _browser import screenshot
 
+from tests._demo import DEMO
 from wheelgen.checks import analyse
 from wheelgen.design import load_design
 from wheelgen.parts import plan_parts
@@ -25,7 +26,6 @@ from wheelgen.workshop.report import report_html
 from wheelgen.workshop.te_plot import mesh_te_curves, te_comparison_svg, te_plot_svg
 
 DATA = Path(__file__).parent / "data"
-ROOT = Path(__file__).resolve().parent.parent
 SVG = "{http://www.w3.org/2000/svg}"
 
 
@@ -84,7 +84,7 @@ def test_report_shows_both_forms_side_by_side_and_every_mesh(two_forms):
 
 
 def test_a_design_with_one_form_has_no_comparison():
-    design = load_design(ROOT / "wheelgen" / "designs" / "harbour_tide_clock.toml")
+    design = load_design(DEMO)
     page = report_html(design, plan_parts(design), analyse(design).findings)
     section = _section(page)
     assert "Why the tooth form matters" not in section

@@ -31,6 +31,7 @@ from pathlib import Path
 import numpy as np
 import pytest
 
+from tests._demo import DEMO
 from wheelgen.design import load_design
 from wheelgen.layout.part_kinds import WheelPart
 from wheelgen.parts import plan_parts
@@ -47,12 +48,6 @@ from wheelgen.workshop.cutting import (
 )
 
 DATA = Path(__file__).resolve().parent / "data"
-DEMO = (
-    Path(__file__).resolve().parent.parent
-    / "wheelgen"
-    / "designs"
-    / "harbour_tide_clock.toml"
-)
 
 
 def _tri(z: int, m: float = 1.0, angle: float = 60.0, **kw: float) -> ToothSpec:

@@ -26,6 +26,7 @@ from pathlib import Path
 
 import pytest
 
+from tests._demo import DEMO
 from wheelgen.design import load_design
 from wheelgen.layout.part_kinds import ArborPart, WheelPart
 from wheelgen.parts import plan_parts
@@ -37,13 +38,6 @@ from wheelgen.workshop.cutting import (
     cutting_rows,
     cutting_sheet_writer,
     indexing_text,
-)
-
-DEMO = (
-    Path(__file__).resolve().parent.parent
-    / "wheelgen"
-    / "designs"
-    / "harbour_tide_clock.toml"
 )
 
 

@@ -16,6 +16,7 @@ from pathlib import Path
 import numpy as np
 import pytest
 
+from tests._demo import DEMO
 from wheelgen.design import load_design
 from wheelgen.kinematics import solve_rates
 from wheelgen.kinematics.angles import arbor_angles
@@ -33,7 +34,6 @@ from wheelgen.workshop.train_diagram import (
 )
 
 ROOT = Path(__file__).resolve().parent.parent
-DEMO = ROOT / "wheelgen" / "designs" / "harbour_tide_clock.toml"
 TWO_STAGE = ROOT / "tests" / "data" / "two_stage.toml"
 SVG = "{http://www.w3.org/2000/svg}"
 

@@ -12,7 +12,7 @@ from pathlib import Path
 import numpy as np
 import pytest
 
-from tests._demo import DEMO_TEXT
+from tests._demo import DEMO, DEMO_TEXT
 from wheelgen.design import DesignError
 from wheelgen.design.loader import load_design, loads_design
 from wheelgen.design.names import xml_text
@@ -21,7 +21,6 @@ from wheelgen.frame.plan import plan_frame
 from wheelgen.workshop.drilling import drilling_csv, drilling_sheet_writer, drilling_svg
 
 DATA = Path(__file__).parent / "data" / "layout"
-DEMO = Path(__file__).parent.parent / "wheelgen" / "designs" / "harbour_tide_clock.toml"
 NS = "{http://www.w3.org/2000/svg}"
 
 

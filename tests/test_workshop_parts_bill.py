@@ -14,6 +14,7 @@ from pathlib import Path
 
 import pytest
 
+from tests._demo import DEMO
 from wheelgen.design import load_design
 from wheelgen.display import display_plan
 from wheelgen.layout import train_parts
@@ -32,13 +33,6 @@ from wheelgen.workshop.parts_bill import (
     parts_csv,
     parts_sheet_writer,
     wheel_profile_area,
-)
-
-DEMO = (
-    Path(__file__).resolve().parent.parent
-    / "wheelgen"
-    / "designs"
-    / "harbour_tide_clock.toml"
 )
 
 
