@@ -32,8 +32,6 @@ member's back end, and a member put in its end shake, in the design's units.
 
 from __future__ import annotations
 
-import csv
-import io
 import math
 from dataclasses import dataclass
 from pathlib import Path
@@ -60,6 +58,7 @@ from ..layout.part_kinds import (
     WheelPart,
 )
 from ..layout.placement import nominal_tip_radius
+from .csv_text import csv_text
 
 __all__ = [
     "ASSEMBLY_FILE",
@@ -953,12 +952,13 @@ def assembly_steps(design: Design, parts: Sequence[Part]) -> tuple[Step, ...]:
 
 def assembly_csv(design: Design, parts: Sequence[Part]) -> str:
     """``assembly.csv`` as text: a header, then one row per step."""
-    buf = io.StringIO()
-    w = csv.writer(buf, lineterminator="\n")
-    w.writerow(ASSEMBLY_COLUMNS)
-    for s in assembly_steps(design, parts):
-        w.writerow([s.number, s.part, s.action, s.onto, s.note])
-    return buf.getvalue()
+    return csv_text(
+        ASSEMBLY_COLUMNS,
+        (
+            [s.number, s.part, s.action, s.onto, s.note]
+            for s in assembly_steps(design, parts)
+        ),
+    )
 
 
 def assembly_writer(

@@ -18,8 +18,6 @@ triangular_cut`) and are checked over pins that touch the flanks on the pitch ci
 
 from __future__ import annotations
 
-import csv
-import io
 import math
 from dataclasses import dataclass
 from pathlib import Path
@@ -31,6 +29,7 @@ from ..findings import Finding
 from ..layout.part_kinds import Part, WheelPart
 from ..teeth.gear_data import gear_data
 from ..teeth.triangular_cut import TriangularCut, triangular_cut
+from .csv_text import csv_text
 from .cutter_drawing import cutter_svg
 from .indexing import IndexPlan, indexing_plan
 
@@ -325,12 +324,7 @@ def holes_text(
 def cutting_csv(rows: Sequence[CuttingRow], lengths: Lengths = MM) -> str:
     """The cutting sheet as CSV text (header first, ``\\n`` line ends), its lengths
     in ``lengths``' units."""
-    buf = io.StringIO()
-    writer = csv.writer(buf, lineterminator="\n")
-    writer.writerow(cutting_columns(lengths))
-    for row in rows:
-        writer.writerow(_csv_row(row, lengths))
-    return buf.getvalue()
+    return csv_text(cutting_columns(lengths), (_csv_row(row, lengths) for row in rows))
 
 
 def cutting_sheet_writer(

@@ -20,8 +20,6 @@ them, on both plates.
 
 from __future__ import annotations
 
-import csv
-import io
 import math
 from collections.abc import Sequence
 from dataclasses import dataclass
@@ -36,6 +34,7 @@ from ..kinematics.rates import axis_root
 from ..layout.part_kinds import Part
 from ..layout.train_layout import plan_layout
 from ._svg import esc
+from .csv_text import csv_text
 
 __all__ = [
     "ChartHole",
@@ -96,20 +95,17 @@ def drilling_csv(design: Design, plate: str) -> str:
     units (the columns name them)."""
     u = lengths_of(design)
     col = u.col
-    buf = io.StringIO()
-    w = csv.writer(buf, lineterminator="\n")
-    w.writerow(
-        ["plate", "hole", "member", col("x"), col("y"), col("diameter"), "fit",
-         col("low"), col("high"), "role", col("position_tolerance")]
-    )  # fmt: skip
     tol = plan_frame(design).limits.position_tolerance if design.frame else 0.0
     n = u.num
-    for h in chart_holes(design, plate):
-        w.writerow(
+    return csv_text(
+        ["plate", "hole", "member", col("x"), col("y"), col("diameter"), "fit",
+         col("low"), col("high"), "role", col("position_tolerance")],
+        (
             [h.plate, h.number, h.member, n(h.x, 4), n(h.y, 4), n(h.nominal, 4),
              h.fit, n(h.low, 4), n(h.high, 4), h.role, n(tol, 4)]
-        )  # fmt: skip
-    return buf.getvalue()
+            for h in chart_holes(design, plate)
+        ),
+    )  # fmt: skip
 
 
 def _mesh_lines(

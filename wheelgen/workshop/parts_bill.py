@@ -20,8 +20,6 @@ where they are one).
 
 from __future__ import annotations
 
-import csv
-import io
 import math
 from dataclasses import dataclass
 from pathlib import Path
@@ -54,6 +52,7 @@ from ..layout.part_kinds import (
 )
 from ..layout.wheel_profile import plate_profile
 from ..teeth.forms import outline_for
+from .csv_text import csv_text
 
 __all__ = [
     "BillRow",
@@ -628,11 +627,9 @@ def parts_csv(rows: Sequence[BillRow], lengths: Lengths = MM) -> str:
     """The bill of parts as CSV text (header first, ``\\n`` line ends), its lengths
     in ``lengths``' units."""
     num = lengths.num
-    buf = io.StringIO()
-    writer = csv.writer(buf, lineterminator="\n")
-    writer.writerow(parts_columns(lengths))
-    for r in rows:
-        writer.writerow(
+    return csv_text(
+        parts_columns(lengths),
+        (
             [
                 r.part,
                 r.kind,
@@ -649,8 +646,9 @@ def parts_csv(rows: Sequence[BillRow], lengths: Lengths = MM) -> str:
                 r.fits,
                 r.note,
             ]
-        )
-    return buf.getvalue()
+            for r in rows
+        ),
+    )
 
 
 def parts_sheet_writer(

@@ -21,8 +21,6 @@ design's units (:class:`wheelgen.design.units.Lengths`), each column naming its 
 
 from __future__ import annotations
 
-import csv
-import io
 import math
 from dataclasses import dataclass, replace
 from pathlib import Path
@@ -34,6 +32,7 @@ from ..checks.bed_check import EDGE_SPACING
 from ..design.model import Design
 from ..design.units import MM, Lengths, lengths_of
 from ..layout.part_kinds import BOUGHT_KINDS, ArborPart, Part, PinPart
+from .csv_text import csv_text
 from .stl_file import read_stl
 
 __all__ = [
@@ -220,11 +219,9 @@ def print_csv(rows: Sequence[PrintRow], lengths: Lengths = MM) -> str:
     def num(v: float | None) -> str:
         return lengths.num(v, 2)
 
-    buf = io.StringIO()
-    writer = csv.writer(buf, lineterminator="\n")
-    writer.writerow(print_columns(lengths))
-    for r in rows:
-        writer.writerow(
+    return csv_text(
+        print_columns(lengths),
+        (
             [
                 r.part,
                 r.kind,
@@ -237,8 +234,9 @@ def print_csv(rows: Sequence[PrintRow], lengths: Lengths = MM) -> str:
                 num(r.height),
                 r.note,
             ]
-        )
-    return buf.getvalue()
+            for r in rows
+        ),
+    )
 
 
 def printed(part: Part) -> bool:
